@@ -1,0 +1,46 @@
+// Fitting thermistor models to R–T points: Steinhart–Hart from three points exactly or from N ≥ 3 by
+// least squares, and the beta model (R0, B) by least squares, each with its residuals in temperature.
+#pragma once
+
+#include <vector>
+
+#include "rtline/thermistor.hpp"
+
+namespace rtline {
+
+// A point and the temperature error of the fitted model there: T_model(R) − T, in kelvin.
+struct Residual {
+    double t_k = 0.0;
+    double r_ohm = 0.0;
+    double residual_k = 0.0;
+};
+
+struct ShFit {
+    SteinhartHart model;
+    std::vector<Residual> residuals;
+    double max_residual_k = 0.0;  // largest |residual|
+};
+
+struct BetaFit {
+    BetaModel model;
+    std::vector<Residual> residuals;
+    double max_residual_k = 0.0;
+};
+
+// Coefficients through three points exactly (Lᵢ = ln Rᵢ, Yᵢ = 1/Tᵢ; the closed form in REFERENCES).
+// Requires three distinct temperatures with distinct resistances.
+[[nodiscard]] SteinhartHart steinhart_hart_three_point(const RtPoint& p1, const RtPoint& p2, const RtPoint& p3);
+
+// Steinhart–Hart through validated points (at least 3). Three points: exact. More: least squares on
+// 1/T = a + b·L + c·L³, each row weighted by T² so that it minimizes temperature residuals to first
+// order; ln R scaled and solved by column-pivoting QR. Throws InputError if the points are degenerate.
+[[nodiscard]] ShFit fit_steinhart_hart(const std::vector<RtPoint>& points);
+
+// The beta model through validated points (at least 2), R0 stated at t0_k: least squares on
+// 1/T = a + (1/B)·ln R with the same T² weights. Throws InputError if the points are degenerate.
+[[nodiscard]] BetaFit fit_beta(const std::vector<RtPoint>& points, double t0_k);
+
+// Residuals T_model(R) − T of a model at the points.
+[[nodiscard]] std::vector<Residual> residuals_of(const Thermistor& model, const std::vector<RtPoint>& points);
+
+}  // namespace rtline

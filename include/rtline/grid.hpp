@@ -1,0 +1,29 @@
+// The span sampled once: temperatures from lo to hi (the end always included) and the thermistor's
+// resistance at each, computed once and reused by every later step.
+#pragma once
+
+#include <cstddef>
+#include <vector>
+
+#include "rtline/thermistor.hpp"
+#include "rtline/units.hpp"
+
+namespace rtline {
+
+inline constexpr std::size_t kMaxGridPoints = 1'000'000;  // a sane limit on points in one span
+
+struct Grid {
+    std::vector<double> t_k;    // ascending, K
+    std::vector<double> r_ohm;  // thermistor resistance at each t_k, ohm
+    [[nodiscard]] std::size_t size() const { return t_k.size(); }
+};
+
+// Temperatures lo, lo+step, … and hi itself (a last interval shorter than step when step does not
+// divide the span). Requires step > 0 and at most kMaxGridPoints points; the model must cover the span
+// (Thermistor::check_span). Throws InputError naming "--step" or "--span".
+[[nodiscard]] Grid make_grid(const Thermistor& model, const Span& span, double step_k);
+
+// The temperatures alone, as make_grid places them.
+[[nodiscard]] std::vector<double> span_temperatures(const Span& span, double step_k);
+
+}  // namespace rtline

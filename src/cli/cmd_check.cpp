@@ -1,0 +1,148 @@
+// rtline check: a candidate network analysed point by point against a straight reference line.
+#include <cmath>
+#include <memory>
+
+#include "commands.hpp"
+#include "common.hpp"
+#include "rtline/analysis.hpp"
+#include "rtline/error.hpp"
+
+namespace rtline::cli {
+
+namespace {
+
+struct CheckCommand {
+    ModelOptions model;
+    SpanOptions span;
+    CircuitOptions circuit;
+    std::string dissipation;  // mW/K
+    std::string line = "endpoint";
+    OutputOptions out;
+};
+
+std::string line_description(LineKind k) {
+    switch (k) {
+        case LineKind::endpoint: return "endpoint line (through the outputs at the span's two ends)";
+        case LineKind::best_fit: return "best-fit line (least squares over the span's points)";
+        case LineKind::minimax: return "minimax line (the smallest largest deviation)";
+    }
+    return "";
+}
+
+Json summary_json(const AnalysisSummary& s) {
+    return {{"max_nonlinearity_pct_fsd", s.max_nonlinearity_pct_fsd},
+            {"at_t_c", kelvin_to_celsius(s.at_t_k)},
+            {"max_error_c", s.max_error_k},
+            {"output_span", s.output_span},
+            {"sensitivity_per_k", {{"min", s.sensitivity_min_per_k}, {"max", s.sensitivity_max_per_k}}},
+            {"max_power_w", number(s.max_power_w)},
+            {"max_self_heating_k", number(s.max_self_heating_k)}};
+}
+
+void run_check(const CheckCommand& o) {
+    const Format format = parse_format(o.out.format);
+    const Thermistor thermistor = build_model(o.model);
+    const Span span = build_span(o.span);
+    const LineKind line = parse_line(o.line, "--line");
+    double dissipation_w_per_k = 0.0;
+    if (!o.dissipation.empty()) {
+        dissipation_w_per_k = 1e-3 * parse_number(o.dissipation, "--dissipation");
+        if (!(dissipation_w_per_k > 0.0)) {
+            throw InputError("--dissipation", o.dissipation, "the dissipation constant must be positive (mW/K)");
+        }
+    }
+    const Grid grid = make_grid(thermistor, span, build_step(o.span));
+    const Circuit circuit = build_circuit(o.circuit, thermistor, span);
+    const Analysis a = analyze(grid, thermistor, circuit, line, dissipation_w_per_k);
+    const std::string unit = output_unit(circuit);
+    const bool ratiometric = circuit.excitation.drive == Drive::ratiometric;
+
+    std::string bytes;
+    if (format == Format::json) {
+        Json doc = document("check");
+        doc["model"] = model_json(thermistor);
+        doc["span"] = {{"lo_c", kelvin_to_celsius(span.lo_k)}, {"hi_c", kelvin_to_celsius(span.hi_k)}};
+        doc["circuit"] = circuit_json(circuit);
+        doc["line"] = std::string(line_name(line));
+        doc["line_coefficients"] = {{"slope_per_k", a.line.slope}, {"intercept_at_0_c", a.line.at(kZeroCelsiusK)}};
+        if (dissipation_w_per_k > 0.0) doc["dissipation_mw_per_k"] = 1e3 * dissipation_w_per_k;
+        doc["summary"] = summary_json(a.summary);
+        Json pts = Json::array();
+        for (const PointResult& p : a.points) {
+            pts.push_back({{"t_c", kelvin_to_celsius(p.t_k)},
+                           {"r_t_ohm", p.r_t_ohm},
+                           {"output", p.output},
+                           {"ideal", p.ideal},
+                           {"deviation", p.deviation},
+                           {"nonlinearity_pct_fsd", p.nonlinearity_pct_fsd},
+                           {"error_c", p.error_k},
+                           {"sensitivity_per_k", p.sensitivity_per_k},
+                           {"power_w", number(p.power_w)},
+                           {"self_heating_k", number(p.self_heating_k)}});
+        }
+        doc["points"] = pts;
+        bytes = dump(doc);
+    } else {
+        const bool csv = format == Format::csv;
+        Table table({{"T (\xC2\xB0" "C)", "t_c", 2},
+                     {"R_T (ohm)", "r_t_ohm", -1, 6},
+                     {"output (" + unit + ")", "output", -1, 6},
+                     {"ideal (" + unit + ")", "ideal", -1, 6},
+                     {"deviation (" + unit + ")", "deviation", -1, 4},
+                     {"nonlinearity (%FSD)", "nonlinearity_pct_fsd", 3},
+                     {"error (\xC2\xB0" "C)", "error_c", 3},
+                     {csv ? "power (W)" : "power (mW)", "power_w", -1, 4},
+                     {"self-heating (K)", "self_heating_k", 4}});
+        for (const PointResult& p : a.points) {
+            table.add_row({kelvin_to_celsius(p.t_k), p.r_t_ohm, p.output, p.ideal, p.deviation, p.nonlinearity_pct_fsd,
+                           p.error_k, csv ? p.power_w : 1e3 * p.power_w, p.self_heating_k});
+        }
+        if (csv) {
+            bytes = table.csv();
+        } else {
+            const AnalysisSummary& s = a.summary;
+            std::string t = "model:   " + describe_model(thermistor) + "\n" + "circuit: " + describe_circuit(circuit) +
+                            "\n" + "line:    " + line_description(line) + "\n\n" + table.text() + "\n";
+            t += "largest |nonlinearity|  " + format_fixed(s.max_nonlinearity_pct_fsd, 3) + " %FSD at " +
+                 celsius(s.at_t_k) + " \xC2\xB0" "C (against the " + std::string(line_name(line)) + " line)\n";
+            t += "largest |error|         " + format_fixed(s.max_error_k, 3) + " \xC2\xB0" "C\n";
+            t += "output span             " + format_number(s.output_span, 5) + " " + unit + "\n";
+            t += "sensitivity             " + format_number(s.sensitivity_min_per_k, 4) + " to " +
+                 format_number(s.sensitivity_max_per_k, 4) + " " + unit + " per K\n";
+            if (std::isfinite(s.max_power_w)) {
+                t += "largest power           " + format_number(1e3 * s.max_power_w, 4) + " mW" +
+                     (ratiometric ? " (at 1 V excitation; give --excitation for the real figure)" : "") + "\n";
+            }
+            if (std::isfinite(s.max_self_heating_k)) {
+                t += "largest self-heating    " + format_number(s.max_self_heating_k, 4) + " K (dissipation constant " +
+                     format_number(1e3 * dissipation_w_per_k) + " mW/K)\n";
+            }
+            bytes = t;
+        }
+    }
+    emit(o.out.output, bytes);
+}
+
+}  // namespace
+
+void setup_check(CLI::App& app) {
+    auto opt = std::make_shared<CheckCommand>();
+    auto* sub = app.add_subcommand("check", "Analyse a network's output against a straight line over a span");
+    add_model_options(*sub, opt->model);
+    add_span_options(*sub, opt->span);
+    add_circuit_options(*sub, opt->circuit);
+    sub->add_option("--dissipation", opt->dissipation, "Thermistor dissipation constant, mW/K (for self-heating)")
+        ->group("Circuit");
+    sub->add_option("--line", opt->line, "Reference line: endpoint (default), best-fit or minimax")->group("Analysis");
+    add_output_options(*sub, opt->out);
+    sub->footer(std::string("Example:\n"
+                            "  rtline check --r25 10k --beta 3950 --span 0:45 --step 5 --circuit divider-low --rs 5k6\n"
+                            "  rtline check --r25 10k --beta 3950 --span -20:60 --circuit bridge --r1 10k --load 100k "
+                            "--excitation 3.3 --format json\n"
+                            "Nonlinearity = (output - line) / |output(T_hi) - output(T_lo)| x 100 %FSD; "
+                            "error = deviation / line slope.\n\n") +
+                kSafetyNote);
+    sub->callback([opt] { run_check(*opt); });
+}
+
+}  // namespace rtline::cli

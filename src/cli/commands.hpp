@@ -1,0 +1,13 @@
+// Each command of the rtline program declares its flags on a subcommand; its run function is called
+// by CLI11 once the flags are parsed. One file per command.
+#pragma once
+
+#include <CLI/CLI.hpp>
+
+namespace rtline::cli {
+
+void setup_model(CLI::App& app);
+void setup_fit(CLI::App& app);
+void setup_check(CLI::App& app);
+
+}  // namespace rtline::cli

@@ -1,0 +1,270 @@
+#include "common.hpp"
+
+#include <cmath>
+#include <fstream>
+#include <iostream>
+#include <iterator>
+#include <sstream>
+
+#include "rtline/error.hpp"
+#include "rtline/rtcsv.hpp"
+#include "rtline/fit.hpp"
+
+namespace rtline::cli {
+
+const char* const kSafetyNote =
+    "Caution: rtline designs measurement circuits; it is not a protective device. Over-temperature\n"
+    "protection in heating or mains-powered equipment must use protective devices that follow the\n"
+    "applicable safety standards and local codes, and any design must be verified with measured parts\n"
+    "before use.";
+
+std::string read_text(const std::string& path, const std::string& field) {
+    if (path == "-") {
+        std::ostringstream ss;
+        ss << std::cin.rdbuf();
+        return ss.str();
+    }
+    std::ifstream in(path, std::ios::binary);
+    if (!in) throw InputError(field, path, "cannot be opened");
+    std::string text((std::istreambuf_iterator<char>(in)), std::istreambuf_iterator<char>());
+    if (in.bad()) throw InputError(field, path, "cannot be read");
+    return text;
+}
+
+double optional_quantity(const std::string& text, const std::string& field, const std::string& unit,
+                         double fallback) {
+    if (text.empty()) return fallback;
+    const double v = parse_quantity(text, field, unit);
+    if (!(v > 0.0)) throw InputError(field, text, "must be positive");
+    return v;
+}
+
+std::string celsius(double t_k, int decimals) { return format_fixed(kelvin_to_celsius(t_k), decimals); }
+
+// -------------------------------------------------------------------------------------- model
+
+void add_model_options(CLI::App& app, ModelOptions& o) {
+    app.add_option("--r25", o.r25, "Thermistor resistance at T0 (beta model), e.g. 10k")->group("Thermistor");
+    app.add_option("--beta", o.beta, "B-value in kelvin (beta model), e.g. 3950")->group("Thermistor");
+    app.add_option("--t0", o.t0, "Reference temperature of --r25, degC (default 25)")->group("Thermistor");
+    app.add_option("--sh", o.sh, "Steinhart-Hart coefficients A,B,C (1/T = A + B ln R + C ln^3 R)")
+        ->group("Thermistor");
+    app.add_option("--points", o.points, "R-T points, CSV with header t_c,r_ohm ('-' reads stdin)")
+        ->group("Thermistor");
+    app.add_option("--model", o.model, "With --points: sh (fit, default), beta (fit) or table (interpolate)")
+        ->group("Thermistor");
+}
+
+namespace {
+
+SteinhartHart parse_sh(const std::string& text) {
+    std::vector<double> v;
+    std::size_t start = 0;
+    while (true) {
+        const std::size_t comma = text.find(',', start);
+        const std::string part = text.substr(start, comma == std::string::npos ? std::string::npos : comma - start);
+        try {
+            v.push_back(parse_number(part, "--sh"));
+        } catch (const InputError&) {
+            throw InputError("--sh", text, "expected three numbers A,B,C, e.g. 1.1e-3,2.4e-4,7.5e-8");
+        }
+        if (comma == std::string::npos) break;
+        start = comma + 1;
+    }
+    if (v.size() != 3) throw InputError("--sh", text, "expected three numbers A,B,C, e.g. 1.1e-3,2.4e-4,7.5e-8");
+    return {v[0], v[1], v[2]};
+}
+
+}  // namespace
+
+Thermistor build_model(const ModelOptions& o) {
+    const int sources = (!o.r25.empty() || !o.beta.empty()) + !o.sh.empty() + !o.points.empty();
+    if (sources == 0) {
+        throw InputError("--r25", "", "no thermistor given; use --r25 and --beta, --sh A,B,C, or --points FILE");
+    }
+    if (sources > 1) {
+        throw InputError("--points", o.points,
+                         "give one thermistor: --r25 with --beta, or --sh, or --points, not several");
+    }
+    if (!o.model.empty() && o.points.empty()) {
+        throw InputError("--model", o.model, "applies only with --points");
+    }
+    if (!o.r25.empty() || !o.beta.empty()) {
+        if (o.beta.empty()) throw InputError("--beta", "", "the beta model needs --beta with --r25");
+        if (o.r25.empty()) throw InputError("--r25", "", "the beta model needs --r25 with --beta");
+        BetaModel m;
+        m.r0_ohm = parse_resistance(o.r25, "--r25");
+        std::string b = o.beta;
+        if (!b.empty() && b.back() == 'K') b.pop_back();
+        m.b_k = parse_number(b, "--beta");
+        if (!(m.b_k > 0.0)) throw InputError("--beta", o.beta, "the B-value of an NTC must be positive (kelvin)");
+        m.t0_k = parse_temperature(o.t0, "--t0");
+        return Thermistor(m);
+    }
+    if (!o.sh.empty()) return Thermistor(parse_sh(o.sh));
+    const std::string source = o.points == "-" ? std::string("stdin") : o.points;
+    const std::vector<RtPoint> pts = read_rt_points(read_text(o.points, "--points"), source);
+    const std::string kind = o.model.empty() ? "sh" : o.model;
+    if (kind == "sh") return Thermistor(fit_steinhart_hart(validate_points(pts, 3, source)).model);
+    if (kind == "beta") return Thermistor(fit_beta(validate_points(pts, 2, source), parse_temperature(o.t0, "--t0")).model);
+    if (kind == "table") return Thermistor(TableModel(validate_points(pts, 2, source)));
+    throw InputError("--model", o.model, "unknown model; choose sh, beta or table");
+}
+
+std::string describe_model(const Thermistor& t) {
+    const auto& m = t.model();
+    if (const auto* b = std::get_if<BetaModel>(&m)) {
+        const bool at25 = std::abs(b->t0_k - k25CelsiusK) < 1e-9;
+        return std::string("beta model: ") + (at25 ? "R25" : "R0") + " = " + format_resistance(b->r0_ohm, 6) +
+               " ohm" + (at25 ? "" : " at " + format_number(kelvin_to_celsius(b->t0_k)) + " \xC2\xB0" "C") +
+               ", B = " + format_number(b->b_k, 6) + " K";
+    }
+    if (const auto* s = std::get_if<SteinhartHart>(&m)) {
+        return "Steinhart-Hart model: A = " + format_number(s->a, 8) + ", B = " + format_number(s->b, 8) +
+               ", C = " + format_number(s->c, 8);
+    }
+    const auto& tab = std::get<TableModel>(m);
+    return "table model: " + std::to_string(tab.points().size()) + " R-T points from " +
+           format_number(kelvin_to_celsius(tab.t_min_k())) + " to " + format_number(kelvin_to_celsius(tab.t_max_k())) +
+           " \xC2\xB0" "C, monotone cubic in ln R against 1/T";
+}
+
+Json model_json(const Thermistor& t) {
+    const auto& m = t.model();
+    Json j;
+    j["kind"] = t.kind();
+    if (const auto* b = std::get_if<BetaModel>(&m)) {
+        j["r0_ohm"] = b->r0_ohm;
+        j["t0_c"] = kelvin_to_celsius(b->t0_k);
+        j["b_k"] = b->b_k;
+    } else if (const auto* s = std::get_if<SteinhartHart>(&m)) {
+        j["a"] = s->a;
+        j["b"] = s->b;
+        j["c"] = s->c;
+    } else {
+        const auto& tab = std::get<TableModel>(m);
+        Json pts = Json::array();
+        for (const RtPoint& p : tab.points()) pts.push_back({{"t_c", kelvin_to_celsius(p.t_k)}, {"r_ohm", p.r_ohm}});
+        j["points"] = pts;
+    }
+    return j;
+}
+
+// --------------------------------------------------------------------------------------- span
+
+void add_span_options(CLI::App& app, SpanOptions& o) {
+    app.add_option("--span", o.span, "Temperature span LO:HI in degC, e.g. -30:5 (a K suffix takes kelvin)")
+        ->required()
+        ->group("Span");
+    app.add_option("--step", o.step, "Temperature step in K (= degC), default 1; the span's end is always included")
+        ->group("Span");
+}
+
+Span build_span(const SpanOptions& o) { return parse_span(o.span, "--span"); }
+
+double build_step(const SpanOptions& o) {
+    std::string s = o.step;
+    if (!s.empty() && (s.back() == 'K' || s.back() == 'C')) s.pop_back();
+    const double step = parse_number(s, "--step");
+    if (!(step > 0.0)) throw InputError("--step", o.step, "the step must be a positive number of kelvin");
+    return step;
+}
+
+// ------------------------------------------------------------------------------------ circuit
+
+void add_circuit_options(CLI::App& app, CircuitOptions& o, bool circuit_optional) {
+    auto* c = app.add_option("--circuit", o.circuit,
+                             "bare, divider-high, divider-low, shunt, shunt-divider, bridge or shunt-bridge")
+                  ->group("Circuit");
+    if (!circuit_optional) c->required();
+    app.add_option("--rs", o.rs, "Series resistor of a divider, ohm (e.g. 10k)")->group("Circuit");
+    app.add_option("--rp", o.rp, "Resistor in parallel with the thermistor, ohm")->group("Circuit");
+    app.add_option("--r1", o.r1, "Bridge: resistor over the thermistor (node A), ohm")->group("Circuit");
+    app.add_option("--r2", o.r2, "Bridge: top of the reference arm (node B), ohm (default r1)")->group("Circuit");
+    app.add_option("--r3", o.r3, "Bridge: bottom of the reference arm, ohm (default: null at --null-at)")
+        ->group("Circuit");
+    app.add_option("--null-at", o.null_at, "Bridge: temperature of zero output, degC (default: span low end)")
+        ->group("Circuit");
+    app.add_option("--load", o.load, "Input resistance across the output (between A and B for bridges), ohm")
+        ->group("Circuit");
+    app.add_option("--excitation", o.excitation, "Supply voltage, V (default: ratiometric output, V/V)")
+        ->group("Circuit");
+    app.add_option("--current", o.current, "Current-source drive, A (e.g. 100u)")->group("Circuit");
+}
+
+Circuit build_circuit(const CircuitOptions& o, const Thermistor& model, const Span& span) {
+    Circuit c;
+    c.topology = parse_topology(o.circuit, "--circuit");
+    const std::vector<std::string> names = resistor_names(c.topology);
+    const std::pair<const char*, const std::string*> given[] = {
+        {"rs", &o.rs}, {"rp", &o.rp}, {"r1", &o.r1}, {"r2", &o.r2}, {"r3", &o.r3}};
+    for (const auto& [name, text] : given) {
+        if (text->empty()) continue;
+        if (std::find(names.begin(), names.end(), name) == names.end()) {
+            throw InputError(std::string("--") + name, *text,
+                             "the " + o.circuit + " circuit has no " + name + " resistor");
+        }
+        set_resistor(c, name, parse_resistance(*text, std::string("--") + name));
+    }
+    if (!o.null_at.empty() && !is_bridge(c.topology)) {
+        throw InputError("--null-at", o.null_at, "applies only to bridge circuits");
+    }
+    if (!o.load.empty()) c.load_ohm = parse_resistance(o.load, "--load");
+    if (!o.excitation.empty() && !o.current.empty()) {
+        throw InputError("--current", o.current, "give either --excitation or --current, not both");
+    }
+    if (!o.excitation.empty()) {
+        c.excitation = {Drive::voltage, parse_quantity(o.excitation, "--excitation", "V")};
+    } else if (!o.current.empty()) {
+        c.excitation = {Drive::current, parse_quantity(o.current, "--current", "A")};
+    }
+    if (is_bridge(c.topology) && c.r1 > 0.0) {
+        const double null_k = o.null_at.empty() ? span.lo_k : parse_temperature(o.null_at, "--null-at");
+        if (c.r3 == 0.0) {
+            Span at{null_k, null_k + 1e-6};
+            model.check_span(at, "--null-at");
+        }
+        complete_bridge(c, model, null_k);
+    }
+    validate(c);
+    return c;
+}
+
+Json circuit_json(const Circuit& c) {
+    Json j;
+    j["topology"] = std::string(topology_name(c.topology));
+    Json r = Json::object();
+    for (const std::string& name : resistor_names(c.topology)) r[name] = resistor_value(c, name);
+    j["resistors_ohm"] = r;
+    if (std::isfinite(c.load_ohm)) j["load_ohm"] = c.load_ohm;
+    switch (c.excitation.drive) {
+        case Drive::ratiometric: j["drive"] = {{"kind", "ratiometric"}}; break;
+        case Drive::voltage: j["drive"] = {{"kind", "voltage"}, {"excitation_v", c.excitation.value}}; break;
+        case Drive::current: j["drive"] = {{"kind", "current"}, {"current_a", c.excitation.value}}; break;
+    }
+    j["output_unit"] = output_unit(c);
+    return j;
+}
+
+std::string describe_circuit(const Circuit& c) {
+    std::string s = std::string(topology_name(c.topology));
+    for (const std::string& name : resistor_names(c.topology)) {
+        s += ", " + name + " = " + format_resistance(resistor_value(c, name), 6);
+    }
+    if (std::isfinite(c.load_ohm)) s += ", load = " + format_resistance(c.load_ohm, 6);
+    switch (c.excitation.drive) {
+        case Drive::ratiometric: s += gives_resistance(c.topology) ? "; output in ohm" : "; ratiometric output (V/V)"; break;
+        case Drive::voltage: s += "; excitation " + format_number(c.excitation.value) + " V"; break;
+        case Drive::current: s += "; current drive " + format_number(c.excitation.value) + " A"; break;
+    }
+    return s;
+}
+
+// ------------------------------------------------------------------------------------- output
+
+void add_output_options(CLI::App& app, OutputOptions& o) {
+    app.add_option("--format", o.format, "text (default), json or csv")->group("Output");
+    app.add_option("-o,--output", o.output, "Write to FILE (replaced only when the run succeeds)")->group("Output");
+}
+
+}  // namespace rtline::cli

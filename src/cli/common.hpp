@@ -1,0 +1,74 @@
+// Option groups shared by several commands: the thermistor model, the span, the circuit and the
+// output. Each is a struct of the flags' texts (empty = not given) with a function that declares the
+// flags and one that turns the texts into core values, so error messages name the flag.
+#pragma once
+
+#include <CLI/CLI.hpp>
+#include <string>
+
+#include "report.hpp"
+#include "rtline/analysis.hpp"
+#include "rtline/thermistor.hpp"
+
+namespace rtline::cli {
+
+// The caution every design command's help carries (see README).
+extern const char* const kSafetyNote;
+
+struct ModelOptions {
+    std::string r25;     // resistance at T0, e.g. "10k"
+    std::string beta;    // B-value, K
+    std::string t0 = "25";  // reference temperature of r25, °C
+    std::string sh;      // "A,B,C"
+    std::string points;  // R–T CSV file, or "-" for stdin
+    std::string model;   // with --points: "sh", "beta" or "table" (default: sh)
+};
+void add_model_options(CLI::App& app, ModelOptions& o);
+// The thermistor the flags describe. Reads --points through read_text().
+[[nodiscard]] Thermistor build_model(const ModelOptions& o);
+// A one-line description of the model for text output, e.g. "beta: R25 = 10k, B = 3950 K".
+[[nodiscard]] std::string describe_model(const Thermistor& t);
+// The model for JSON: {"kind", ...coefficients}.
+[[nodiscard]] Json model_json(const Thermistor& t);
+
+struct SpanOptions {
+    std::string span;       // "LO:HI", °C
+    std::string step = "1";  // K (= °C of difference)
+};
+void add_span_options(CLI::App& app, SpanOptions& o);
+[[nodiscard]] Span build_span(const SpanOptions& o);
+[[nodiscard]] double build_step(const SpanOptions& o);
+
+struct CircuitOptions {
+    std::string circuit;
+    std::string rs, rp, r1, r2, r3;
+    std::string null_at;     // bridge null temperature, °C (default: the span's low end)
+    std::string load;        // ohm
+    std::string excitation;  // V
+    std::string current;     // A
+};
+// Declares --circuit (required unless `circuit_optional`), the resistor flags, --null-at, --load and
+// the drive flags.
+void add_circuit_options(CLI::App& app, CircuitOptions& o, bool circuit_optional = false);
+// The circuit the flags describe; a bridge's missing r2/r3 follow from --null-at.
+[[nodiscard]] Circuit build_circuit(const CircuitOptions& o, const Thermistor& model, const Span& span);
+[[nodiscard]] Json circuit_json(const Circuit& c);
+[[nodiscard]] std::string describe_circuit(const Circuit& c);
+
+struct OutputOptions {
+    std::string format = "text";
+    std::string output;  // -o FILE
+};
+void add_output_options(CLI::App& app, OutputOptions& o);
+
+// Reads a whole file ("-" = stdin); throws InputError naming `field` when it cannot be read.
+[[nodiscard]] std::string read_text(const std::string& path, const std::string& field);
+
+// Parses an optional positive quantity flag ("" → `fallback`).
+[[nodiscard]] double optional_quantity(const std::string& text, const std::string& field, const std::string& unit,
+                                       double fallback);
+
+// "25.00 °C" style label and °C formatting helpers for text output.
+[[nodiscard]] std::string celsius(double t_k, int decimals = 2);
+
+}  // namespace rtline::cli

@@ -1,0 +1,155 @@
+#include "report.hpp"
+
+#include <cmath>
+#include <cstdio>
+#include <filesystem>
+#include <fstream>
+#include <iostream>
+#include <random>
+#include <stdexcept>
+
+#include "rtline/error.hpp"
+#include "rtline/units.hpp"
+
+namespace rtline::cli {
+
+Format parse_format(const std::string& text) {
+    if (text == "text") return Format::text;
+    if (text == "json") return Format::json;
+    if (text == "csv") return Format::csv;
+    throw InputError("--format", text, "unknown format; choose text, json or csv");
+}
+
+namespace {
+
+std::string text_cell(const Column& c, const Cell& cell) {
+    if (const auto* s = std::get_if<std::string>(&cell)) return *s;
+    const double v = std::get<double>(cell);
+    if (!std::isfinite(v)) return "-";
+    return c.decimals >= 0 ? format_fixed(v, c.decimals) : format_number(v, c.digits);
+}
+
+std::string csv_cell(const Cell& cell) {
+    if (const auto* s = std::get_if<std::string>(&cell)) {
+        if (s->find_first_of(",\"\n") == std::string::npos) return *s;
+        std::string quoted = "\"";
+        for (const char ch : *s) {
+            if (ch == '"') quoted += '"';
+            quoted += ch;
+        }
+        return quoted + "\"";
+    }
+    const double v = std::get<double>(cell);
+    return std::isfinite(v) ? format_number(v, 10) : "";
+}
+
+// Display width of UTF-8 text: count the bytes that start a code point.
+std::size_t width(const std::string& s) {
+    std::size_t w = 0;
+    for (const unsigned char ch : s) {
+        if ((ch & 0xC0) != 0x80) ++w;
+    }
+    return w;
+}
+
+}  // namespace
+
+std::string Table::text() const {
+    std::vector<std::vector<std::string>> cells;
+    std::vector<std::size_t> widths(columns_.size(), 0);
+    for (std::size_t c = 0; c < columns_.size(); ++c) widths[c] = width(columns_[c].text_header);
+    for (const auto& row : rows_) {
+        std::vector<std::string> line;
+        for (std::size_t c = 0; c < columns_.size(); ++c) {
+            line.push_back(text_cell(columns_[c], row[c]));
+            widths[c] = std::max(widths[c], width(line.back()));
+        }
+        cells.push_back(std::move(line));
+    }
+    std::string out;
+    auto put = [&](const std::vector<std::string>& line) {
+        for (std::size_t c = 0; c < line.size(); ++c) {
+            if (c > 0) out += "  ";
+            out += std::string(widths[c] - width(line[c]), ' ') + line[c];
+        }
+        out += '\n';
+    };
+    std::vector<std::string> header;
+    for (const Column& c : columns_) header.push_back(c.text_header);
+    put(header);
+    for (const auto& line : cells) put(line);
+    return out;
+}
+
+std::string Table::csv() const {
+    std::string out;
+    for (std::size_t c = 0; c < columns_.size(); ++c) {
+        if (c > 0) out += ',';
+        out += columns_[c].csv_header;
+    }
+    out += '\n';
+    for (const auto& row : rows_) {
+        for (std::size_t c = 0; c < row.size(); ++c) {
+            if (c > 0) out += ',';
+            out += csv_cell(row[c]);
+        }
+        out += '\n';
+    }
+    return out;
+}
+
+Json document(const std::string& command) {
+    Json j;
+    j["tool"] = "rtline";
+    j["version"] = RTLINE_VERSION;
+    j["schema"] = 1;
+    j["command"] = command;
+    return j;
+}
+
+Json number(double v) { return std::isfinite(v) ? Json(v) : Json(nullptr); }
+
+void require_finite(const Json& j) {
+    if (j.is_number_float() && !std::isfinite(j.get<double>())) {
+        throw std::logic_error("a result is not a finite number");
+    }
+    if (j.is_structured()) {
+        for (const auto& item : j) require_finite(item);
+    }
+}
+
+std::string dump(const Json& j) {
+    require_finite(j);
+    return j.dump(2) + "\n";
+}
+
+void emit(const std::string& path, const std::string& bytes) {
+    if (path.empty() || path == "-") {
+        std::cout << bytes;
+        std::cout.flush();
+        return;
+    }
+    namespace fs = std::filesystem;
+    const fs::path target(path);
+    std::random_device rd;
+    const fs::path temp = target.parent_path() / (target.filename().string() + ".tmp" + std::to_string(rd()));
+    {
+        std::ofstream out(temp, std::ios::binary | std::ios::trunc);
+        if (!out) throw InputError("-o", path, "cannot be written (no such folder, or no permission)");
+        out << bytes;
+        out.close();
+        if (!out) {
+            std::error_code ec;
+            fs::remove(temp, ec);
+            throw InputError("-o", path, "writing failed (disk full?)");
+        }
+    }
+    std::error_code ec;
+    fs::rename(temp, target, ec);
+    if (ec) {
+        fs::remove(temp, ec);
+        throw InputError("-o", path, "cannot be replaced: " + ec.message());
+    }
+}
+
+}  // namespace rtline::cli

@@ -1,0 +1,59 @@
+// Writers for the rtline program: aligned text tables, CSV, JSON documents, and the one place that
+// puts bytes on stdout or into an -o file (via a temporary file and a rename, so a failed run never
+// truncates an existing file). The core never formats; commands hand their result structs to these.
+#pragma once
+
+#include <nlohmann/json.hpp>
+#include <string>
+#include <variant>
+#include <vector>
+
+namespace rtline::cli {
+
+using Json = nlohmann::ordered_json;
+
+enum class Format { text, json, csv };
+
+// Parses --format; throws InputError.
+[[nodiscard]] Format parse_format(const std::string& text);
+
+// A column: its header in text (with the unit) and in CSV (snake_case with a unit suffix), and how
+// its numbers print in text: `decimals` ≥ 0 fixed decimals, otherwise `digits` significant figures.
+struct Column {
+    std::string text_header;
+    std::string csv_header;
+    int decimals = -1;
+    int digits = 6;
+};
+
+using Cell = std::variant<double, std::string>;
+
+class Table {
+public:
+    explicit Table(std::vector<Column> columns) : columns_(std::move(columns)) {}
+    void add_row(std::vector<Cell> row) { rows_.push_back(std::move(row)); }
+    [[nodiscard]] bool empty() const { return rows_.empty(); }
+    // Right-aligned columns, two spaces apart; NaN prints as "-".
+    [[nodiscard]] std::string text() const;
+    // A header row and one row per entry, numbers with 10 significant figures; NaN is an empty field.
+    [[nodiscard]] std::string csv() const;
+
+private:
+    std::vector<Column> columns_;
+    std::vector<std::vector<Cell>> rows_;
+};
+
+// A JSON document's opening keys: tool, version, schema, command.
+[[nodiscard]] Json document(const std::string& command);
+// A number for JSON: NaN and infinities become null (JSON has neither).
+[[nodiscard]] Json number(double v);
+// Throws std::logic_error if any number in `j` is not finite (the writers' last guard).
+void require_finite(const Json& j);
+// The document as text, two-space indented, with a final newline.
+[[nodiscard]] std::string dump(const Json& j);
+
+// Writes `bytes` to stdout (path empty or "-") or to `path` through a temporary file beside it,
+// renamed into place once complete. Throws InputError ("-o") when the file cannot be written.
+void emit(const std::string& path, const std::string& bytes);
+
+}  // namespace rtline::cli

@@ -1,0 +1,215 @@
+#include "rtline/circuit.hpp"
+
+#include <cmath>
+
+#include "rtline/error.hpp"
+
+namespace rtline {
+
+namespace {
+
+struct Named {
+    Topology topology;
+    std::string_view name;
+};
+
+constexpr Named kNames[] = {
+    {Topology::bare, "bare"},
+    {Topology::divider_high, "divider-high"},
+    {Topology::divider_low, "divider-low"},
+    {Topology::shunt, "shunt"},
+    {Topology::shunt_divider, "shunt-divider"},
+    {Topology::bridge, "bridge"},
+    {Topology::shunt_bridge, "shunt-bridge"},
+};
+
+// The network driven by 1 V: output, thermistor voltage, and the resistance the source sees.
+struct PerVolt {
+    double out;
+    double vt;
+    double rin;
+};
+
+PerVolt per_volt(const Circuit& c, double r_t) {
+    switch (c.topology) {
+        case Topology::bare: {
+            const double r = parallel(r_t, c.load_ohm);
+            return {1.0, 1.0, r};
+        }
+        case Topology::shunt: {
+            const double r = parallel(parallel(r_t, c.rp), c.load_ohm);
+            return {1.0, 1.0, r};
+        }
+        case Topology::divider_high: {
+            const double bottom = parallel(c.rs, c.load_ohm);
+            const double total = r_t + bottom;
+            return {bottom / total, r_t / total, total};
+        }
+        case Topology::divider_low: {
+            const double bottom = parallel(r_t, c.load_ohm);
+            const double total = c.rs + bottom;
+            return {bottom / total, bottom / total, total};
+        }
+        case Topology::shunt_divider: {
+            const double top = parallel(r_t, c.rp);
+            const double bottom = parallel(c.rs, c.load_ohm);
+            const double total = top + bottom;
+            return {bottom / total, top / total, total};
+        }
+        case Topology::bridge:
+        case Topology::shunt_bridge: {
+            const double rx = c.topology == Topology::shunt_bridge ? parallel(r_t, c.rp) : r_t;
+            // Each side as a Thevenin source; the load closes the loop between them.
+            const double va0 = rx / (c.r1 + rx);
+            const double vb0 = c.r3 / (c.r2 + c.r3);
+            double va = va0;
+            double vb = vb0;
+            if (std::isfinite(c.load_ohm)) {
+                const double ra = parallel(c.r1, rx);
+                const double rb = parallel(c.r2, c.r3);
+                const double il = (va0 - vb0) / (ra + rb + c.load_ohm);
+                va = va0 - il * ra;
+                vb = vb0 + il * rb;
+            }
+            const double drawn = (1.0 - va) / c.r1 + (1.0 - vb) / c.r2;
+            return {va - vb, va, 1.0 / drawn};
+        }
+    }
+    return {0.0, 0.0, 0.0};
+}
+
+}  // namespace
+
+std::string_view topology_name(Topology t) {
+    for (const Named& n : kNames) {
+        if (n.topology == t) return n.name;
+    }
+    return "?";
+}
+
+Topology parse_topology(std::string_view text, std::string_view field) {
+    for (const Named& n : kNames) {
+        if (n.name == text) return n.topology;
+    }
+    throw InputError(std::string(field), std::string(text),
+                     "unknown circuit; choose bare, divider-high, divider-low, shunt, shunt-divider, bridge "
+                     "or shunt-bridge");
+}
+
+const std::vector<Topology>& all_topologies() {
+    static const std::vector<Topology> all = {Topology::bare,  Topology::divider_high,  Topology::divider_low,
+                                              Topology::shunt, Topology::shunt_divider, Topology::bridge,
+                                              Topology::shunt_bridge};
+    return all;
+}
+
+std::vector<std::string> resistor_names(Topology t) {
+    switch (t) {
+        case Topology::bare: return {};
+        case Topology::divider_high:
+        case Topology::divider_low: return {"rs"};
+        case Topology::shunt: return {"rp"};
+        case Topology::shunt_divider: return {"rs", "rp"};
+        case Topology::bridge: return {"r1", "r2", "r3"};
+        case Topology::shunt_bridge: return {"rp", "r1", "r2", "r3"};
+    }
+    return {};
+}
+
+double resistor_value(const Circuit& c, std::string_view name) {
+    if (name == "rs") return c.rs;
+    if (name == "rp") return c.rp;
+    if (name == "r1") return c.r1;
+    if (name == "r2") return c.r2;
+    if (name == "r3") return c.r3;
+    return 0.0;
+}
+
+void set_resistor(Circuit& c, std::string_view name, double ohm) {
+    if (name == "rs") c.rs = ohm;
+    if (name == "rp") c.rp = ohm;
+    if (name == "r1") c.r1 = ohm;
+    if (name == "r2") c.r2 = ohm;
+    if (name == "r3") c.r3 = ohm;
+}
+
+void validate(const Circuit& c) {
+    const std::string topo(topology_name(c.topology));
+    for (const std::string& name : resistor_names(c.topology)) {
+        const double v = resistor_value(c, name);
+        if (v == 0.0) {
+            throw InputError("--" + name, "", "the " + topo + " circuit needs this resistor; give its value");
+        }
+        if (!std::isfinite(v) || v < 0.0) {
+            throw InputError("--" + name, describe(v), "a resistance must be positive");
+        }
+    }
+    if (!(c.load_ohm > 0.0)) {
+        throw InputError("--load", describe(c.load_ohm), "a load resistance must be positive");
+    }
+    const Excitation& e = c.excitation;
+    if (e.drive != Drive::ratiometric && (!std::isfinite(e.value) || e.value <= 0.0)) {
+        const char* flag = e.drive == Drive::current ? "--current" : "--excitation";
+        throw InputError(flag, describe(e.value), "must be a positive value");
+    }
+    if (gives_resistance(c.topology) && e.drive == Drive::voltage) {
+        throw InputError("--excitation", describe(e.value),
+                         "the " + topo + " circuit's output is a resistance; drive it with --current to get volts");
+    }
+}
+
+std::string output_unit(const Circuit& c) {
+    switch (c.excitation.drive) {
+        case Drive::ratiometric: return gives_resistance(c.topology) ? "ohm" : "V/V";
+        case Drive::voltage:
+        case Drive::current: return "V";
+    }
+    return "";
+}
+
+double parallel(double a, double b) {
+    if (std::isinf(a)) return b;
+    if (std::isinf(b)) return a;
+    return a * b / (a + b);
+}
+
+OperatingPoint operate(const Circuit& c, double r_t) {
+    const PerVolt pv = per_volt(c, r_t);
+    const Excitation& e = c.excitation;
+    OperatingPoint op;
+    double top_v = 1.0;
+    switch (e.drive) {
+        case Drive::ratiometric:
+            top_v = 1.0;
+            break;
+        case Drive::voltage:
+            top_v = e.value;
+            break;
+        case Drive::current:
+            top_v = e.value * pv.rin;
+            break;
+    }
+    if (gives_resistance(c.topology) && e.drive == Drive::ratiometric) {
+        op.output = pv.rin;
+        op.thermistor_v = 0.0;
+        op.power_w = std::nan("");
+        return op;
+    }
+    op.output = top_v * pv.out;
+    op.thermistor_v = top_v * pv.vt;
+    op.power_w = op.thermistor_v * op.thermistor_v / r_t;
+    return op;
+}
+
+double output(const Circuit& c, double r_t) { return operate(c, r_t).output; }
+
+void complete_bridge(Circuit& c, const Thermistor& model, double null_t_k) {
+    if (!is_bridge(c.topology)) return;
+    if (c.r2 == 0.0) c.r2 = c.r1;
+    if (c.r3 == 0.0) {
+        const double r_t = model.resistance(null_t_k);
+        c.r3 = c.topology == Topology::shunt_bridge && c.rp > 0.0 ? parallel(r_t, c.rp) : r_t;
+    }
+}
+
+}  // namespace rtline

@@ -1,0 +1,132 @@
+#include "rtline/fit.hpp"
+
+#include <Eigen/Dense>
+#include <cmath>
+
+#include "rtline/error.hpp"
+
+namespace rtline {
+
+namespace {
+
+double max_abs(const std::vector<Residual>& rs) {
+    double m = 0.0;
+    for (const Residual& r : rs) m = std::max(m, std::abs(r.residual_k));
+    return m;
+}
+
+// Weighted least squares with the columns scaled to unit norm, solved by column-pivoting QR.
+// Throws InputError when the design matrix is rank-deficient (collinear or repeated points).
+Eigen::VectorXd solve_scaled(Eigen::MatrixXd a, Eigen::VectorXd y, const char* what) {
+    Eigen::VectorXd scale(a.cols());
+    for (Eigen::Index j = 0; j < a.cols(); ++j) {
+        scale(j) = a.col(j).norm();
+        if (scale(j) == 0.0) scale(j) = 1.0;
+        a.col(j) /= scale(j);
+    }
+    Eigen::ColPivHouseholderQR<Eigen::MatrixXd> qr(a);
+    qr.setThreshold(1e-12);
+    if (qr.rank() < a.cols()) {
+        throw InputError("--points", std::to_string(a.rows()) + " points",
+                         std::string("the points do not determine a ") + what +
+                             " fit (too few distinct resistances, or collinear in ln R)");
+    }
+    Eigen::VectorXd x = qr.solve(y);
+    for (Eigen::Index j = 0; j < a.cols(); ++j) x(j) /= scale(j);
+    return x;
+}
+
+}  // namespace
+
+std::vector<Residual> residuals_of(const Thermistor& model, const std::vector<RtPoint>& points) {
+    std::vector<Residual> out;
+    out.reserve(points.size());
+    for (const RtPoint& p : points) {
+        out.push_back({p.t_k, p.r_ohm, model.temperature(p.r_ohm) - p.t_k});
+    }
+    return out;
+}
+
+SteinhartHart steinhart_hart_three_point(const RtPoint& p1, const RtPoint& p2, const RtPoint& p3) {
+    const double l1 = std::log(p1.r_ohm);
+    const double l2 = std::log(p2.r_ohm);
+    const double l3 = std::log(p3.r_ohm);
+    const double y1 = 1.0 / p1.t_k;
+    const double y2 = 1.0 / p2.t_k;
+    const double y3 = 1.0 / p3.t_k;
+    const double g2 = (y2 - y1) / (l2 - l1);
+    const double g3 = (y3 - y1) / (l3 - l1);
+    const double c = (g3 - g2) / ((l3 - l2) * (l1 + l2 + l3));
+    const double b = g2 - c * (l1 * l1 + l1 * l2 + l2 * l2);
+    const double a = y1 - (b + c * l1 * l1) * l1;
+    return {a, b, c};
+}
+
+ShFit fit_steinhart_hart(const std::vector<RtPoint>& points) {
+    if (points.size() < 3) {
+        throw InputError("--points", std::to_string(points.size()) + " points",
+                         "a Steinhart-Hart fit needs at least 3 R-T points");
+    }
+    SteinhartHart m;
+    const auto n = static_cast<Eigen::Index>(points.size());
+    // ln R is scaled by its largest magnitude so that L and L³ are of order one.
+    double l_scale = 0.0;
+    for (const RtPoint& p : points) l_scale = std::max(l_scale, std::abs(std::log(p.r_ohm)));
+    if (l_scale == 0.0) l_scale = 1.0;
+    Eigen::MatrixXd a(n, 3);
+    Eigen::VectorXd y(n);
+    for (Eigen::Index i = 0; i < n; ++i) {
+        const RtPoint& p = points[static_cast<std::size_t>(i)];
+        const double w = p.t_k * p.t_k;  // δ(1/T) ≈ −δT/T²
+        const double s = std::log(p.r_ohm) / l_scale;
+        a(i, 0) = w;
+        a(i, 1) = w * s;
+        a(i, 2) = w * s * s * s;
+        y(i) = w / p.t_k;
+    }
+    const Eigen::VectorXd x = solve_scaled(a, y, "Steinhart-Hart");
+    m.a = x(0);
+    m.b = x(1) / l_scale;
+    m.c = x(2) / (l_scale * l_scale * l_scale);
+    if (points.size() == 3) {
+        // Three points: the closed form is exact; use it (the QR solution agrees to rounding).
+        m = steinhart_hart_three_point(points[0], points[1], points[2]);
+    }
+    ShFit fit{m, residuals_of(Thermistor(m), points), 0.0};
+    fit.max_residual_k = max_abs(fit.residuals);
+    return fit;
+}
+
+BetaFit fit_beta(const std::vector<RtPoint>& points, double t0_k) {
+    if (points.size() < 2) {
+        throw InputError("--points", std::to_string(points.size()) + " points",
+                         "a beta fit needs at least 2 R-T points");
+    }
+    const auto n = static_cast<Eigen::Index>(points.size());
+    // 1/T = a + b·(ln R − ln R_ref); the shift by a central ln R keeps the two columns apart.
+    double l_ref = 0.0;
+    for (const RtPoint& p : points) l_ref += std::log(p.r_ohm);
+    l_ref /= static_cast<double>(n);
+    Eigen::MatrixXd a(n, 2);
+    Eigen::VectorXd y(n);
+    for (Eigen::Index i = 0; i < n; ++i) {
+        const RtPoint& p = points[static_cast<std::size_t>(i)];
+        const double w = p.t_k * p.t_k;
+        a(i, 0) = w;
+        a(i, 1) = w * (std::log(p.r_ohm) - l_ref);
+        y(i) = w / p.t_k;
+    }
+    const Eigen::VectorXd x = solve_scaled(a, y, "beta");
+    const double b_k = 1.0 / x(1);
+    // 1/t0 = x0 + (ln R0 − l_ref)/B  ⇒  ln R0 = l_ref + B·(1/t0 − x0).
+    const double r0 = std::exp(l_ref + b_k * (1.0 / t0_k - x(0)));
+    if (!(b_k > 0.0) || !std::isfinite(r0)) {
+        throw InputError("--points", std::to_string(n) + " points", "the beta fit gives no positive B-value");
+    }
+    BetaModel m{r0, t0_k, b_k};
+    BetaFit fit{m, residuals_of(Thermistor(m), points), 0.0};
+    fit.max_residual_k = max_abs(fit.residuals);
+    return fit;
+}
+
+}  // namespace rtline

@@ -1,0 +1,41 @@
+#include "rtline/grid.hpp"
+
+#include <cmath>
+
+#include "rtline/error.hpp"
+
+namespace rtline {
+
+std::vector<double> span_temperatures(const Span& span, double step_k) {
+    if (!std::isfinite(step_k) || step_k <= 0.0) {
+        throw InputError("--step", format_number(step_k), "the step must be a positive number of kelvin");
+    }
+    const double width = span.hi_k - span.lo_k;
+    const double intervals = width / step_k;
+    if (!(intervals < static_cast<double>(kMaxGridPoints))) {
+        throw InputError("--step", format_number(step_k),
+                         "gives more than " + std::to_string(kMaxGridPoints) + " points over the span");
+    }
+    // A step that divides the span to rounding gives exactly the end, not a sliver before it.
+    const auto whole = static_cast<std::size_t>(std::floor(intervals + 1e-9));
+    std::vector<double> t;
+    t.reserve(whole + 2);
+    for (std::size_t i = 0; i <= whole; ++i) t.push_back(span.lo_k + static_cast<double>(i) * step_k);
+    if (span.hi_k - t.back() > 1e-9 * step_k) {
+        t.push_back(span.hi_k);
+    } else {
+        t.back() = span.hi_k;
+    }
+    return t;
+}
+
+Grid make_grid(const Thermistor& model, const Span& span, double step_k) {
+    model.check_span(span, "--span");
+    Grid g;
+    g.t_k = span_temperatures(span, step_k);
+    g.r_ohm.reserve(g.t_k.size());
+    for (const double t : g.t_k) g.r_ohm.push_back(model.resistance(t));
+    return g;
+}
+
+}  // namespace rtline
