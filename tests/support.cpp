@@ -1,0 +1,92 @@
+#include "support.hpp"
+
+#include <doctest/doctest.h>
+#include <sys/wait.h>
+#include <unistd.h>
+
+#include <atomic>
+#include <cstdio>
+#include <cstdlib>
+#include <filesystem>
+#include <fstream>
+#include <iterator>
+#include <sstream>
+
+namespace rtline::test {
+
+namespace {
+
+std::string quote(const std::string& s) {
+    std::string q = "'";
+    for (const char c : s) {
+        if (c == '\'') {
+            q += "'\\''";
+        } else {
+            q += c;
+        }
+    }
+    return q + "'";
+}
+
+std::atomic<int> counter{0};
+
+}  // namespace
+
+std::string source_dir() { return RTLINE_SOURCE_DIR; }
+
+void write_file(const std::string& path, const std::string& text) {
+    std::ofstream out(path, std::ios::binary);
+    out << text;
+}
+
+std::string read_file(const std::string& path) {
+    std::ifstream in(path, std::ios::binary);
+    return {std::istreambuf_iterator<char>(in), std::istreambuf_iterator<char>()};
+}
+
+TempPath::TempPath(const std::string& suffix) {
+    const auto dir = std::filesystem::temp_directory_path();
+    path_ = (dir / ("rtline-test-" + std::to_string(::getpid()) + "-" + std::to_string(counter++) + suffix)).string();
+}
+
+TempPath::~TempPath() {
+    std::error_code ec;
+    std::filesystem::remove(path_, ec);
+}
+
+Run run_shell(const std::string& command, const std::string& input) {
+    const TempPath in(".in");
+    const TempPath out(".out");
+    const TempPath err(".err");
+    write_file(in.str(), input);
+    const std::string line = "(" + command + ") <" + quote(in.str()) + " >" + quote(out.str()) + " 2>" + quote(err.str());
+    const int status = std::system(line.c_str());
+    Run r;
+    r.code = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
+    r.out = read_file(out.str());
+    r.err = read_file(err.str());
+    return r;
+}
+
+Run run_rtline(const std::vector<std::string>& args, const std::string& input) {
+    std::string command = quote(RTLINE_EXE);
+    for (const std::string& a : args) {
+        command += ' ';
+        command += quote(a);
+    }
+    return run_shell(command, input);
+}
+
+nlohmann::json python_ref(const std::string& script, const nlohmann::json& input) {
+    const std::string path = source_dir() + "/tests/ref/" + script;
+    const Run r = run_shell("/usr/bin/python3 " + quote(path), input.dump());
+    INFO("reference script " << script << " stderr: " << r.err);
+    REQUIRE(r.code == 0);
+    return nlohmann::json::parse(r.out);
+}
+
+bool have_program(const std::string& name) {
+    return run_shell("command -v " + quote(name) + " >/dev/null 2>&1").code == 0;
+}
+
+}  // namespace rtline::test
