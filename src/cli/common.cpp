@@ -172,17 +172,11 @@ double build_step(const SpanOptions& o) {
 
 // ------------------------------------------------------------------------------------ circuit
 
-void add_circuit_options(CLI::App& app, CircuitOptions& o, bool circuit_optional) {
+void add_circuit_options(CLI::App& app, CircuitOptions& o, bool circuit_optional, bool with_resistors) {
     auto* c = app.add_option("--circuit", o.circuit,
                              "bare, divider-high, divider-low, shunt, shunt-divider, bridge or shunt-bridge")
                   ->group("Circuit");
     if (!circuit_optional) c->required();
-    app.add_option("--rs", o.rs, "Series resistor of a divider, ohm (e.g. 10k)")->group("Circuit");
-    app.add_option("--rp", o.rp, "Resistor in parallel with the thermistor, ohm")->group("Circuit");
-    app.add_option("--r1", o.r1, "Bridge: resistor over the thermistor (node A), ohm")->group("Circuit");
-    app.add_option("--r2", o.r2, "Bridge: top of the reference arm (node B), ohm (default r1)")->group("Circuit");
-    app.add_option("--r3", o.r3, "Bridge: bottom of the reference arm, ohm (default: null at --null-at)")
-        ->group("Circuit");
     app.add_option("--null-at", o.null_at, "Bridge: temperature of zero output, degC (default: span low end)")
         ->group("Circuit");
     app.add_option("--load", o.load, "Input resistance across the output (between A and B for bridges), ohm")
@@ -190,22 +184,18 @@ void add_circuit_options(CLI::App& app, CircuitOptions& o, bool circuit_optional
     app.add_option("--excitation", o.excitation, "Supply voltage, V (default: ratiometric output, V/V)")
         ->group("Circuit");
     app.add_option("--current", o.current, "Current-source drive, A (e.g. 100u)")->group("Circuit");
+    if (!with_resistors) return;
+    app.add_option("--rs", o.rs, "Series resistor of a divider, ohm (e.g. 10k)")->group("Circuit");
+    app.add_option("--rp", o.rp, "Resistor in parallel with the thermistor, ohm")->group("Circuit");
+    app.add_option("--r1", o.r1, "Bridge: resistor over the thermistor (node A), ohm")->group("Circuit");
+    app.add_option("--r2", o.r2, "Bridge: top of the reference arm (node B), ohm (default r1)")->group("Circuit");
+    app.add_option("--r3", o.r3, "Bridge: bottom of the reference arm, ohm (default: null at --null-at)")
+        ->group("Circuit");
 }
 
-Circuit build_circuit(const CircuitOptions& o, const Thermistor& model, const Span& span) {
+Circuit build_drive(const CircuitOptions& o, const std::string& topology) {
     Circuit c;
-    c.topology = parse_topology(o.circuit, "--circuit");
-    const std::vector<std::string> names = resistor_names(c.topology);
-    const std::pair<const char*, const std::string*> given[] = {
-        {"rs", &o.rs}, {"rp", &o.rp}, {"r1", &o.r1}, {"r2", &o.r2}, {"r3", &o.r3}};
-    for (const auto& [name, text] : given) {
-        if (text->empty()) continue;
-        if (std::find(names.begin(), names.end(), name) == names.end()) {
-            throw InputError(std::string("--") + name, *text,
-                             "the " + o.circuit + " circuit has no " + name + " resistor");
-        }
-        set_resistor(c, name, parse_resistance(*text, std::string("--") + name));
-    }
+    c.topology = parse_topology(topology, "--circuit");
     if (!o.null_at.empty() && !is_bridge(c.topology)) {
         throw InputError("--null-at", o.null_at, "applies only to bridge circuits");
     }
@@ -218,8 +208,28 @@ Circuit build_circuit(const CircuitOptions& o, const Thermistor& model, const Sp
     } else if (!o.current.empty()) {
         c.excitation = {Drive::current, parse_quantity(o.current, "--current", "A")};
     }
+    return c;
+}
+
+double null_temperature(const CircuitOptions& o, const Span& span) {
+    return o.null_at.empty() ? span.lo_k : parse_temperature(o.null_at, "--null-at");
+}
+
+Circuit build_circuit(const CircuitOptions& o, const Thermistor& model, const Span& span) {
+    Circuit c = build_drive(o, o.circuit);
+    const std::vector<std::string> names = resistor_names(c.topology);
+    const std::pair<const char*, const std::string*> given[] = {
+        {"rs", &o.rs}, {"rp", &o.rp}, {"r1", &o.r1}, {"r2", &o.r2}, {"r3", &o.r3}};
+    for (const auto& [name, text] : given) {
+        if (text->empty()) continue;
+        if (std::find(names.begin(), names.end(), name) == names.end()) {
+            throw InputError(std::string("--") + name, *text,
+                             "the " + o.circuit + " circuit has no " + name + " resistor");
+        }
+        set_resistor(c, name, parse_resistance(*text, std::string("--") + name));
+    }
     if (is_bridge(c.topology) && c.r1 > 0.0) {
-        const double null_k = o.null_at.empty() ? span.lo_k : parse_temperature(o.null_at, "--null-at");
+        const double null_k = null_temperature(o, span);
         if (c.r3 == 0.0) {
             Span at{null_k, null_k + 1e-6};
             model.check_span(at, "--null-at");
@@ -249,7 +259,8 @@ Json circuit_json(const Circuit& c) {
 std::string describe_circuit(const Circuit& c) {
     std::string s = std::string(topology_name(c.topology));
     for (const std::string& name : resistor_names(c.topology)) {
-        s += ", " + name + " = " + format_resistance(resistor_value(c, name), 6);
+        const double v = resistor_value(c, name);
+        if (v > 0.0) s += ", " + name + " = " + format_resistance(v, 6);
     }
     if (std::isfinite(c.load_ohm)) s += ", load = " + format_resistance(c.load_ohm, 6);
     switch (c.excitation.drive) {

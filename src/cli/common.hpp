@@ -47,11 +47,15 @@ struct CircuitOptions {
     std::string excitation;  // V
     std::string current;     // A
 };
-// Declares --circuit (required unless `circuit_optional`), the resistor flags, --null-at, --load and
-// the drive flags.
-void add_circuit_options(CLI::App& app, CircuitOptions& o, bool circuit_optional = false);
+// Declares --circuit (required unless `circuit_optional`), the resistor flags (unless not
+// `with_resistors`: sizing chooses them), --null-at, --load and the drive flags.
+void add_circuit_options(CLI::App& app, CircuitOptions& o, bool circuit_optional = false, bool with_resistors = true);
 // The circuit the flags describe; a bridge's missing r2/r3 follow from --null-at.
 [[nodiscard]] Circuit build_circuit(const CircuitOptions& o, const Thermistor& model, const Span& span);
+// The topology (parsed from `topology`), load and drive the flags describe, without resistor values.
+[[nodiscard]] Circuit build_drive(const CircuitOptions& o, const std::string& topology);
+// The bridge null temperature: --null-at, or the span's low end.
+[[nodiscard]] double null_temperature(const CircuitOptions& o, const Span& span);
 [[nodiscard]] Json circuit_json(const Circuit& c);
 [[nodiscard]] std::string describe_circuit(const Circuit& c);
 

@@ -1,0 +1,96 @@
+// Sizing: the resistor values that make a topology's output most linear over the span. A continuous
+// optimum (scan, then golden-section refinement on log-resistance; nested for two resistors), the
+// textbook closed forms for one-resistor topologies, and an exhaustive search over IEC 60063 values
+// with constraints on power, self-heating, output span and sensitivity.
+#pragma once
+
+#include <cstddef>
+#include <limits>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "rtline/analysis.hpp"
+#include "rtline/eseries.hpp"
+
+namespace rtline {
+
+struct Constraints {
+    double max_power_w = std::numeric_limits<double>::infinity();        // thermistor dissipation
+    double max_self_heating_k = std::numeric_limits<double>::infinity();  // needs dissipation_w_per_k
+    double min_span = 0.0;         // |output(T_hi) − output(T_lo)|, output units
+    double min_sensitivity = 0.0;  // smallest |d output/dT| over the span, output units per K
+};
+
+struct SizingSpec {
+    Circuit base;                      // topology, load and drive; its resistor values are ignored
+    LineKind line = LineKind::endpoint;
+    double null_at_k = 0.0;            // bridges: temperature of zero output (r2 = r1, r3 from the model)
+    Series series = Series::e24;
+    double range_lo_ohm = 1.0;         // standard values and the continuous search stay in this range
+    double range_hi_ohm = 10e6;
+    std::size_t top = 5;               // how many standard combinations to keep
+    Constraints constraints;
+    double dissipation_w_per_k = 0.0;  // 0: unknown
+};
+
+// The resistors sizing chooses for a topology: rs; rp; rp, rs; r1; rp, r1 (bare: none).
+[[nodiscard]] std::vector<std::string> free_resistors(Topology t);
+
+// A candidate: the circuit and what it gives over the span.
+struct Candidate {
+    Circuit circuit;
+    double max_nonlinearity_pct_fsd = 0.0;
+    double max_error_k = 0.0;
+    double output_span = 0.0;
+    double sensitivity_min_per_k = 0.0;
+    double sensitivity_max_per_k = 0.0;
+    double max_power_w = 0.0;  // NaN when the circuit has no drive
+    double max_self_heating_k = 0.0;  // NaN when unknown
+};
+
+// The circuit with the free resistors set to `values` (in free_resistors order), bridges completed.
+[[nodiscard]] Circuit sized_circuit(const SizingSpec& spec, const Thermistor& model, const std::vector<double>& values);
+
+// The objective: largest |nonlinearity| %FSD of the circuit over the grid against spec.line
+// (+infinity when the output does not change).
+[[nodiscard]] double objective(const SizingSpec& spec, const Grid& grid, const Circuit& c);
+
+// The full figures of a circuit (via analyze()).
+[[nodiscard]] Candidate evaluate(const SizingSpec& spec, const Grid& grid, const Thermistor& model, const Circuit& c);
+
+// The continuous optimum over [range_lo, range_hi] for each free resistor, to 1e-6 relative or better.
+// Constraints are not applied (the result says whether it meets them: see meets()).
+[[nodiscard]] Candidate optimize_continuous(const SizingSpec& spec, const Grid& grid, const Thermistor& model);
+
+// Closed forms for one-resistor topologies (Pallàs-Areny & Webster, Sensors and Signal Conditioning,
+// 2nd ed., ch. 2): the inflection value R = R_Tc·(B − 2Tc)/(B + 2Tc) at the span's centre, with the
+// model's local B there (absent when B ≤ 2Tc), and the three-point value
+// R = [R2(R1 + R3) − 2·R1·R3]/(R1 + R3 − 2·R2) for the ends and centre (absent when not positive).
+struct ClosedForms {
+    std::optional<double> inflection_ohm;
+    std::optional<double> three_point_ohm;
+    double centre_k = 0.0;
+    double local_b_k = 0.0;  // the B used for the inflection value
+    bool local_b = false;    // true when the model is not a beta model, so B is the local B at Tc
+};
+[[nodiscard]] ClosedForms closed_forms(const Thermistor& model, const Span& span);
+
+// Which constraint a candidate fails first, or empty when it meets them all.
+[[nodiscard]] std::string failed_constraint(const SizingSpec& spec, const Candidate& c);
+
+struct StandardSearch {
+    std::vector<Candidate> best;            // at most spec.top, best first
+    std::size_t examined = 0;               // combinations evaluated
+    std::vector<std::pair<std::string, std::size_t>> removed;  // constraint flag → candidates it removed
+};
+
+// Every combination of series values in range for the free resistors, ranked by the objective;
+// ties broken by the larger output span. Exhaustive: no combination is skipped.
+[[nodiscard]] StandardSearch search_standard(const SizingSpec& spec, const Grid& grid, const Thermistor& model);
+
+// For a one-resistor topology: the series values on the Pareto front of nonlinearity (lower is better)
+// against output span (higher is better), by descending span. Constraints apply.
+[[nodiscard]] std::vector<Candidate> tradeoff(const SizingSpec& spec, const Grid& grid, const Thermistor& model);
+
+}  // namespace rtline

@@ -1,0 +1,401 @@
+// rtline size: the resistor values that make the output most linear, continuous and standard.
+#include <cmath>
+#include <memory>
+
+#include "commands.hpp"
+#include "common.hpp"
+#include "rtline/error.hpp"
+#include "rtline/sizing.hpp"
+
+namespace rtline::cli {
+
+namespace {
+
+struct SizeCommand {
+    ModelOptions model;
+    SpanOptions span;
+    CircuitOptions circuit;
+    std::string series = "E24";
+    std::string range = "1:10M";
+    std::string top = "5";
+    std::string line = "endpoint";
+    std::string max_power;         // W
+    std::string max_self_heating;  // K
+    std::string dissipation;       // mW/K
+    std::string min_span;          // output units
+    std::string min_sensitivity;   // output units per K
+    bool compare = false;
+    bool tradeoff = false;
+    OutputOptions out;
+};
+
+// The spec shared by every topology the run sizes.
+struct Setup {
+    Thermistor model;
+    Span span;
+    Grid grid;
+    SizingSpec spec;
+};
+
+Setup build_setup(const SizeCommand& o) {
+    Thermistor model = build_model(o.model);
+    const Span span = build_span(o.span);
+    Grid grid = make_grid(model, span, build_step(o.span));
+    SizingSpec spec;
+    spec.line = parse_line(o.line, "--line");
+    spec.series = parse_series(o.series, "--series");
+    {
+        const std::size_t colon = o.range.find(':');
+        if (colon == std::string::npos) throw InputError("--range", o.range, "expected LO:HI in ohm, e.g. 100:1M");
+        spec.range_lo_ohm = parse_resistance(o.range.substr(0, colon), "--range");
+        spec.range_hi_ohm = parse_resistance(o.range.substr(colon + 1), "--range");
+        if (!(spec.range_lo_ohm < spec.range_hi_ohm)) {
+            throw InputError("--range", o.range, "the low end must be below the high end");
+        }
+    }
+    const double top = parse_number(o.top, "--top");
+    if (!(top >= 1.0 && top <= 1000.0) || top != std::floor(top)) {
+        throw InputError("--top", o.top, "expected a whole number from 1 to 1000");
+    }
+    spec.top = static_cast<std::size_t>(top);
+    if (!o.dissipation.empty()) {
+        spec.dissipation_w_per_k = 1e-3 * parse_number(o.dissipation, "--dissipation");
+        if (!(spec.dissipation_w_per_k > 0.0)) {
+            throw InputError("--dissipation", o.dissipation, "the dissipation constant must be positive (mW/K)");
+        }
+    }
+    const bool driven = !o.circuit.excitation.empty() || !o.circuit.current.empty();
+    Constraints& k = spec.constraints;
+    if (!o.max_power.empty()) {
+        k.max_power_w = optional_quantity(o.max_power, "--max-power", "W", 0.0);
+        if (!driven) {
+            throw InputError("--max-power", o.max_power,
+                             "the power depends on the drive; give --excitation V or --current A");
+        }
+    }
+    if (!o.max_self_heating.empty()) {
+        k.max_self_heating_k = optional_quantity(o.max_self_heating, "--max-self-heating", "K", 0.0);
+        if (spec.dissipation_w_per_k == 0.0) {
+            throw InputError("--max-self-heating", o.max_self_heating, "needs --dissipation (mW/K)");
+        }
+        if (!driven) {
+            throw InputError("--max-self-heating", o.max_self_heating,
+                             "the self-heating depends on the drive; give --excitation V or --current A");
+        }
+    }
+    if (!o.min_span.empty()) k.min_span = optional_quantity(o.min_span, "--min-span", "", 0.0);
+    if (!o.min_sensitivity.empty()) {
+        k.min_sensitivity = optional_quantity(o.min_sensitivity, "--min-sensitivity", "", 0.0);
+    }
+    spec.null_at_k = null_temperature(o.circuit, span);
+    if (!o.circuit.null_at.empty()) model.check_span({spec.null_at_k, spec.null_at_k + 1e-6}, "--null-at");
+    return {std::move(model), span, std::move(grid), spec};
+}
+
+Json resistors_json(const Circuit& c) {
+    Json r = Json::object();
+    for (const std::string& name : resistor_names(c.topology)) r[name] = resistor_value(c, name);
+    return r;
+}
+
+std::string resistors_text(const Circuit& c, int digits) {
+    std::string s;
+    for (const std::string& name : free_resistors(c.topology)) {
+        if (!s.empty()) s += ", ";
+        s += name + " = " + format_resistance(resistor_value(c, name), digits);
+    }
+    return s;
+}
+
+Json candidate_json(const Candidate& c) {
+    return {{"topology", std::string(topology_name(c.circuit.topology))},
+            {"resistors_ohm", resistors_json(c.circuit)},
+            {"max_nonlinearity_pct_fsd", c.max_nonlinearity_pct_fsd},
+            {"max_error_c", c.max_error_k},
+            {"output_span", c.output_span},
+            {"sensitivity_per_k", {{"min", c.sensitivity_min_per_k}, {"max", c.sensitivity_max_per_k}}},
+            {"max_power_w", number(c.max_power_w)},
+            {"max_self_heating_k", number(c.max_self_heating_k)}};
+}
+
+Table candidate_table(const std::vector<Candidate>& cs, const std::string& unit, bool csv, bool with_topology) {
+    std::vector<Column> cols;
+    if (with_topology) cols.push_back({"circuit", "topology"});
+    cols.push_back({"resistors", "resistors"});
+    cols.push_back({"nonlinearity (%FSD)", "max_nonlinearity_pct_fsd", 3});
+    cols.push_back({"error (\xC2\xB0" "C)", "max_error_c", 3});
+    cols.push_back({"span (" + unit + ")", "output_span", -1, 4});
+    cols.push_back({"min sens (" + unit + "/K)", "sensitivity_min_per_k", -1, 4});
+    cols.push_back({"max sens (" + unit + "/K)", "sensitivity_max_per_k", -1, 4});
+    cols.push_back({csv ? "power (W)" : "power (mW)", "max_power_w", -1, 4});
+    Table t(cols);
+    for (const Candidate& c : cs) {
+        std::vector<Cell> row;
+        if (with_topology) row.emplace_back(std::string(topology_name(c.circuit.topology)));
+        row.emplace_back(resistors_text(c.circuit, 4));
+        row.emplace_back(c.max_nonlinearity_pct_fsd);
+        row.emplace_back(c.max_error_k);
+        row.emplace_back(c.output_span);
+        row.emplace_back(c.sensitivity_min_per_k);
+        row.emplace_back(c.sensitivity_max_per_k);
+        row.emplace_back(csv ? c.max_power_w : 1e3 * c.max_power_w);
+        t.add_row(std::move(row));
+    }
+    return t;
+}
+
+[[noreturn]] void infeasible(const SizingSpec& spec, const StandardSearch& s, const std::string& what) {
+    std::pair<std::string, std::size_t> worst{"", 0};
+    std::string others;
+    for (const auto& r : s.removed) {
+        if (r.second > worst.second) worst = r;
+    }
+    for (const auto& r : s.removed) {
+        if (r.second > 0 && r.first != worst.first) others += "; " + r.first + " removed " + std::to_string(r.second);
+    }
+    std::string msg = "no " + std::string(series_name(spec.series)) + " combination " + what + " meets the constraints";
+    if (worst.second > 0) {
+        msg += ": " + worst.first + " removed " + std::to_string(worst.second) + " of " + std::to_string(s.examined) +
+               " combinations" + others;
+    }
+    throw InfeasibleError(msg);
+}
+
+// The warning the text output carries when the chosen design's span is small next to the excitation.
+std::string span_warning(const Candidate& c) {
+    const Excitation& e = c.circuit.excitation;
+    if (gives_resistance(c.circuit.topology) || e.drive == Drive::current) return "";
+    const double full = e.drive == Drive::voltage ? e.value : 1.0;
+    if (c.output_span >= 0.1 * full) return "";
+    return "warning: the best design's output span is " + format_number(c.output_span, 3) + " " +
+           output_unit(c.circuit) + ", below 10 % of the excitation; consider --min-span";
+}
+
+std::string header_text(const Setup& s, const SizeCommand& o, const std::string& topology_text) {
+    return "model:   " + describe_model(s.model) + "\n" + "circuit: " + topology_text + "\n" + "span:    " +
+           format_number(kelvin_to_celsius(s.span.lo_k)) + " to " + format_number(kelvin_to_celsius(s.span.hi_k)) +
+           " \xC2\xB0" "C, " + std::to_string(s.grid.size()) + " points; objective: largest |nonlinearity| against the " +
+           std::string(line_name(s.spec.line)) + " line\n" + "values:  " + std::string(series_name(s.spec.series)) +
+           " from " + format_resistance(s.spec.range_lo_ohm) + " to " + format_resistance(s.spec.range_hi_ohm) +
+           " ohm" + (o.range == "1:10M" ? " (the default range)" : "") + "\n";
+}
+
+Json header_json(const Setup& s, const std::string& command) {
+    Json doc = document(command);
+    doc["model"] = model_json(s.model);
+    doc["span"] = {{"lo_c", kelvin_to_celsius(s.span.lo_k)}, {"hi_c", kelvin_to_celsius(s.span.hi_k)},
+                   {"points", s.grid.size()}};
+    doc["line"] = std::string(line_name(s.spec.line));
+    doc["series"] = std::string(series_name(s.spec.series));
+    doc["range_ohm"] = {{"lo", s.spec.range_lo_ohm}, {"hi", s.spec.range_hi_ohm}};
+    const Constraints& k = s.spec.constraints;
+    Json c = Json::object();
+    if (std::isfinite(k.max_power_w)) c["max_power_w"] = k.max_power_w;
+    if (std::isfinite(k.max_self_heating_k)) c["max_self_heating_k"] = k.max_self_heating_k;
+    if (k.min_span > 0.0) c["min_span"] = k.min_span;
+    if (k.min_sensitivity > 0.0) c["min_sensitivity_per_k"] = k.min_sensitivity;
+    doc["constraints"] = c;
+    if (s.spec.dissipation_w_per_k > 0.0) doc["dissipation_mw_per_k"] = 1e3 * s.spec.dissipation_w_per_k;
+    return doc;
+}
+
+std::string run_compare(const SizeCommand& o, Setup& s, Format format) {
+    std::vector<Candidate> rows;
+    std::vector<std::string> skipped;
+    const Circuit drive = build_drive(o.circuit, "divider-low");
+    for (const Topology t : all_topologies()) {
+        if (t == Topology::bare) continue;
+        s.spec.base = drive;
+        s.spec.base.topology = t;
+        if (gives_resistance(t) && drive.excitation.drive == Drive::voltage) {
+            skipped.push_back(std::string(topology_name(t)) + " (its output is a resistance; needs --current)");
+            continue;
+        }
+        SizingSpec one = s.spec;
+        one.top = 1;
+        const StandardSearch found = search_standard(one, s.grid, s.model);
+        if (found.best.empty()) {
+            skipped.push_back(std::string(topology_name(t)) + " (no combination meets the constraints)");
+            continue;
+        }
+        rows.push_back(found.best.front());
+    }
+    if (rows.empty()) throw InfeasibleError("no topology has a " + std::string(series_name(s.spec.series)) +
+                                            " combination that meets the constraints");
+    std::stable_sort(rows.begin(), rows.end(), [](const Candidate& a, const Candidate& b) {
+        return a.max_nonlinearity_pct_fsd < b.max_nonlinearity_pct_fsd;
+    });
+    if (format == Format::json) {
+        Json doc = header_json(s, "size");
+        doc["drive"] = circuit_json(drive)["drive"];
+        Json arr = Json::array();
+        for (const Candidate& c : rows) arr.push_back(candidate_json(c));
+        doc["comparison"] = arr;
+        Json sk = Json::array();
+        for (const std::string& k : skipped) sk.push_back(k);
+        doc["skipped"] = sk;
+        return dump(doc);
+    }
+    // Units differ between topologies (ohm for shunt, V/V for dividers): the table names them per row.
+    const bool csv = format == Format::csv;
+    Table t({{"circuit", "topology"},
+             {"resistors", "resistors"},
+             {"nonlinearity (%FSD)", "max_nonlinearity_pct_fsd", 3},
+             {"error (\xC2\xB0" "C)", "max_error_c", 3},
+             {"span", "output_span", -1, 4},
+             {"unit", "output_unit"},
+             {csv ? "power (W)" : "power (mW)", "max_power_w", -1, 4}});
+    for (const Candidate& c : rows) {
+        t.add_row({std::string(topology_name(c.circuit.topology)), resistors_text(c.circuit, 4), c.max_nonlinearity_pct_fsd,
+                   c.max_error_k, c.output_span, output_unit(c.circuit), csv ? c.max_power_w : 1e3 * c.max_power_w});
+    }
+    if (csv) return t.csv();
+    std::string text = header_text(s, o, "every topology, best " + std::string(series_name(s.spec.series)) + " values each") +
+                       "\n" + t.text();
+    for (const std::string& k : skipped) text += "skipped: " + k + "\n";
+    return text;
+}
+
+void run_size(const SizeCommand& o) {
+    const Format format = parse_format(o.out.format);
+    if (o.compare && !o.circuit.circuit.empty()) {
+        throw InputError("--compare", o.circuit.circuit, "compares every topology; leave out --circuit");
+    }
+    if (o.compare && o.tradeoff) throw InputError("--tradeoff", "", "give either --compare or --tradeoff, not both");
+    if (!o.compare && o.circuit.circuit.empty()) {
+        throw InputError("--circuit", "", "name the topology to size, or give --compare for all of them");
+    }
+    Setup s = build_setup(o);
+    std::string bytes;
+    if (o.compare) {
+        emit(o.out.output, run_compare(o, s, format));
+        return;
+    }
+    s.spec.base = build_drive(o.circuit, o.circuit.circuit);
+    validate(sized_circuit(s.spec, s.model, std::vector<double>(free_resistors(s.spec.base.topology).size(), 1e3)));
+    const Topology topo = s.spec.base.topology;
+    const std::vector<std::string> names = free_resistors(topo);
+    if (names.empty()) throw InputError("--circuit", o.circuit.circuit, "the bare thermistor has no resistor to size");
+    const std::string unit = output_unit(s.spec.base);
+    const bool csv = format == Format::csv;
+
+    if (o.tradeoff) {
+        if (names.size() != 1) {
+            throw InputError("--tradeoff", o.circuit.circuit, "applies to one-resistor topologies (divider-high, "
+                                                              "divider-low, shunt, bridge)");
+        }
+        const std::vector<Candidate> front = tradeoff(s.spec, s.grid, s.model);
+        if (front.empty()) throw InfeasibleError("no " + std::string(series_name(s.spec.series)) + " value meets the constraints");
+        if (format == Format::json) {
+            Json doc = header_json(s, "size");
+            doc["circuit"] = circuit_json(s.spec.base);
+            doc["circuit"].erase("resistors_ohm");
+            Json arr = Json::array();
+            for (const Candidate& c : front) arr.push_back(candidate_json(c));
+            doc["tradeoff"] = arr;
+            bytes = dump(doc);
+        } else if (csv) {
+            bytes = candidate_table(front, unit, true, false).csv();
+        } else {
+            bytes = header_text(s, o, describe_circuit(s.spec.base)) +
+                    "\nPareto front: each value is the most linear of all values with at least its output span\n" +
+                    candidate_table(front, unit, false, false).text();
+        }
+        emit(o.out.output, bytes);
+        return;
+    }
+
+    const Candidate continuous = optimize_continuous(s.spec, s.grid, s.model);
+    const bool one = names.size() == 1;
+    const ClosedForms cf = closed_forms(s.model, s.span);
+    const StandardSearch found = search_standard(s.spec, s.grid, s.model);
+    if (found.best.empty()) infeasible(s.spec, found, "");
+    const std::string cont_fails = failed_constraint(s.spec, continuous);
+
+    if (format == Format::json) {
+        Json doc = header_json(s, "size");
+        Json circ = circuit_json(s.spec.base);
+        circ.erase("resistors_ohm");
+        doc["circuit"] = circ;
+        doc["continuous"] = {{"resistors_ohm", resistors_json(continuous.circuit)},
+                             {"max_nonlinearity_pct_fsd", continuous.max_nonlinearity_pct_fsd},
+                             {"output_span", continuous.output_span},
+                             {"meets_constraints", cont_fails.empty()}};
+        if (one) {
+            doc["closed_form"] = {{"inflection_ohm", cf.inflection_ohm ? Json(*cf.inflection_ohm) : Json(nullptr)},
+                                  {"three_point_ohm", cf.three_point_ohm ? Json(*cf.three_point_ohm) : Json(nullptr)},
+                                  {"centre_c", kelvin_to_celsius(cf.centre_k)},
+                                  {"b_k", cf.local_b_k},
+                                  {"b_is_local", cf.local_b}};
+        }
+        Json arr = Json::array();
+        for (const Candidate& c : found.best) arr.push_back(candidate_json(c));
+        doc["candidates"] = arr;
+        doc["examined"] = found.examined;
+        Json warnings = Json::array();
+        if (const std::string w = span_warning(found.best.front()); !w.empty()) warnings.push_back(w);
+        doc["warnings"] = warnings;
+        bytes = dump(doc);
+    } else if (csv) {
+        bytes = candidate_table(found.best, unit, true, false).csv();
+    } else {
+        std::string t = header_text(s, o, describe_circuit(s.spec.base)) + "\n";
+        t += "continuous optimum   " + resistors_text(continuous.circuit, 6) + "  ->  " +
+             format_fixed(continuous.max_nonlinearity_pct_fsd, 4) + " %FSD, span " +
+             format_number(continuous.output_span, 4) + " " + unit +
+             (cont_fails.empty() ? "" : "  (fails " + cont_fails + ")") + "\n";
+        if (one) {
+            const std::string r = names.front();
+            const std::string b_note = cf.local_b ? " with the model's local B there (" + format_number(cf.local_b_k, 5) + " K)" : "";
+            t += "closed forms (Pallas-Areny & Webster, ch. 2):\n";
+            t += "  inflection at " + format_number(kelvin_to_celsius(cf.centre_k)) + " \xC2\xB0" "C" + b_note + "   " +
+                 (cf.inflection_ohm ? r + " = " + format_resistance(*cf.inflection_ohm, 5)
+                                    : std::string("none: B <= 2*Tc there")) + "\n";
+            t += "  three-point (ends and centre)   " +
+                 (cf.three_point_ohm ? r + " = " + format_resistance(*cf.three_point_ohm, 5) : std::string("none")) + "\n";
+        }
+        t += "\nbest " + std::string(series_name(s.spec.series)) + " values (" + std::to_string(found.examined) +
+             " combinations examined, exhaustively)\n" + candidate_table(found.best, unit, false, false).text();
+        if (const std::string w = span_warning(found.best.front()); !w.empty()) t += w + "\n";
+        bytes = t;
+    }
+    emit(o.out.output, bytes);
+}
+
+}  // namespace
+
+void setup_size(CLI::App& app) {
+    auto opt = std::make_shared<SizeCommand>();
+    auto* sub = app.add_subcommand("size", "Find the resistor values that make the output most linear over a span");
+    add_model_options(*sub, opt->model);
+    add_span_options(*sub, opt->span);
+    add_circuit_options(*sub, opt->circuit, true, false);
+    sub->add_option("--series", opt->series, "Standard values: E3, E6, E12, E24 (default), E48, E96 or E192")
+        ->group("Search");
+    sub->add_option("--range", opt->range, "Resistor values LO:HI in ohm (default 1:10M)")->group("Search");
+    sub->add_option("--top", opt->top, "How many standard combinations to list (default 5)")->group("Search");
+    sub->add_option("--line", opt->line, "Reference line: endpoint (default), best-fit or minimax")->group("Search");
+    sub->add_flag("--compare", opt->compare, "Size every topology and list the best of each")->group("Search");
+    sub->add_flag("--tradeoff", opt->tradeoff, "One-resistor topology: nonlinearity against output span (Pareto front)")
+        ->group("Search");
+    sub->add_option("--max-power", opt->max_power, "Largest thermistor power, W (e.g. 100u); needs a drive")
+        ->group("Constraints");
+    sub->add_option("--max-self-heating", opt->max_self_heating, "Largest self-heating, K; needs --dissipation")
+        ->group("Constraints");
+    sub->add_option("--dissipation", opt->dissipation, "Thermistor dissipation constant, mW/K")->group("Constraints");
+    sub->add_option("--min-span", opt->min_span, "Smallest output span, output units (V/V ratiometric)")
+        ->group("Constraints");
+    sub->add_option("--min-sensitivity", opt->min_sensitivity, "Smallest |d output/dT| over the span, output units per K")
+        ->group("Constraints");
+    add_output_options(*sub, opt->out);
+    sub->footer(std::string("Examples:\n"
+                            "  rtline size --r25 10k --beta 3950 --span 0:45 --circuit divider-low\n"
+                            "  rtline size --r25 10k --beta 3950 --span -20:60 --circuit shunt-divider --series E96 "
+                            "--min-span 0.3\n"
+                            "  rtline size --r25 10k --beta 3950 --span -30:5 --compare --excitation 3.3 --max-power 1m\n"
+                            "Exit code 1 when no combination meets the constraints.\n\n") +
+                kSafetyNote);
+    sub->callback([opt] { run_size(*opt); });
+}
+
+}  // namespace rtline::cli
