@@ -167,7 +167,7 @@ std::string span_warning(const Candidate& c) {
     if (gives_resistance(c.circuit.topology) || e.drive == Drive::current) return "";
     const double full = e.drive == Drive::voltage ? e.value : 1.0;
     if (c.output_span >= 0.1 * full) return "";
-    return "warning: the best design's output span is " + format_number(c.output_span, 3) + " " +
+    return "warning: the output span is only " + format_number(c.output_span, 3) + " " +
            output_unit(c.circuit) + ", below 10 % of the excitation; consider --min-span";
 }
 
@@ -253,6 +253,9 @@ std::string run_compare(const SizeCommand& o, Setup& s, Format format) {
     std::string text = header_text(s, o, "every topology, best " + std::string(series_name(s.spec.series)) + " values each") +
                        "\n" + t.text();
     for (const std::string& k : skipped) text += "skipped: " + k + "\n";
+    for (const Candidate& c : rows) {
+        if (const std::string w = span_warning(c); !w.empty()) text += std::string(topology_name(c.circuit.topology)) + ": " + w + "\n";
+    }
     return text;
 }
 
@@ -345,7 +348,7 @@ void run_size(const SizeCommand& o) {
              format_number(continuous.output_span, 4) + " " + unit +
              (cont_fails.empty() ? "" : "  (fails " + cont_fails + ")") + "\n";
         if (one) {
-            const std::string r = names.front();
+            const std::string& r = names.front();
             const std::string b_note = cf.local_b ? " with the model's local B there (" + format_number(cf.local_b_k, 5) + " K)" : "";
             t += "closed forms (Pallas-Areny & Webster, ch. 2):\n";
             t += "  inflection at " + format_number(kelvin_to_celsius(cf.centre_k)) + " \xC2\xB0" "C" + b_note + "   " +

@@ -17,7 +17,7 @@ double max_abs(const std::vector<Residual>& rs) {
 
 // Weighted least squares with the columns scaled to unit norm, solved by column-pivoting QR.
 // Throws InputError when the design matrix is rank-deficient (collinear or repeated points).
-Eigen::VectorXd solve_scaled(Eigen::MatrixXd a, Eigen::VectorXd y, const char* what) {
+Eigen::VectorXd solve_scaled(Eigen::MatrixXd a, const Eigen::VectorXd& y, const char* what) {
     Eigen::VectorXd scale(a.cols());
     for (Eigen::Index j = 0; j < a.cols(); ++j) {
         scale(j) = a.col(j).norm();
