@@ -118,7 +118,8 @@ Json candidate_json(const Candidate& c) {
             {"max_self_heating_k", number(c.max_self_heating_k)}};
 }
 
-Table candidate_table(const std::vector<Candidate>& cs, const std::string& unit, bool csv, bool with_topology) {
+Table candidate_table(const std::vector<Candidate>& cs, const std::string& unit, bool csv, bool with_topology,
+                      bool self_heating) {
     std::vector<Column> cols;
     if (with_topology) cols.push_back({"circuit", "topology"});
     cols.push_back({"resistors", "resistors"});
@@ -128,6 +129,7 @@ Table candidate_table(const std::vector<Candidate>& cs, const std::string& unit,
     cols.push_back({"min sens (" + unit + "/K)", "sensitivity_min_per_k", -1, 4});
     cols.push_back({"max sens (" + unit + "/K)", "sensitivity_max_per_k", -1, 4});
     cols.push_back({csv ? "power (W)" : "power (mW)", "max_power_w", -1, 4});
+    if (self_heating) cols.push_back({"self-heating (K)", "max_self_heating_k", 4});
     Table t(cols);
     for (const Candidate& c : cs) {
         std::vector<Cell> row;
@@ -139,6 +141,7 @@ Table candidate_table(const std::vector<Candidate>& cs, const std::string& unit,
         row.emplace_back(c.sensitivity_min_per_k);
         row.emplace_back(c.sensitivity_max_per_k);
         row.emplace_back(csv ? c.max_power_w : 1e3 * c.max_power_w);
+        if (self_heating) row.emplace_back(c.max_self_heating_k);
         t.add_row(std::move(row));
     }
     return t;
@@ -281,6 +284,7 @@ void run_size(const SizeCommand& o) {
     if (names.empty()) throw InputError("--circuit", o.circuit.circuit, "the bare thermistor has no resistor to size");
     const std::string unit = output_unit(s.spec.base);
     const bool csv = format == Format::csv;
+    const bool heat = s.spec.dissipation_w_per_k > 0.0;
 
     if (o.tradeoff) {
         if (names.size() != 1) {
@@ -298,11 +302,11 @@ void run_size(const SizeCommand& o) {
             doc["tradeoff"] = arr;
             bytes = dump(doc);
         } else if (csv) {
-            bytes = candidate_table(front, unit, true, false).csv();
+            bytes = candidate_table(front, unit, true, false, heat).csv();
         } else {
             bytes = header_text(s, o, describe_circuit(s.spec.base)) +
                     "\nPareto front: each value is the most linear of all values with at least its output span\n" +
-                    candidate_table(front, unit, false, false).text();
+                    candidate_table(front, unit, false, false, heat).text();
         }
         emit(o.out.output, bytes);
         return;
@@ -340,7 +344,7 @@ void run_size(const SizeCommand& o) {
         doc["warnings"] = warnings;
         bytes = dump(doc);
     } else if (csv) {
-        bytes = candidate_table(found.best, unit, true, false).csv();
+        bytes = candidate_table(found.best, unit, true, false, heat).csv();
     } else {
         std::string t = header_text(s, o, describe_circuit(s.spec.base)) + "\n";
         t += "continuous optimum   " + resistors_text(continuous.circuit, 6) + "  ->  " +
@@ -358,7 +362,7 @@ void run_size(const SizeCommand& o) {
                  (cf.three_point_ohm ? r + " = " + format_resistance(*cf.three_point_ohm, 5) : std::string("none")) + "\n";
         }
         t += "\nbest " + std::string(series_name(s.spec.series)) + " values (" + std::to_string(found.examined) +
-             " combinations examined, exhaustively)\n" + candidate_table(found.best, unit, false, false).text();
+             " combinations examined, exhaustively)\n" + candidate_table(found.best, unit, false, false, heat).text();
         if (const std::string w = span_warning(found.best.front()); !w.empty()) t += w + "\n";
         bytes = t;
     }
