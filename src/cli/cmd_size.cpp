@@ -1,4 +1,5 @@
 // rtline size: the resistor values that make the output most linear, continuous and standard.
+#include <algorithm>
 #include <cmath>
 #include <memory>
 
@@ -122,7 +123,12 @@ Table candidate_table(const std::vector<Candidate>& cs, const std::string& unit,
                       bool self_heating) {
     std::vector<Column> cols;
     if (with_topology) cols.push_back({"circuit", "topology"});
-    cols.push_back({"resistors", "resistors"});
+    const std::vector<std::string> names = cs.empty() ? std::vector<std::string>{} : free_resistors(cs.front().circuit.topology);
+    if (csv) {
+        for (const std::string& n : names) cols.push_back({n, n + "_ohm"});
+    } else {
+        cols.push_back({"resistors", "resistors"});
+    }
     cols.push_back({"nonlinearity (%FSD)", "max_nonlinearity_pct_fsd", 3});
     cols.push_back({"error (\xC2\xB0" "C)", "max_error_c", 3});
     cols.push_back({"span (" + unit + ")", "output_span", -1, 4});
@@ -134,7 +140,11 @@ Table candidate_table(const std::vector<Candidate>& cs, const std::string& unit,
     for (const Candidate& c : cs) {
         std::vector<Cell> row;
         if (with_topology) row.emplace_back(std::string(topology_name(c.circuit.topology)));
-        row.emplace_back(resistors_text(c.circuit, 4));
+        if (csv) {
+            for (const std::string& n : names) row.emplace_back(resistor_value(c.circuit, n));
+        } else {
+            row.emplace_back(resistors_text(c.circuit, 4));
+        }
         row.emplace_back(c.max_nonlinearity_pct_fsd);
         row.emplace_back(c.max_error_k);
         row.emplace_back(c.output_span);
@@ -156,7 +166,7 @@ Table candidate_table(const std::vector<Candidate>& cs, const std::string& unit,
     for (const auto& r : s.removed) {
         if (r.second > 0 && r.first != worst.first) others += "; " + r.first + " removed " + std::to_string(r.second);
     }
-    std::string msg = "no " + std::string(series_name(spec.series)) + " combination " + what + " meets the constraints";
+    std::string msg = "no " + std::string(series_name(spec.series)) + " combination" + what + " meets the constraints";
     if (worst.second > 0) {
         msg += ": " + worst.first + " removed " + std::to_string(worst.second) + " of " + std::to_string(s.examined) +
                " combinations" + others;
@@ -241,18 +251,30 @@ std::string run_compare(const SizeCommand& o, Setup& s, Format format) {
     }
     // Units differ between topologies (ohm for shunt, V/V for dividers): the table names them per row.
     const bool csv = format == Format::csv;
+    if (csv) {
+        Table t({{"", "topology"}, {"", "rs_ohm"}, {"", "rp_ohm"}, {"", "r1_ohm"}, {"", "max_nonlinearity_pct_fsd"},
+                 {"", "max_error_c"}, {"", "output_span"}, {"", "output_unit"}, {"", "max_power_w"}});
+        for (const Candidate& c : rows) {
+            auto value = [&](const char* n) {
+                const auto names = free_resistors(c.circuit.topology);
+                return std::find(names.begin(), names.end(), n) == names.end() ? NAN : resistor_value(c.circuit, n);
+            };
+            t.add_row({std::string(topology_name(c.circuit.topology)), value("rs"), value("rp"), value("r1"),
+                       c.max_nonlinearity_pct_fsd, c.max_error_k, c.output_span, output_unit(c.circuit), c.max_power_w});
+        }
+        return t.csv();
+    }
     Table t({{"circuit", "topology"},
              {"resistors", "resistors"},
              {"nonlinearity (%FSD)", "max_nonlinearity_pct_fsd", 3},
              {"error (\xC2\xB0" "C)", "max_error_c", 3},
              {"span", "output_span", -1, 4},
              {"unit", "output_unit"},
-             {csv ? "power (W)" : "power (mW)", "max_power_w", -1, 4}});
+             {"power (mW)", "max_power_w", -1, 4}});
     for (const Candidate& c : rows) {
         t.add_row({std::string(topology_name(c.circuit.topology)), resistors_text(c.circuit, 4), c.max_nonlinearity_pct_fsd,
-                   c.max_error_k, c.output_span, output_unit(c.circuit), csv ? c.max_power_w : 1e3 * c.max_power_w});
+                   c.max_error_k, c.output_span, output_unit(c.circuit), 1e3 * c.max_power_w});
     }
-    if (csv) return t.csv();
     std::string text = header_text(s, o, "every topology, best " + std::string(series_name(s.spec.series)) + " values each") +
                        "\n" + t.text();
     for (const std::string& k : skipped) text += "skipped: " + k + "\n";

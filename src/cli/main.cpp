@@ -1,4 +1,5 @@
-// The rtline program: parses flags, runs one command, maps the outcome to an exit code.
+// The rtline program: parses flags (from the command line, a --spec file or a --jsonl batch), runs one
+// command, maps the outcome to an exit code.
 // 0 success, 1 no design meets the constraints, 2 bad input or usage, 3 internal error.
 #include <CLI/CLI.hpp>
 #include <iostream>
@@ -6,30 +7,110 @@
 #include "commands.hpp"
 #include "common.hpp"
 #include "rtline/error.hpp"
+#include "spec.hpp"
 
-int main(int argc, char** argv) {
-    CLI::App app{
+namespace {
+
+void build_program(CLI::App& app) {
+    app.description(
         "rtline designs NTC thermistor linearization circuits: thermistor models and fits, divider, shunt\n"
-        "and bridge networks checked against a straight line, resistor sizing with standard values."};
+        "and bridge networks checked against a straight line, resistor sizing with standard values.");
     app.name("rtline");
     app.set_version_flag("--version", std::string("rtline ") + RTLINE_VERSION);
     app.require_subcommand(1);
-    app.footer(std::string("Exit codes: 0 success, 1 no design meets the constraints, 2 bad input or usage, "
+    // A flag given twice keeps its last value: the command line overrides a spec file.
+    app.option_defaults()->multi_option_policy(CLI::MultiOptionPolicy::TakeLast);
+    app.footer(std::string("Every command also takes --spec FILE (a JSON object of flag values, '-' for stdin) and\n"
+                           "--jsonl (one spec per stdin line, one JSON result per stdout line).\n"
+                           "Exit codes: 0 success, 1 no design meets the constraints, 2 bad input or usage, "
                            "3 internal error.\n\n") +
                rtline::cli::kSafetyNote);
     rtline::cli::setup_model(app);
     rtline::cli::setup_fit(app);
     rtline::cli::setup_check(app);
     rtline::cli::setup_size(app);
+    for (CLI::App* sub : app.get_subcommands({})) {
+        // Declared for --help; read_invocation() takes both out of the arguments before parsing.
+        sub->add_option("--spec", "JSON spec: keys are the long flag names with _ for - ('-' reads stdin)")
+            ->group("Input");
+        sub->add_option("--jsonl", "Batch: one JSON spec per stdin line, one JSON result per stdout line")
+            ->expected(0)
+            ->group("Input");
+    }
+}
 
+// The command line with --spec and --jsonl taken out and a spec's flags put in front of the user's.
+struct Invocation {
+    std::vector<std::string> args;  // in order, without the program name
+    std::string command;
+    bool jsonl = false;
+    std::string spec_path;
+};
+
+bool is_command(CLI::App& app, const std::string& name) {
+    for (const CLI::App* sub : app.get_subcommands({})) {
+        if (sub->get_name() == name) return true;
+    }
+    return false;
+}
+
+Invocation read_invocation(int argc, char** argv, CLI::App& app) {
+    Invocation inv;
+    for (int i = 1; i < argc; ++i) {
+        const std::string a = argv[i];
+        if (inv.command.empty() && !a.empty() && a[0] != '-' && is_command(app, a)) {
+            inv.command = a;
+            inv.args.push_back(a);
+        } else if (!inv.command.empty() && a == "--jsonl") {
+            inv.jsonl = true;
+        } else if (!inv.command.empty() && a == "--spec") {
+            if (i + 1 >= argc) throw rtline::InputError("--spec", "", "needs a file name ('-' for stdin)");
+            inv.spec_path = argv[++i];
+        } else if (!inv.command.empty() && a.rfind("--spec=", 0) == 0) {
+            inv.spec_path = a.substr(7);
+        } else {
+            inv.args.push_back(a);
+        }
+    }
+    return inv;
+}
+
+int run(int argc, char** argv) {
+    CLI::App app;
+    build_program(app);
+    Invocation inv = read_invocation(argc, argv, app);
+    if (inv.jsonl) {
+        if (!inv.spec_path.empty()) throw rtline::InputError("--spec", inv.spec_path, "not with --jsonl (specs come on stdin)");
+        const std::vector<std::string> extra(inv.args.begin() + 1, inv.args.end());
+        std::string out;
+        const int code = rtline::cli::run_batch(inv.command, extra, rtline::cli::read_text("-", "--jsonl"), build_program, out);
+        std::cout << out;
+        return code;
+    }
+    if (!inv.spec_path.empty()) {
+        const std::string source = inv.spec_path == "-" ? std::string("stdin") : inv.spec_path;
+        const auto spec = rtline::cli::parse_spec(rtline::cli::read_text(inv.spec_path, "--spec"), "--spec", source);
+        std::vector<std::string> from_spec = rtline::cli::spec_arguments(spec, *app.get_subcommand(inv.command));
+        inv.args.insert(inv.args.begin() + 1, from_spec.begin(), from_spec.end());
+    }
+    std::vector<std::string> reversed(inv.args.rbegin(), inv.args.rend());
     try {
-        app.parse(argc, argv);
+        app.parse(reversed);
     } catch (const CLI::CallForHelp& e) {
         return app.exit(e);
     } catch (const CLI::CallForAllHelp& e) {
         return app.exit(e);
     } catch (const CLI::CallForVersion& e) {
         return app.exit(e);
+    }
+    return 0;
+}
+
+}  // namespace
+
+int main(int argc, char** argv) {
+    try {
+        return run(argc, argv);
     } catch (const CLI::ParseError& e) {
         std::cerr << "rtline: " << e.what() << " (see rtline --help)\n";
         return 2;
@@ -43,5 +124,4 @@ int main(int argc, char** argv) {
         std::cerr << "rtline: internal error: " << e.what() << "\n";
         return 3;
     }
-    return 0;
 }

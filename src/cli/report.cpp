@@ -123,8 +123,19 @@ std::string dump(const Json& j) {
     return j.dump(2) + "\n";
 }
 
+namespace {
+std::string* g_sink = nullptr;
+}  // namespace
+
+SinkScope::SinkScope(std::string& buffer) : previous_(g_sink) { g_sink = &buffer; }
+SinkScope::~SinkScope() { g_sink = previous_; }
+
 void emit(const std::string& path, const std::string& bytes) {
     if (path.empty() || path == "-") {
+        if (g_sink != nullptr) {
+            *g_sink += bytes;
+            return;
+        }
         std::cout << bytes;
         std::cout.flush();
         return;

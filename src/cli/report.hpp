@@ -52,6 +52,18 @@ void require_finite(const Json& j);
 // The document as text, two-space indented, with a final newline.
 [[nodiscard]] std::string dump(const Json& j);
 
+// While alive, emit() to stdout appends to `buffer` instead (JSON Lines batches collect each result).
+class SinkScope {
+public:
+    explicit SinkScope(std::string& buffer);
+    ~SinkScope();
+    SinkScope(const SinkScope&) = delete;
+    SinkScope& operator=(const SinkScope&) = delete;
+
+private:
+    std::string* previous_;
+};
+
 // Writes `bytes` to stdout (path empty or "-") or to `path` through a temporary file beside it,
 // renamed into place once complete. Throws InputError ("-o") when the file cannot be written.
 void emit(const std::string& path, const std::string& bytes);
