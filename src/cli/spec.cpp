@@ -80,7 +80,7 @@ std::vector<std::string> spec_arguments(const Json& spec_in, const CLI::App& sub
         if (key.find('-') != std::string::npos || opt == nullptr) {
             throw InputError(key_field(key), "", "is not a key of '" + sub.get_name() + "' (keys are the long flag names with _ for -)");
         }
-        const bool is_flag = opt->get_type_size() == 0;
+        const bool is_flag = opt->get_expected_max() == 0;
         if (is_flag) {
             if (!value.is_boolean()) throw InputError(key_field(key), value.dump(), "expected true or false");
             if (value.get<bool>()) args.push_back(flag);
