@@ -77,8 +77,9 @@ struct OperatingPoint {
 // Resistance of a ∥ b, ohm (an infinite resistance is an open circuit).
 [[nodiscard]] double parallel(double a, double b);
 
-// Fills a bridge's reference arm for a null at `null_t_k`: r2 = r1 and r3 = R_T(null_t_k), for each
-// of r2 and r3 that is still 0. No effect on other topologies.
+// Fills a bridge's reference arm for a null at `null_t_k`: r2 = r1 when r2 is 0, then r3 = r2·Rx/r1
+// when r3 is 0 (Rx = R_T(null_t_k), or R_T ∥ rp for the shunt-bridge: the balance r1/Rx = r2/r3).
+// No effect on other topologies.
 void complete_bridge(Circuit& c, const Thermistor& model, double null_t_k);
 
 [[nodiscard]] constexpr bool is_bridge(Topology t) { return t == Topology::bridge || t == Topology::shunt_bridge; }

@@ -84,18 +84,24 @@ void run_check(const CheckCommand& o) {
         bytes = dump(doc);
     } else {
         const bool csv = format == Format::csv;
-        Table table({{"T (\xC2\xB0" "C)", "t_c", 2},
-                     {"R_T (ohm)", "r_t_ohm", -1, 6},
-                     {"output (" + unit + ")", "output", -1, 6},
-                     {"ideal (" + unit + ")", "ideal", -1, 6},
-                     {"deviation (" + unit + ")", "deviation", -1, 4},
-                     {"nonlinearity (%FSD)", "nonlinearity_pct_fsd", 3},
-                     {"error (\xC2\xB0" "C)", "error_c", 3},
-                     {csv ? "power (W)" : "power (mW)", "power_w", -1, 4},
-                     {"self-heating (K)", "self_heating_k", 4}});
+        std::vector<Column> columns{{"T (\xC2\xB0" "C)", "t_c", 2},
+                                    {"R_T (ohm)", "r_t_ohm", -1, 6},
+                                    {"output (" + unit + ")", "output", -1, 6},
+                                    {"ideal (" + unit + ")", "ideal", -1, 6},
+                                    {"deviation (" + unit + ")", "deviation", -1, 4},
+                                    {"nonlinearity (%FSD)", "nonlinearity_pct_fsd", 3},
+                                    {"error (\xC2\xB0" "C)", "error_c", 3},
+                                    {csv ? "power (W)" : "power (mW)", "power_w", -1, 4},
+                                    {"self-heating (K)", "self_heating_k", 4}};
+        // CSV has no place for a title, so each row names the line its ideal and deviation refer to.
+        if (csv) columns.push_back({"line", "line"});
+        Table table(columns);
         for (const PointResult& p : a.points) {
-            table.add_row({kelvin_to_celsius(p.t_k), p.r_t_ohm, p.output, p.ideal, p.deviation, p.nonlinearity_pct_fsd,
-                           p.error_k, csv ? p.power_w : 1e3 * p.power_w, p.self_heating_k});
+            std::vector<Cell> row{kelvin_to_celsius(p.t_k), p.r_t_ohm, p.output, p.ideal, p.deviation,
+                                  p.nonlinearity_pct_fsd, p.error_k, csv ? p.power_w : 1e3 * p.power_w,
+                                  p.self_heating_k};
+            if (csv) row.emplace_back(std::string(line_name(line)));
+            table.add_row(std::move(row));
         }
         if (csv) {
             bytes = table.csv();

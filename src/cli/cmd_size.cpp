@@ -89,7 +89,13 @@ Setup build_setup(const SizeCommand& o) {
         k.min_sensitivity = optional_quantity(o.min_sensitivity, "--min-sensitivity", "", 0.0);
     }
     spec.null_at_k = null_temperature(o.circuit, span);
-    if (!o.circuit.null_at.empty()) model.check_span({spec.null_at_k, spec.null_at_k + 1e-6}, "--null-at");
+    if (!o.circuit.null_at.empty()) {
+        try {
+            model.check_span(Span{spec.null_at_k - 5e-10, spec.null_at_k + 5e-10}, "--null-at");
+        } catch (const InputError& e) {
+            throw InputError("--null-at", o.circuit.null_at, e.why());
+        }
+    }
     return {std::move(model), span, std::move(grid), spec};
 }
 

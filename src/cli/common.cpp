@@ -228,11 +228,19 @@ Circuit build_circuit(const CircuitOptions& o, const Thermistor& model, const Sp
         }
         set_resistor(c, name, parse_resistance(*text, std::string("--") + name));
     }
+    if (!o.null_at.empty() && c.r3 != 0.0) {
+        throw InputError("--null-at", o.null_at, "has no effect when --r3 is given; give one of them");
+    }
     if (is_bridge(c.topology) && c.r1 > 0.0) {
         const double null_k = null_temperature(o, span);
         if (c.r3 == 0.0) {
-            Span at{null_k, null_k + 1e-6};
-            model.check_span(at, "--null-at");
+            // The model must cover the null temperature itself: a span 1 nK wide about it (within the
+            // table's edge tolerance, so a null at a table's end point is allowed).
+            try {
+                model.check_span(Span{null_k - 5e-10, null_k + 5e-10}, "--null-at");
+            } catch (const InputError& e) {
+                throw InputError("--null-at", o.null_at.empty() ? celsius(null_k) : o.null_at, e.why());
+            }
         }
         complete_bridge(c, model, null_k);
     }

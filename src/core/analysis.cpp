@@ -46,7 +46,7 @@ Analysis analyze(const Grid& grid, const Thermistor& model, const Circuit& circu
         // Rounding leaves ~1e-16 of full scale where the line meets the output exactly (the endpoints).
         if (std::abs(p.deviation) < 1e-12 * fs) p.deviation = 0.0;
         p.nonlinearity_pct_fsd = p.deviation / fs * 100.0;
-        p.error_k = p.deviation / a.line.slope;
+        p.error_k = p.deviation == 0.0 ? 0.0 : p.deviation / a.line.slope;  // +0, not −0, on the line
         p.sensitivity_per_k = sensitivity(circuit, model, p.t_k, p.r_t_ohm);
         p.power_w = ops[i].power_w;
         p.self_heating_k = dissipation_w_per_k > 0.0 ? p.power_w / dissipation_w_per_k : NAN;

@@ -207,8 +207,10 @@ void complete_bridge(Circuit& c, const Thermistor& model, double null_t_k) {
     if (!is_bridge(c.topology)) return;
     if (c.r2 == 0.0) c.r2 = c.r1;
     if (c.r3 == 0.0) {
+        // Balance r1/Rx = r2/r3 at the null, Rx the thermistor arm's lower part (R_T, or R_T ∥ rp).
         const double r_t = model.resistance(null_t_k);
-        c.r3 = c.topology == Topology::shunt_bridge && c.rp > 0.0 ? parallel(r_t, c.rp) : r_t;
+        const double rx = c.topology == Topology::shunt_bridge && c.rp > 0.0 ? parallel(r_t, c.rp) : r_t;
+        c.r3 = c.r2 == c.r1 ? rx : c.r2 * rx / c.r1;
     }
 }
 

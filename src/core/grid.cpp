@@ -12,7 +12,10 @@ std::vector<double> span_temperatures(const Span& span, double step_k) {
     }
     const double width = span.hi_k - span.lo_k;
     const double intervals = width / step_k;
-    if (!(intervals < static_cast<double>(kMaxGridPoints))) {
+    // Points: the whole intervals plus one, plus the span's end when the step does not divide it.
+    if (!(std::floor(intervals + 1e-9) + 2.0 <= static_cast<double>(kMaxGridPoints)) &&
+        !(std::floor(intervals + 1e-9) + 1.0 <= static_cast<double>(kMaxGridPoints) &&
+          width - std::floor(intervals + 1e-9) * step_k <= 1e-9 * step_k)) {
         throw InputError("--step", format_number(step_k),
                          "gives more than " + std::to_string(kMaxGridPoints) + " points over the span");
     }

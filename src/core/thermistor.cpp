@@ -302,7 +302,7 @@ void Thermistor::check_span(const Span& span, const std::string& field) const {
             throw InputError(field, text,
                              "outside the R-T table, which covers " +
                                  format_number(kelvin_to_celsius(table->t_min_k())) + " to " +
-                                 format_number(kelvin_to_celsius(table->t_max_k())) + " C");
+                                 format_number(kelvin_to_celsius(table->t_max_k())) + " \xC2\xB0" "C");
         }
         return;
     }
