@@ -184,6 +184,19 @@ TEST_CASE("size --compare gives one row per applicable topology, sorted by nonli
         REQUIRE(doc["skipped"].size() == 1);
         CHECK(doc["skipped"][0].get<std::string>().rfind("shunt ", 0) == 0);
     }
+    SUBCASE("output-unit limits skip the ratiometric shunt, whose output is in ohm, not V/V") {
+        // Without this the shunt's span of about 3 kΩ would pass --min-span 0.38 (meant as V/V), which no
+        // divider reaches (≈ 0.377 V/V at best, by hand in the infeasible test below).
+        const json doc = run_json(with(kGreenhouse, {"--compare", "--min-span", "0.3"}));
+        for (const json& row : doc["comparison"]) CHECK(row["topology"] != "shunt");
+        bool skipped_shunt = false;
+        for (const json& k : doc["skipped"]) skipped_shunt = skipped_shunt || k.get<std::string>().rfind("shunt (", 0) == 0;
+        CHECK(skipped_shunt);
+        const auto none = run_rtline(with(kGreenhouse, {"--compare", "--min-span", "0.38"}));
+        CHECK(none.code == 1);
+        CHECK(none.out.empty());
+        CHECK(none.err.rfind("rtline: no E24 combination for any topology meets the constraints: --min-span removed ", 0) == 0);
+    }
     SUBCASE("a current drive skips the dividers, whose output it makes independent of the thermistor or of rs") {
         // By hand: a current source I into a divider gives I·rs (thermistor on top) or I·R_T (at the bottom).
         const json doc = run_json(with(kGreenhouse, {"--compare", "--current", "100u"}));
@@ -269,6 +282,12 @@ TEST_CASE("size with constraints nothing meets exits 1, names the constraint tha
     CHECK(both.out.empty());
     CHECK(both.err.rfind("rtline: no E24 combination meets the constraints: --min-span removed ", 0) == 0);
     CHECK(both.err.find("--max-power removed") != std::string::npos);
+
+    // --tradeoff says the same.
+    const auto front = run_rtline(with(kGreenhouse, {"--circuit", "divider-low", "--tradeoff", "--min-span", "0.5"}));
+    CHECK(front.code == 1);
+    CHECK(front.out.empty());
+    CHECK(front.err == r.err);
 
     // An -o file is left as it was.
     const rtline::test::TempPath file(".json");

@@ -1,4 +1,5 @@
 // rtline size: the resistor values that make the output most linear, continuous and standard.
+#include <algorithm>
 #include <cmath>
 #include <memory>
 
@@ -219,6 +220,7 @@ Json header_json(const Setup& s, const std::string& command) {
 std::string run_compare(const SizeCommand& o, Setup& s, Format format) {
     std::vector<Candidate> rows;
     std::vector<std::string> skipped;
+    StandardSearch total;  // what every topology's search examined and removed, for the infeasible message
     const Circuit drive = build_drive(o.circuit, "divider-low");
     for (const Topology t : all_topologies()) {
         if (t == Topology::bare) continue;
@@ -228,6 +230,13 @@ std::string run_compare(const SizeCommand& o, Setup& s, Format format) {
             skipped.push_back(std::string(topology_name(t)) + " (its output is a resistance; needs --current)");
             continue;
         }
+        const Constraints& k = s.spec.constraints;
+        if (output_unit(s.spec.base) != output_unit(drive) && (k.min_span > 0.0 || k.min_sensitivity > 0.0)) {
+            // --min-span and --min-sensitivity are in the other rows' unit (V/V); this row's is ohm.
+            skipped.push_back(std::string(topology_name(t)) + " (its output is in " + output_unit(s.spec.base) +
+                              ", not the " + output_unit(drive) + " of --min-span and --min-sensitivity)");
+            continue;
+        }
         if (const std::string why = current_drive_problem(s.spec.base); !why.empty()) {
             skipped.push_back(std::string(topology_name(t)) + " (" + why + ")");
             continue;
@@ -235,14 +244,22 @@ std::string run_compare(const SizeCommand& o, Setup& s, Format format) {
         SizingSpec one = s.spec;
         one.top = 1;
         const StandardSearch found = search_standard(one, s.grid, s.model);
+        total.examined += found.examined;
+        for (const auto& [flag, n] : found.removed) {
+            auto it = std::find_if(total.removed.begin(), total.removed.end(), [&](const auto& r) { return r.first == flag; });
+            if (it == total.removed.end()) {
+                total.removed.emplace_back(flag, n);
+            } else {
+                it->second += n;
+            }
+        }
         if (found.best.empty()) {
             skipped.push_back(std::string(topology_name(t)) + " (no combination meets the constraints)");
             continue;
         }
         rows.push_back(found.best.front());
     }
-    if (rows.empty()) throw InfeasibleError("no topology has an " + std::string(series_name(s.spec.series)) +
-                                            " combination that meets the constraints");
+    if (rows.empty()) infeasible(s.spec, total, "for any topology");
     std::stable_sort(rows.begin(), rows.end(), [](const Candidate& a, const Candidate& b) {
         return a.max_nonlinearity_pct_fsd < b.max_nonlinearity_pct_fsd;
     });
@@ -310,7 +327,7 @@ void run_size(const SizeCommand& o) {
                                                               "divider-low, shunt, bridge)");
         }
         const std::vector<Candidate> front = tradeoff(s.spec, s.grid, s.model);
-        if (front.empty()) throw InfeasibleError("no " + std::string(series_name(s.spec.series)) + " value meets the constraints");
+        if (front.empty()) infeasible(s.spec, search_standard(s.spec, s.grid, s.model), "");  // for its counts
         if (format == Format::json) {
             Json doc = header_json(s, "size");
             doc["circuit"] = circuit_json(s.spec.base);
