@@ -53,6 +53,10 @@ Setup build_setup(const SizeCommand& o) {
         if (!(spec.range_lo_ohm < spec.range_hi_ohm)) {
             throw InputError("--range", o.range, "the low end must be below the high end");
         }
+        if (series_values(spec.series, spec.range_lo_ohm, spec.range_hi_ohm).empty()) {
+            throw InputError("--range", o.range,
+                             "holds no " + std::string(series_name(spec.series)) + " value; widen it");
+        }
     }
     const double top = parse_number(o.top, "--top");
     if (!(top >= 1.0 && top <= 1000.0) || top != std::floor(top)) {
@@ -172,12 +176,25 @@ Table candidate_table(const std::vector<Candidate>& cs, const std::string& unit,
     for (const auto& r : s.removed) {
         if (r.second > 0 && r.first != worst.first) others += "; " + r.first + " removed " + std::to_string(r.second);
     }
-    std::string msg = "no " + std::string(series_name(spec.series)) + " combination" + what + " meets the constraints";
+    std::string msg = "no " + std::string(series_name(spec.series)) + " combination " + (what.empty() ? "" : what + " ") +
+                      "meets the constraints";
     if (worst.second > 0) {
         msg += ": " + worst.first + " removed " + std::to_string(worst.second) + " of " + std::to_string(s.examined) +
                " combinations" + others;
     }
     throw InfeasibleError(msg);
+}
+
+// Why a current drive makes sizing a divider meaningless, or empty: the source forces its current
+// through the divider, so the output is I·rs (divider-high, shunt-divider) or I·R_T (divider-low).
+std::string current_drive_problem(const Circuit& c) {
+    if (c.excitation.drive != Drive::current) return "";
+    switch (c.topology) {
+        case Topology::divider_high:
+        case Topology::shunt_divider: return "a current drive makes its output I*rs, independent of the thermistor";
+        case Topology::divider_low: return "a current drive makes its output I*R_T, independent of rs";
+        default: return "";
+    }
 }
 
 // The warning the text output carries when the chosen design's span is small next to the excitation.
@@ -221,6 +238,7 @@ Json header_json(const Setup& s, const std::string& command) {
 std::string run_compare(const SizeCommand& o, Setup& s, Format format) {
     std::vector<Candidate> rows;
     std::vector<std::string> skipped;
+    StandardSearch total;  // what every topology's search examined and removed, for the infeasible message
     const Circuit drive = build_drive(o.circuit, "divider-low");
     for (const Topology t : all_topologies()) {
         if (t == Topology::bare) continue;
@@ -230,17 +248,36 @@ std::string run_compare(const SizeCommand& o, Setup& s, Format format) {
             skipped.push_back(std::string(topology_name(t)) + " (its output is a resistance; needs --current)");
             continue;
         }
+        const Constraints& k = s.spec.constraints;
+        if (output_unit(s.spec.base) != output_unit(drive) && (k.min_span > 0.0 || k.min_sensitivity > 0.0)) {
+            // --min-span and --min-sensitivity are in the other rows' unit (V/V); this row's is ohm.
+            skipped.push_back(std::string(topology_name(t)) + " (its output is in " + output_unit(s.spec.base) +
+                              ", not the " + output_unit(drive) + " of --min-span and --min-sensitivity)");
+            continue;
+        }
+        if (const std::string why = current_drive_problem(s.spec.base); !why.empty()) {
+            skipped.push_back(std::string(topology_name(t)) + " (" + why + ")");
+            continue;
+        }
         SizingSpec one = s.spec;
         one.top = 1;
         const StandardSearch found = search_standard(one, s.grid, s.model);
+        total.examined += found.examined;
+        for (const auto& [flag, n] : found.removed) {
+            auto it = std::find_if(total.removed.begin(), total.removed.end(), [&](const auto& r) { return r.first == flag; });
+            if (it == total.removed.end()) {
+                total.removed.emplace_back(flag, n);
+            } else {
+                it->second += n;
+            }
+        }
         if (found.best.empty()) {
             skipped.push_back(std::string(topology_name(t)) + " (no combination meets the constraints)");
             continue;
         }
         rows.push_back(found.best.front());
     }
-    if (rows.empty()) throw InfeasibleError("no topology has a " + std::string(series_name(s.spec.series)) +
-                                            " combination that meets the constraints");
+    if (rows.empty()) infeasible(s.spec, total, "for any topology");
     std::stable_sort(rows.begin(), rows.end(), [](const Candidate& a, const Candidate& b) {
         return a.max_nonlinearity_pct_fsd < b.max_nonlinearity_pct_fsd;
     });
@@ -306,6 +343,10 @@ void run_size(const SizeCommand& o) {
         return;
     }
     s.spec.base = build_drive(o.circuit, o.circuit.circuit);
+    if (const std::string why = current_drive_problem(s.spec.base); !why.empty()) {
+        throw InputError("--current", o.circuit.current,
+                         why + "; size the " + o.circuit.circuit + " with --excitation, or choose shunt or a bridge");
+    }
     validate(sized_circuit(s.spec, s.model, std::vector<double>(free_resistors(s.spec.base.topology).size(), 1e3)));
     const Topology topo = s.spec.base.topology;
     const std::vector<std::string> names = free_resistors(topo);
@@ -320,7 +361,7 @@ void run_size(const SizeCommand& o) {
                                                               "divider-low, shunt, bridge)");
         }
         const std::vector<Candidate> front = tradeoff(s.spec, s.grid, s.model);
-        if (front.empty()) throw InfeasibleError("no " + std::string(series_name(s.spec.series)) + " value meets the constraints");
+        if (front.empty()) infeasible(s.spec, search_standard(s.spec, s.grid, s.model), "");  // for its counts
         if (format == Format::json) {
             Json doc = header_json(s, "size");
             doc["circuit"] = circuit_json(s.spec.base);

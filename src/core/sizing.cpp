@@ -30,9 +30,23 @@ Circuit sized_circuit(const SizingSpec& spec, const Thermistor& model, const std
     return c;
 }
 
+namespace {
+
+// True when the output does not change over the span: a full scale of zero, or one at rounding level
+// next to the output itself (a current into a divider-high gives I·rs at every temperature, and the
+// ends then differ by ~1e-16 of it).
+bool unchanging(const std::vector<double>& y) {
+    const double fs = full_scale(y);
+    const double level = std::max(std::abs(y.front()), std::abs(y.back()));
+    return !(fs > 1e-12 * level) || !std::isfinite(fs);
+}
+
+}  // namespace
+
 double objective(const SizingSpec& spec, const Grid& grid, const Circuit& c) {
     std::vector<double> y(grid.size());
     for (std::size_t i = 0; i < grid.size(); ++i) y[i] = output(c, grid.r_ohm[i]);
+    if (unchanging(y)) return INFINITY;
     return max_nonlinearity_pct_fsd(grid.t_k, y, spec.line);
 }
 
@@ -150,6 +164,10 @@ Candidate optimize_continuous(const SizingSpec& spec, const Grid& grid, const Th
         const double v = inner(u, fv);
         best = {std::exp(u), std::exp(v)};
     }
+    if (!std::isfinite(fbest)) {
+        throw InputError("--circuit", std::string(topology_name(spec.base.topology)),
+                         "the output does not change over the span with this drive, whatever the resistor values");
+    }
     return evaluate(spec, grid, model, sized_circuit(spec, model, best));
 }
 
@@ -222,7 +240,7 @@ public:
             }
         }
         q.span = full_scale(y_);
-        if (!(q.span > 0.0) || !std::isfinite(q.span)) {
+        if (unchanging(y_)) {
             q.feasible = false;
             return q;
         }
@@ -265,8 +283,12 @@ struct Ranked {
     double span;
 };
 
+// Nonlinearities equal to 1e-9 relative are a tie (mirror-image pairs such as a shunt-divider's
+// (rp, rs) = (a, b) and (b, a) are equal in exact arithmetic but differ by rounding); the larger span wins.
 bool better(const Ranked& a, const Ranked& b) {
-    if (a.objective != b.objective) return a.objective < b.objective;
+    if (std::abs(a.objective - b.objective) > 1e-9 * std::max(a.objective, b.objective)) {
+        return a.objective < b.objective;
+    }
     return a.span > b.span;
 }
 
@@ -283,7 +305,7 @@ StandardSearch search_standard(const SizingSpec& spec, const Grid& grid, const T
         const Quick q = searcher.assess(sized_circuit(spec, model, v));
         if (!q.feasible) return;
         const Ranked r{v, q.objective, q.span};
-        if (top.size() == spec.top && !better(r, top.back())) return;
+        if (!top.empty() && top.size() >= spec.top && !better(r, top.back())) return;
         top.insert(std::upper_bound(top.begin(), top.end(), r, better), r);
         if (top.size() > spec.top) top.pop_back();
     };
@@ -313,7 +335,7 @@ std::vector<Candidate> tradeoff(const SizingSpec& spec, const Grid& grid, const 
     std::vector<Candidate> front;
     double best = INFINITY;
     for (const Ranked& r : all) {
-        if (r.objective < best) {
+        if (r.objective < best * (1.0 - 1e-9)) {  // strictly better, beyond rounding (see better())
             best = r.objective;
             front.push_back(evaluate(spec, grid, model, sized_circuit(spec, model, r.values)));
         }
