@@ -79,6 +79,8 @@ Json polynomial_json(const Polynomial& p, const CodeMap& map) {
     return {{"fit", std::string(fit_name(p.fit))},
             {"degree", p.degree},
             {"x", x_definition(p)},
+            {"code_lo", p.code_lo},
+            {"code_hi", p.code_hi},
             {"coefficients", coefficients_c(p)},
             {"max_error_c", p.max_error_k},
             {"at_code", p.at_code},
@@ -94,6 +96,8 @@ struct Result {
     FixedTable fixed;
     std::optional<Polynomial> polynomial;
     std::optional<double> max_error_k;  // the --max-error target, when given
+    bool table_searched = false;        // the entry count was chosen by --max-error
+    bool degree_searched = false;       // the degree was chosen by --max-error
 };
 
 std::string json_report(const Result& r) {
@@ -112,7 +116,13 @@ std::string json_report(const Result& r) {
     doc["unit_c"] = 1.0 / r.fixed.scale_per_c;
     doc["fixed_type"] = fixed_type(r.fixed);
     doc["interpolation"] = "linear";
-    if (r.max_error_k) doc["max_error_target_c"] = *r.max_error_k;
+    if (r.max_error_k) {
+        doc["max_error_target_c"] = *r.max_error_k;
+        Json searched = Json::array();
+        if (r.table_searched) searched.push_back("entries");
+        if (r.degree_searched) searched.push_back("degree");
+        doc["searched"] = searched;  // what --max-error chose
+    }
     doc["entries"] = r.table.codes.size();
     Json rows = Json::array();
     for (std::size_t i = 0; i < r.table.codes.size(); ++i) {
@@ -153,9 +163,9 @@ std::string text_report(const Result& r) {
          (r.table.spacing == Spacing::code ? "evenly spaced codes" : "spaced for equal error per segment") +
          ", linear interpolation; fixed point in " + unit_text(r.fixed) + " " + kDeg + " (" + fixed_type(r.fixed) +
          ")\n";
-    if (r.max_error_k) {
-        t += std::string("          the smallest table whose error is at most ") + format_number(*r.max_error_k, 4) +
-             " " + kDeg + "\n";
+    if (r.table_searched) {
+        t += "          the fewest entries whose interpolation error is at most " + format_number(*r.max_error_k, 4) +
+             " " + kDeg + " (--max-error; rounding comes on top)\n";
     }
     t += "\n" + breakpoint_table(r).text() + "\n";
     t += "largest interpolation error  " + format_fixed(r.table.max_error_k, 4) + " " + kDeg + " " +
@@ -165,6 +175,7 @@ std::string text_report(const Result& r) {
     if (r.polynomial) {
         const Polynomial& p = *r.polynomial;
         t += "\npolynomial:  " + std::string(fit_name(p.fit)) + ", degree " + std::to_string(p.degree) +
+             (r.degree_searched ? " (the lowest that meets " + format_number(*r.max_error_k, 4) + " " + kDeg + ")" : "") +
              ", T(x) = sum of c_i x^i in " + kDeg + ", " + x_definition(p) + "\n";
         const std::vector<double> c = coefficients_c(p);
         for (std::size_t i = 0; i < c.size(); ++i) t += "  c" + std::to_string(i) + " = " + format_number(c[i], 12) + "\n";
@@ -271,7 +282,9 @@ void run_table(const TableCommand& o) {
     Result r{build_model(o.model), build_span(o.span), {}, {}, {}, {}, {}, target_k};
     r.circuit = build_circuit(o.circuit, r.thermistor, r.span);
     r.map = map_codes(r.thermistor, r.circuit, r.span, bits);
-    if (target_k && !entries) {
+    r.table_searched = target_k && !entries;
+    r.degree_searched = target_k && want_poly && !degree;
+    if (r.table_searched) {
         r.table = smallest_table(r.map, *target_k, spacing);
     } else {
         r.table = make_table(r.map, entries ? static_cast<std::size_t>(*entries) : kDefaultEntries, spacing);
