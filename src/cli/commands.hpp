@@ -10,5 +10,6 @@ void setup_model(CLI::App& app);
 void setup_fit(CLI::App& app);
 void setup_check(CLI::App& app);
 void setup_size(CLI::App& app);
+void setup_table(CLI::App& app);
 
 }  // namespace rtline::cli

@@ -1,0 +1,356 @@
+#include "rtline/correction.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <string>
+
+#include "rtline/error.hpp"
+
+namespace rtline {
+
+// ------------------------------------------------------------------------------ the exact inverse
+
+void require_ratiometric(const Circuit& c) {
+    const std::string topo(topology_name(c.topology));
+    if (gives_resistance(c.topology)) {
+        throw InputError("--circuit", topo,
+                         "the output is a resistance, not a voltage an ADC reads; use divider-high, divider-low "
+                         "or shunt-divider");
+    }
+    if (is_bridge(c.topology)) {
+        throw InputError("--circuit", topo,
+                         "a bridge's differential output needs an amplifier whose gain and offset the table "
+                         "does not know; use divider-high, divider-low or shunt-divider (node A of the bridge "
+                         "alone is a divider-low with rs = r1)");
+    }
+    if (c.excitation.drive == Drive::voltage) {
+        throw InputError("--excitation", describe(c.excitation.value),
+                         "the table reads the ADC ratiometrically (its reference is the excitation), so the "
+                         "supply voltage does not matter; leave --excitation out");
+    }
+    if (c.excitation.drive == Drive::current) {
+        throw InputError("--current", describe(c.excitation.value),
+                         "a current drive is not ratiometric; the table needs a divider read against its own "
+                         "excitation");
+    }
+}
+
+namespace {
+
+// R such that a ∥ R = p (R = 1/(1/p − 1/a)); +infinity when p = a, negative when p > a.
+double unparallel(double p, double a) {
+    if (std::isinf(a)) return p;
+    return 1.0 / (1.0 / p - 1.0 / a);
+}
+
+}  // namespace
+
+double resistance_at_ratio(const Circuit& c, double v) {
+    switch (c.topology) {
+        case Topology::divider_high: {
+            // v = B/(R_T + B), B = rs ∥ load  ⇒  R_T = B(1 − v)/v.
+            const double bottom = parallel(c.rs, c.load_ohm);
+            return bottom * (1.0 - v) / v;
+        }
+        case Topology::divider_low: {
+            // v = P/(rs + P), P = R_T ∥ load  ⇒  P = rs·v/(1 − v).
+            return unparallel(c.rs * v / (1.0 - v), c.load_ohm);
+        }
+        case Topology::shunt_divider: {
+            // v = B/(Q + B), Q = R_T ∥ rp, B = rs ∥ load  ⇒  Q = B(1 − v)/v.
+            const double bottom = parallel(c.rs, c.load_ohm);
+            return unparallel(bottom * (1.0 - v) / v, c.rp);
+        }
+        default: break;
+    }
+    require_ratiometric(c);
+    return std::nan("");
+}
+
+double code_ratio(std::int64_t code, int adc_bits) { return std::ldexp(static_cast<double>(code), -adc_bits); }
+
+double CodeMap::temperature(std::int64_t code) const {
+    const std::int64_t k = std::clamp(code, code_lo, code_hi);
+    return t_k[static_cast<std::size_t>(k - code_lo)];
+}
+
+CodeMap map_codes(const Thermistor& model, const Circuit& circuit, const Span& span, int adc_bits) {
+    if (adc_bits < 1 || adc_bits > kMaxAdcBits) {
+        throw InputError("--adc-bits", std::to_string(adc_bits),
+                         "an ADC has 1 to " + std::to_string(kMaxAdcBits) + " bits");
+    }
+    require_ratiometric(circuit);
+    model.check_span(span, "--span");
+    const double v_a = output(circuit, model.resistance(span.lo_k));
+    const double v_b = output(circuit, model.resistance(span.hi_k));
+    const double full = std::ldexp(1.0, adc_bits);
+    // A code exactly at a span end (to rounding) counts as inside.
+    auto lo = static_cast<std::int64_t>(std::ceil(std::min(v_a, v_b) * full - 1e-9));
+    auto hi = static_cast<std::int64_t>(std::floor(std::max(v_a, v_b) * full + 1e-9));
+    lo = std::max<std::int64_t>(lo, 1);
+    hi = std::min<std::int64_t>(hi, static_cast<std::int64_t>(full) - 1);
+    if (hi - lo + 1 < 2) {
+        throw InputError("--adc-bits", std::to_string(adc_bits),
+                         "the span's output swing (" + format_number(std::abs(v_b - v_a) * full, 3) +
+                             " LSB) covers fewer than two codes; use more bits or a circuit with more swing");
+    }
+    CodeMap map;
+    map.adc_bits = adc_bits;
+    map.code_lo = lo;
+    map.code_hi = hi;
+    map.t_k.reserve(static_cast<std::size_t>(hi - lo + 1));
+    for (std::int64_t k = lo; k <= hi; ++k) {
+        const double t = model.temperature(resistance_at_ratio(circuit, code_ratio(k, adc_bits)));
+        map.t_k.push_back(std::clamp(t, span.lo_k, span.hi_k));
+    }
+    return map;
+}
+
+// ------------------------------------------------------------------------------------ tables
+
+std::string_view spacing_name(Spacing s) { return s == Spacing::code ? "code" : "error"; }
+
+Spacing parse_spacing(std::string_view text, std::string_view field) {
+    if (text == "code") return Spacing::code;
+    if (text == "error") return Spacing::error;
+    throw InputError(std::string(field), std::string(text),
+                     "unknown spacing; choose code (evenly spaced codes) or error (equal error per segment)");
+}
+
+double LookupTable::interpolate(std::int64_t code) const {
+    if (code <= codes.front()) return t_k.front();
+    if (code >= codes.back()) return t_k.back();
+    const auto it = std::upper_bound(codes.begin(), codes.end(), code);
+    const auto i = static_cast<std::size_t>(it - codes.begin()) - 1;
+    const double f = static_cast<double>(code - codes[i]) / static_cast<double>(codes[i + 1] - codes[i]);
+    return t_k[i] + (t_k[i + 1] - t_k[i]) * f;
+}
+
+namespace {
+
+// The breakpoints placed on a subset of the span's codes (every code up to kPlacementSamples, evenly
+// strided beyond, so a 24-bit span stays quick); the error is always measured over every code.
+constexpr std::size_t kPlacementSamples = 65537;
+
+struct Samples {
+    std::vector<std::int64_t> code;
+    std::vector<double> t_k;
+};
+
+Samples placement_samples(const CodeMap& map) {
+    Samples s;
+    const std::size_t n = map.size();
+    const std::size_t stride = n <= kPlacementSamples ? 1 : (n - 1 + kPlacementSamples - 2) / (kPlacementSamples - 1);
+    for (std::size_t i = 0; i < n; i += stride) {
+        s.code.push_back(map.code_lo + static_cast<std::int64_t>(i));
+        s.t_k.push_back(map.t_k[i]);
+    }
+    if (s.code.back() != map.code_hi) {
+        s.code.push_back(map.code_hi);
+        s.t_k.push_back(map.t_k.back());
+    }
+    return s;
+}
+
+// The largest |chord − T| over the samples strictly between a and b, and where.
+struct SegmentError {
+    double error;
+    std::size_t at;
+};
+
+SegmentError segment_error(const Samples& s, std::size_t a, std::size_t b) {
+    SegmentError worst{0.0, a};
+    const double slope = (s.t_k[b] - s.t_k[a]) / static_cast<double>(s.code[b] - s.code[a]);
+    for (std::size_t j = a + 1; j < b; ++j) {
+        const double e = std::abs(s.t_k[a] + slope * static_cast<double>(s.code[j] - s.code[a]) - s.t_k[j]);
+        if (e > worst.error) worst = {e, j};
+    }
+    return worst;
+}
+
+// Breakpoints (sample indices) placed greedily: each segment runs as far as the target error allows,
+// found by doubling then bisecting its length.
+std::vector<std::size_t> greedy_breakpoints(const Samples& s, double target) {
+    const std::size_t last = s.code.size() - 1;
+    std::vector<std::size_t> points{0};
+    std::size_t a = 0;
+    while (a < last) {
+        std::size_t good = a + 1;
+        std::size_t bad = last + 1;
+        for (std::size_t len = 2;; len *= 2) {
+            const std::size_t b = std::min(a + len, last);
+            if (segment_error(s, a, b).error <= target) {
+                good = b;
+                if (b == last) break;
+            } else {
+                bad = b;
+                break;
+            }
+        }
+        while (bad <= last && bad - good > 1) {
+            const std::size_t mid = good + (bad - good) / 2;
+            (segment_error(s, a, mid).error <= target ? good : bad) = mid;
+        }
+        points.push_back(good);
+        a = good;
+    }
+    return points;
+}
+
+// Equal-error breakpoints: the smallest target error whose greedy placement needs at most
+// entries − 1 segments (bisection), then the worst segments split at their largest error until the
+// table has exactly `entries` breakpoints.
+std::vector<std::int64_t> equal_error_codes(const CodeMap& map, std::size_t entries) {
+    const Samples s = placement_samples(map);
+    const std::size_t segments = entries - 1;
+    double lo = 0.0;
+    double hi = segment_error(s, 0, s.code.size() - 1).error;
+    std::vector<std::size_t> best = greedy_breakpoints(s, hi);
+    for (int iter = 0; iter < 100 && hi - lo > 1e-12 * std::max(hi, 1e-300); ++iter) {
+        const double mid = 0.5 * (lo + hi);
+        std::vector<std::size_t> p = greedy_breakpoints(s, mid);
+        if (p.size() - 1 <= segments) {
+            hi = mid;
+            best = std::move(p);
+        } else {
+            lo = mid;
+        }
+    }
+    while (best.size() - 1 < segments) {
+        std::size_t worst_seg = 0;
+        SegmentError worst{-1.0, 0};
+        for (std::size_t i = 0; i + 1 < best.size(); ++i) {
+            if (best[i + 1] - best[i] < 2) continue;
+            const SegmentError e = segment_error(s, best[i], best[i + 1]);
+            if (e.error > worst.error) {
+                worst = e;
+                worst_seg = i;
+            }
+        }
+        // A segment without error (a straight run) splits in the middle.
+        const std::size_t at = worst.at > best[worst_seg] ? worst.at : best[worst_seg] + (best[worst_seg + 1] - best[worst_seg]) / 2;
+        best.insert(best.begin() + static_cast<std::ptrdiff_t>(worst_seg) + 1, at);
+    }
+    std::vector<std::int64_t> codes;
+    codes.reserve(best.size());
+    for (const std::size_t i : best) codes.push_back(s.code[i]);
+    return codes;
+}
+
+std::vector<std::int64_t> even_codes(const CodeMap& map, std::size_t entries) {
+    std::vector<std::int64_t> codes;
+    const double last = static_cast<double>(map.size() - 1);
+    for (std::size_t i = 0; i < entries; ++i) {
+        const double f = static_cast<double>(i) / static_cast<double>(entries - 1);
+        codes.push_back(map.code_lo + std::llround(f * last));
+    }
+    return codes;
+}
+
+// The error approx − exact at every code of the span (kept in `error_k` unless it is null), its
+// largest magnitude and the first code where that occurs.
+template <typename F>
+void measure(const CodeMap& map, F approx, std::vector<double>* error_k, double& max_error_k, std::int64_t& at_code) {
+    if (error_k != nullptr) error_k->resize(map.size());
+    max_error_k = 0.0;
+    at_code = map.code_lo;
+    for (std::size_t i = 0; i < map.size(); ++i) {
+        const std::int64_t code = map.code_lo + static_cast<std::int64_t>(i);
+        const double e = approx(code) - map.t_k[i];
+        if (error_k != nullptr) (*error_k)[i] = e;
+        if (std::abs(e) > max_error_k) {
+            max_error_k = std::abs(e);
+            at_code = code;
+        }
+    }
+}
+
+}  // namespace
+
+LookupTable make_table(const CodeMap& map, std::size_t entries, Spacing spacing) {
+    const std::size_t limit = std::min(map.size(), kMaxTableEntries);
+    if (entries < 2 || entries > limit) {
+        throw InputError("--entries", std::to_string(entries),
+                         "a table needs 2 to " + std::to_string(limit) + " entries (" +
+                             (limit == map.size() ? "the span covers " + std::to_string(map.size()) + " codes"
+                                                  : std::string("a sane limit")) +
+                             ")");
+    }
+    LookupTable t;
+    t.spacing = spacing;
+    t.codes = spacing == Spacing::code ? even_codes(map, entries) : equal_error_codes(map, entries);
+    for (const std::int64_t c : t.codes) t.t_k.push_back(map.temperature(c));
+    measure(map, [&t](std::int64_t c) { return t.interpolate(c); }, &t.error_k, t.max_error_k, t.at_code);
+    return t;
+}
+
+LookupTable smallest_table(const CodeMap& map, double max_error_k, Spacing spacing) {
+    const std::size_t limit = std::min(map.size(), kMaxSearchEntries);
+    LookupTable best = make_table(map, limit, spacing);
+    if (best.max_error_k > max_error_k) {
+        throw InfeasibleError("no table of up to " + std::to_string(limit) + " entries meets " +
+                              format_number(max_error_k, 4) + " \xC2\xB0" "C (" + std::to_string(limit) +
+                              " entries give " + format_number(best.max_error_k, 4) +
+                              " \xC2\xB0" "C); give --entries to build a larger table");
+    }
+    std::size_t fails = 1;  // a one-entry table never meets it
+    std::size_t meets = limit;
+    // Doubling from 2 finds a bracket quickly; small answers are the common case.
+    for (std::size_t m = 2; m < limit; m *= 2) {
+        LookupTable t = make_table(map, m, spacing);
+        if (t.max_error_k <= max_error_k) {
+            meets = m;
+            best = std::move(t);
+            break;
+        }
+        fails = m;
+    }
+    while (meets - fails > 1) {
+        const std::size_t mid = fails + (meets - fails) / 2;
+        LookupTable t = make_table(map, mid, spacing);
+        if (t.max_error_k <= max_error_k) {
+            meets = mid;
+            best = std::move(t);
+        } else {
+            fails = mid;
+        }
+    }
+    return best;
+}
+
+// ------------------------------------------------------------------------------- fixed point
+
+std::int32_t FixedTable::interpolate(std::int64_t code) const {
+    if (code <= codes.front()) return t.front();
+    if (code >= codes.back()) return t.back();
+    const auto it = std::upper_bound(codes.begin(), codes.end(), code);
+    const auto i = static_cast<std::size_t>(it - codes.begin()) - 1;
+    const std::int64_t num = static_cast<std::int64_t>(t[i + 1] - t[i]) * (code - codes[i]);
+    const std::int64_t den = codes[i + 1] - codes[i];
+    // Integer division truncates toward zero (C99 and C++11 alike); adding half the divisor with the
+    // numerator's sign first rounds halves away from zero.
+    const std::int64_t q = (num >= 0 ? num + den / 2 : num - den / 2) / den;
+    return t[i] + static_cast<std::int32_t>(q);
+}
+
+FixedTable to_fixed(const LookupTable& table, const CodeMap& map, int scale_per_c) {
+    if (scale_per_c != 10 && scale_per_c != 100) {
+        throw InputError("--unit", format_number(1.0 / scale_per_c), "choose 0.1 or 0.01 (\xC2\xB0" "C)");
+    }
+    FixedTable f;
+    f.scale_per_c = scale_per_c;
+    f.codes = table.codes;
+    f.bits = 16;
+    for (const double t_k : table.t_k) {
+        const long long counts = std::llround(kelvin_to_celsius(t_k) * scale_per_c);
+        if (counts < -32768 || counts > 32767) f.bits = 32;
+        f.t.push_back(static_cast<std::int32_t>(counts));
+    }
+    const double per_count = 1.0 / scale_per_c;
+    measure(
+        map, [&f, per_count](std::int64_t c) { return celsius_to_kelvin(f.interpolate(c) * per_count); }, nullptr,
+        f.max_error_k, f.at_code);
+    return f;
+}
+
+}  // namespace rtline

@@ -1,0 +1,80 @@
+"""Exact temperature at every code of a ratiometric ADC reading a thermistor divider.
+
+Written from the published equations, independently of rtline's C++:
+  - beta model (REFERENCES.md): R(T) = R0 * exp(B * (1/T - 1/T0)), T in kelvin, so
+    T(R) = 1 / (1/T0 + ln(R/R0) / B);
+  - the divider's output ratio by Ohm's law (loads in parallel with the lower leg):
+      divider-high:  v = B / (R_T + B),  B = rs || load
+      divider-low:   v = P / (rs + P),   P = R_T || load
+      shunt-divider: v = B / (Q + B),    Q = R_T || rp;
+  - a ratiometric N-bit ADC: code k stands for the ratio k / 2^N.
+The ratio is inverted numerically (scipy.optimize.brentq on ln R_T), not by rtline's closed form.
+
+stdin:  {"r25_ohm", "b_k", "t0_c", "topology", "rs_ohm", "rp_ohm"?, "load_ohm"?, "adc_bits", "lo_c",
+         "hi_c", "table"?: [{"code", "t_c"}]}
+stdout: {"code_lo", "code_hi", "t_c": [T at code_lo .. code_hi, degC],
+         "table_max_error_c"?, "table_at_code"?}  (table error: numpy.interp between the breakpoints)
+"""
+import json
+import math
+import sys
+
+import numpy as np
+from scipy.optimize import brentq
+
+
+def par(a, b):
+    if b is None or math.isinf(b):
+        return a
+    return a * b / (a + b)
+
+
+def main():
+    d = json.load(sys.stdin)
+    r0, b, t0 = d["r25_ohm"], d["b_k"], d["t0_c"] + 273.15
+    topo, rs = d["topology"], d["rs_ohm"]
+    rp, load = d.get("rp_ohm"), d.get("load_ohm")
+
+    def ratio(r_t):
+        if topo == "divider-high":
+            bottom = par(rs, load)
+            return bottom / (r_t + bottom)
+        if topo == "divider-low":
+            p = par(r_t, load)
+            return p / (rs + p)
+        if topo == "shunt-divider":
+            bottom = par(rs, load)
+            q = par(r_t, rp)
+            return bottom / (q + bottom)
+        raise SystemExit("unknown topology " + topo)
+
+    def resistance(t_k):
+        return r0 * math.exp(b * (1.0 / t_k - 1.0 / t0))
+
+    def temperature(r):
+        return 1.0 / (1.0 / t0 + math.log(r / r0) / b)
+
+    lo_k, hi_k = d["lo_c"] + 273.15, d["hi_c"] + 273.15
+    full = 2 ** d["adc_bits"]
+    v_lo, v_hi = ratio(resistance(lo_k)), ratio(resistance(hi_k))
+    code_lo = math.ceil(min(v_lo, v_hi) * full - 1e-9)
+    code_hi = math.floor(max(v_lo, v_hi) * full + 1e-9)
+    ln_a, ln_b = math.log(resistance(hi_k)) - 1.0, math.log(resistance(lo_k)) + 1.0
+    temps = []
+    for k in range(code_lo, code_hi + 1):
+        v = k / full
+        ln_r = brentq(lambda x: ratio(math.exp(x)) - v, ln_a, ln_b, xtol=1e-15, rtol=1e-15, maxiter=500)
+        t = min(max(temperature(math.exp(ln_r)), lo_k), hi_k)
+        temps.append(t - 273.15)
+    out = {"code_lo": code_lo, "code_hi": code_hi, "t_c": temps}
+    if "table" in d:
+        codes = np.array([e["code"] for e in d["table"]], dtype=float)
+        t_tab = np.array([e["t_c"] for e in d["table"]])
+        ks = np.arange(code_lo, code_hi + 1, dtype=float)
+        err = np.abs(np.interp(ks, codes, t_tab) - np.array(temps))
+        out["table_max_error_c"] = float(err.max())
+        out["table_at_code"] = int(ks[int(err.argmax())])
+    print(json.dumps(out))
+
+
+main()
