@@ -83,7 +83,9 @@ Thermistor build_model(const ModelOptions& o) {
         throw InputError("--r25", "", "no thermistor given; use --r25 and --beta, --sh A,B,C, or --points FILE");
     }
     if (sources > 1) {
-        throw InputError("--points", o.points,
+        // Name a flag the user did give: --sh or --points is always one of two or more sources.
+        const bool sh = !o.sh.empty();
+        throw InputError(sh ? "--sh" : "--points", sh ? o.sh : o.points,
                          "give one thermistor: --r25 with --beta, or --sh, or --points, not several");
     }
     if (!o.model.empty() && o.points.empty()) {

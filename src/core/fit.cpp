@@ -9,6 +9,9 @@ namespace rtline {
 
 namespace {
 
+// "1 point", "3 points": the count of points for an error message.
+std::string count_points(std::size_t n) { return std::to_string(n) + (n == 1 ? " point" : " points"); }
+
 double max_abs(const std::vector<Residual>& rs) {
     double m = 0.0;
     for (const Residual& r : rs) m = std::max(m, std::abs(r.residual_k));
@@ -27,7 +30,7 @@ Eigen::VectorXd solve_scaled(Eigen::MatrixXd a, const Eigen::VectorXd& y, const 
     Eigen::ColPivHouseholderQR<Eigen::MatrixXd> qr(a);
     qr.setThreshold(1e-12);
     if (qr.rank() < a.cols()) {
-        throw InputError("--points", std::to_string(a.rows()) + " points",
+        throw InputError("--points", count_points(static_cast<std::size_t>(a.rows())),
                          std::string("the points do not determine a ") + what +
                              " fit (too few distinct resistances, or collinear in ln R)");
     }
@@ -64,7 +67,7 @@ SteinhartHart steinhart_hart_three_point(const RtPoint& p1, const RtPoint& p2, c
 
 ShFit fit_steinhart_hart(const std::vector<RtPoint>& points) {
     if (points.size() < 3) {
-        throw InputError("--points", std::to_string(points.size()) + " points",
+        throw InputError("--points", count_points(points.size()),
                          "a Steinhart-Hart fit needs at least 3 R-T points");
     }
     SteinhartHart m;
@@ -99,7 +102,7 @@ ShFit fit_steinhart_hart(const std::vector<RtPoint>& points) {
 
 BetaFit fit_beta(const std::vector<RtPoint>& points, double t0_k) {
     if (points.size() < 2) {
-        throw InputError("--points", std::to_string(points.size()) + " points",
+        throw InputError("--points", count_points(points.size()),
                          "a beta fit needs at least 2 R-T points");
     }
     const auto n = static_cast<Eigen::Index>(points.size());
@@ -121,7 +124,7 @@ BetaFit fit_beta(const std::vector<RtPoint>& points, double t0_k) {
     // 1/t0 = x0 + (ln R0 − l_ref)/B  ⇒  ln R0 = l_ref + B·(1/t0 − x0).
     const double r0 = std::exp(l_ref + b_k * (1.0 / t0_k - x(0)));
     if (!(b_k > 0.0) || !std::isfinite(r0)) {
-        throw InputError("--points", std::to_string(n) + " points", "the beta fit gives no positive B-value");
+        throw InputError("--points", count_points(static_cast<std::size_t>(n)), "the beta fit gives no positive B-value");
     }
     BetaModel m{r0, t0_k, b_k};
     BetaFit fit{m, residuals_of(Thermistor(m), points), 0.0};

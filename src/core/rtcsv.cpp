@@ -41,8 +41,13 @@ struct Located {
 }  // namespace
 
 std::vector<RtPoint> read_rt_points(std::string_view text, const std::string& source) {
-    if (text.find('\0') != std::string_view::npos) {
-        throw InputError(source, "", "is not a text file (it contains NUL bytes)");
+    if (const std::size_t nul = text.find('\0'); nul != std::string_view::npos) {
+        const std::size_t previous_nl = text.rfind('\n', nul);
+        const std::size_t line_start = previous_nl == std::string_view::npos ? 0 : previous_nl + 1;
+        const auto line = 1 + std::count(text.begin(), text.begin() + static_cast<std::ptrdiff_t>(nul), '\n');
+        throw InputError(source + ":" + std::to_string(line), "",
+                         "is not a text file (a NUL byte at byte " + std::to_string(nul - line_start + 1) +
+                             " of the line)");
     }
     if (text.substr(0, 3) == "\xEF\xBB\xBF") text.remove_prefix(3);  // UTF-8 byte-order mark
 
@@ -109,7 +114,9 @@ std::vector<RtPoint> read_rt_points(std::string_view text, const std::string& so
         }
         const std::size_t want = have_header ? std::max(t_col, r_col) + 1 : 2;
         if (fields.size() != want) {
-            throw InputError(where, std::string(line),
+            // The column is the first extra field, or the first missing one.
+            const std::size_t col = fields.size() > want ? want + 1 : fields.size() + 1;
+            throw InputError(where + ":" + std::to_string(col), std::string(line),
                              "expected " + std::to_string(want) + " fields, found " +
                                  std::to_string(fields.size()));
         }
@@ -131,6 +138,7 @@ std::vector<RtPoint> read_rt_points(std::string_view text, const std::string& so
         } else {
             r = parse_number(fields[r_col], r_at) * 1e3;
             if (!(r > 0.0)) throw InputError(r_at, std::string(fields[r_col]), "a resistance must be positive");
+            if (!std::isfinite(r)) throw InputError(r_at, std::string(fields[r_col]), "too large for a resistance");
         }
         rows.push_back({{t_k, r}, line_no});
         if (nl >= text.size()) break;
@@ -139,15 +147,15 @@ std::vector<RtPoint> read_rt_points(std::string_view text, const std::string& so
 
     std::stable_sort(rows.begin(), rows.end(), [](const Located& a, const Located& b) { return a.point.t_k < b.point.t_k; });
     for (std::size_t i = 1; i < rows.size(); ++i) {
-        const std::string at = source + ":" + std::to_string(rows[i].line);
+        const std::string at = source + ":" + std::to_string(rows[i].line) + ":";
         const std::string t_text = format_number(kelvin_to_celsius(rows[i].point.t_k)) + " C";
         if (rows[i].point.t_k == rows[i - 1].point.t_k) {
-            throw InputError(at, t_text,
+            throw InputError(at + std::to_string(t_col + 1), t_text,
                              "duplicate temperature (also on line " + std::to_string(rows[i - 1].line) + ")");
         }
         if (!(rows[i].point.r_ohm < rows[i - 1].point.r_ohm)) {
-            throw InputError(at, t_text,
-                             "the resistance does not fall below that at " +
+            throw InputError(at + std::to_string(r_col + 1), format_number(rows[i].point.r_ohm) + " ohm",
+                             "the resistance at " + t_text + " does not fall below that at " +
                                  format_number(kelvin_to_celsius(rows[i - 1].point.t_k)) + " C (line " +
                                  std::to_string(rows[i - 1].line) + "); an NTC's must fall strictly");
         }

@@ -10,6 +10,9 @@ namespace rtline {
 
 namespace {
 
+// "1 point", "3 points": the count of points for an error message.
+std::string count_points(std::size_t n) { return std::to_string(n) + (n == 1 ? " point" : " points"); }
+
 template <class... Ts>
 struct Overloaded : Ts... {
     using Ts::operator()...;
@@ -175,7 +178,8 @@ double sh_resistance(const SteinhartHart& m, double t_k) {
         const double den = u * u + u * v + v * v;
         const double l = den == 0.0 ? 0.0 : -q / den;
         // With c < 0 the single real root lies outside the monotone branch |L| < sqrt(−p/3).
-        if (p < 0.0 && l * l >= -p3) return std::nan("");
+        // (With c > 0 and b < 0 the single root is beyond the turning points, where it is monotone.)
+        if (m.c < 0.0 && l * l >= -p3) return std::nan("");
         return std::exp(l);
     }
     // Three real roots (only with c < 0): the trigonometric form; keep the one on the monotone branch.
@@ -220,7 +224,7 @@ void validate(const SteinhartHart& m) {
 std::vector<RtPoint> validate_points(std::vector<RtPoint> points, std::size_t min_count,
                                      const std::string& source) {
     if (points.size() < min_count) {
-        throw InputError(source, std::to_string(points.size()) + " points",
+        throw InputError(source, count_points(points.size()),
                          "this model needs at least " + std::to_string(min_count) + " R-T points");
     }
     for (const RtPoint& p : points) {

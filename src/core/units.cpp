@@ -97,8 +97,8 @@ double parse_resistance(std::string_view text, std::string_view field) {
         const std::string_view head = s.substr(0, letter_pos);
         const std::string_view tail = s.substr(letter_pos + 1);
         if (tail.empty()) {
-            // suffix form: 10k, 1.5M, 2R
-            if (!read_number(head, value)) {
+            // suffix form: 10k, 1.5M, 2R; a space before the prefix as SI writes it ("10 kΩ")
+            if (!read_number(trim(head), value)) {
                 throw InputError(f, t, "expected a resistance such as 470, 4k7, 10k or 1M5");
             }
             value *= mult;
@@ -182,7 +182,13 @@ Span parse_span(std::string_view text, std::string_view field) {
                          "expected LO:HI in \xC2\xB0"
                          "C, e.g. -30:5 or 0:100");
     }
-    Span span{parse_temperature(s.substr(0, colon), field), parse_temperature(s.substr(colon + 1), field)};
+    // An end that is not a temperature is reported with the whole span as typed.
+    Span span;
+    try {
+        span = {parse_temperature(s.substr(0, colon), field), parse_temperature(s.substr(colon + 1), field)};
+    } catch (const InputError& e) {
+        throw InputError(std::string(field), std::string(text), e.why());
+    }
     if (!(span.lo_k < span.hi_k)) {
         throw InputError(std::string(field), std::string(text), "the low end must be below the high end");
     }
