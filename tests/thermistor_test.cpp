@@ -174,7 +174,7 @@ TEST_CASE("check_span rejects a span outside the table's points and accepts one 
     try {
         th.check_span(Span{263.15, 293.15}, "--span");
     } catch (const InputError& e) {
-        CHECK(std::string(e.what()) == "--span '-10:20': outside the R-T table, which covers 0 to 50 C");
+        CHECK(std::string(e.what()) == "--span '-10:20': outside the R-T table, which covers 0 to 50 \xC2\xB0" "C");
     }
 }
 
