@@ -47,6 +47,7 @@ struct Candidate {
     double sensitivity_max_per_k = 0.0;
     double max_power_w = 0.0;  // NaN when the circuit has no drive
     double max_self_heating_k = 0.0;  // NaN when unknown
+    bool ridge = false;  // continuous optimum of two resistors: other pairs give the same objective
 };
 
 // The circuit with the free resistors set to `values` (in free_resistors order), bridges completed.
@@ -73,8 +74,14 @@ struct ClosedForms {
     double centre_k = 0.0;
     double local_b_k = 0.0;  // the B used for the inflection value
     bool local_b = false;    // true when the model is not a beta model, so B is the local B at Tc
+    bool load_included = false;  // the values account for base.load_ohm (dividers and the shunt)
+    bool load_ignored = false;   // a loaded bridge: the values are for the unloaded bridge
 };
 [[nodiscard]] ClosedForms closed_forms(const Thermistor& model, const Span& span);
+// The same for the circuit `base` (topology and load): with a load across a divider's output or the
+// shunt, the value R*·L/(L − R*) that gives the unloaded optimum R*; a loaded bridge keeps the unloaded
+// values and says so.
+[[nodiscard]] ClosedForms closed_forms(const Thermistor& model, const Span& span, const Circuit& base);
 
 // Which constraint a candidate fails first, or empty when it meets them all.
 [[nodiscard]] std::string failed_constraint(const SizingSpec& spec, const Candidate& c);

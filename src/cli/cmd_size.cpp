@@ -383,7 +383,7 @@ void run_size(const SizeCommand& o) {
 
     const Candidate continuous = optimize_continuous(s.spec, s.grid, s.model);
     const bool one = names.size() == 1;
-    const ClosedForms cf = closed_forms(s.model, s.span);
+    const ClosedForms cf = closed_forms(s.model, s.span, s.spec.base);
     const StandardSearch found = search_standard(s.spec, s.grid, s.model);
     if (found.best.empty()) infeasible(s.spec, found, "");
     const std::string cont_fails = failed_constraint(s.spec, continuous);
@@ -396,13 +396,16 @@ void run_size(const SizeCommand& o) {
         doc["continuous"] = {{"resistors_ohm", resistors_json(continuous.circuit)},
                              {"max_nonlinearity_pct_fsd", continuous.max_nonlinearity_pct_fsd},
                              {"output_span", continuous.output_span},
-                             {"meets_constraints", cont_fails.empty()}};
+                             {"meets_constraints", cont_fails.empty()},
+                             {"ridge", continuous.ridge}};
         if (one) {
             doc["closed_form"] = {{"inflection_ohm", cf.inflection_ohm ? Json(*cf.inflection_ohm) : Json(nullptr)},
                                   {"three_point_ohm", cf.three_point_ohm ? Json(*cf.three_point_ohm) : Json(nullptr)},
                                   {"centre_c", kelvin_to_celsius(cf.centre_k)},
                                   {"b_k", cf.local_b_k},
-                                  {"b_is_local", cf.local_b}};
+                                  {"b_is_local", cf.local_b},
+                                  {"load_included", cf.load_included},
+                                  {"load_ignored", cf.load_ignored}};
         }
         Json arr = Json::array();
         for (const Candidate& c : found.best) arr.push_back(candidate_json(c));
@@ -420,13 +423,21 @@ void run_size(const SizeCommand& o) {
              format_fixed(continuous.max_nonlinearity_pct_fsd, 4) + " %FSD, span " +
              format_number(continuous.output_span, 4) + " " + unit +
              (cont_fails.empty() ? "" : "  (fails " + cont_fails + ")") + "\n";
+        if (continuous.ridge) {
+            t += "  (a ridge: every pair with the same equivalent resistance gives this nonlinearity; shown is the\n"
+                 "   pair with the largest output span, so the second resistor buys span, not linearity)\n";
+        }
         if (one) {
             const std::string& r = names.front();
             const std::string b_note = cf.local_b ? " with the model's local B there (" + format_number(cf.local_b_k, 5) + " K)" : "";
-            t += "closed forms (Pallas-Areny & Webster, ch. 2):\n";
+            t += std::string("closed forms (Pallas-Areny & Webster, ch. 2)") +
+                 (cf.load_included ? ", converted for the load:\n"
+                                   : cf.load_ignored ? ", for the unloaded bridge:\n" : ":\n");
+            const bool b_ok = cf.local_b_k > 2.0 * cf.centre_k;
             t += "  inflection at " + format_number(kelvin_to_celsius(cf.centre_k)) + " \xC2\xB0" "C" + b_note + "   " +
                  (cf.inflection_ohm ? r + " = " + format_resistance(*cf.inflection_ohm, 5)
-                                    : std::string("none: B <= 2*Tc there")) + "\n";
+                                    : std::string(b_ok ? "none: the load is not above the unloaded value"
+                                                       : "none: B <= 2*Tc there")) + "\n";
             t += "  three-point (ends and centre)   " +
                  (cf.three_point_ohm ? r + " = " + format_resistance(*cf.three_point_ohm, 5) : std::string("none")) + "\n";
         }

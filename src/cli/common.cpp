@@ -258,7 +258,11 @@ Json circuit_json(const Circuit& c) {
     j["resistors_ohm"] = r;
     if (std::isfinite(c.load_ohm)) j["load_ohm"] = c.load_ohm;
     switch (c.excitation.drive) {
-        case Drive::ratiometric: j["drive"] = {{"kind", "ratiometric"}}; break;
+        case Drive::ratiometric:
+            // Power and self-heating figures of a ratiometric design are those at 1 V of excitation
+            // (they scale with its square); say so next to them.
+            j["drive"] = {{"kind", "ratiometric"}, {"power_figures_at_v", 1}};
+            break;
         case Drive::voltage: j["drive"] = {{"kind", "voltage"}, {"excitation_v", c.excitation.value}}; break;
         case Drive::current: j["drive"] = {{"kind", "current"}, {"current_a", c.excitation.value}}; break;
     }

@@ -146,6 +146,7 @@ Candidate optimize_continuous(const SizingSpec& spec, const Grid& grid, const Th
     auto f = [&](const std::vector<double>& v) { return objective(spec, grid, sized_circuit(spec, model, v)); };
     std::vector<double> best;
     double fbest = INFINITY;
+    int ridge_points = 0;
     if (names.size() == 1) {
         const double u = minimize_1d([&](double x) { return f({std::exp(x)}); }, lo, hi, 141, tol, fbest);
         best = {std::exp(u)};
@@ -163,12 +164,35 @@ Candidate optimize_continuous(const SizingSpec& spec, const Grid& grid, const Th
         double fv = INFINITY;
         const double v = inner(u, fv);
         best = {std::exp(u), std::exp(v)};
+        // A single thermistor in any of these networks gives an output (a + b·R_T)/(c + d·R_T), whose
+        // linearity depends on one equivalent resistance (rp∥rs for the shunt-divider): the optimum is a
+        // ridge of pairs, not a point. Of the ridge, report the pair with the largest output span.
+        auto span_of = [&](const std::vector<double>& vals) {
+            const Circuit c = sized_circuit(spec, model, vals);
+            return std::abs(output(c, grid.r_ohm.back()) - output(c, grid.r_ohm.front()));
+        };
+        double best_span = span_of(best);
+        constexpr int kRidgeScan = 29;
+        for (int i = 0; i < kRidgeScan; ++i) {
+            const double ui = lo + (hi - lo) * i / (kRidgeScan - 1);
+            double fi = INFINITY;
+            const double vi = inner(ui, fi);
+            if (!(fi <= fbest * (1.0 + 1e-6))) continue;
+            ridge_points += 1;
+            const std::vector<double> cand = {std::exp(ui), std::exp(vi)};
+            if (const double si = span_of(cand); si > best_span) {
+                best_span = si;
+                best = cand;
+            }
+        }
     }
     if (!std::isfinite(fbest)) {
         throw InputError("--circuit", std::string(topology_name(spec.base.topology)),
                          "the output does not change over the span with this drive, whatever the resistor values");
     }
-    return evaluate(spec, grid, model, sized_circuit(spec, model, best));
+    Candidate c = evaluate(spec, grid, model, sized_circuit(spec, model, best));
+    c.ridge = ridge_points > 1;
+    return c;
 }
 
 // ------------------------------------------------------------------------------------ closed forms
@@ -190,6 +214,27 @@ ClosedForms closed_forms(const Thermistor& model, const Span& span) {
         const double r = (r2 * (r1 + r3) - 2.0 * r1 * r3) / den;
         if (r > 0.0 && std::isfinite(r)) cf.three_point_ohm = r;
     }
+    return cf;
+}
+
+ClosedForms closed_forms(const Thermistor& model, const Span& span, const Circuit& base) {
+    ClosedForms cf = closed_forms(model, span);
+    if (!std::isfinite(base.load_ohm)) return cf;
+    if (is_bridge(base.topology)) {
+        cf.load_ignored = true;
+        return cf;
+    }
+    // Dividers and the shunt: the load makes the network act as the unloaded one with R∥load in the
+    // sized resistor's place (divider-low: v = [L/(rs+L)]·R_T/(R_T + rs∥L)), so the value to fit is
+    // R = R*·L/(L − R*), and there is none when the load is not above R*.
+    const double l = base.load_ohm;
+    auto loaded = [l](std::optional<double> r) -> std::optional<double> {
+        if (!r || !(l > *r)) return std::nullopt;
+        return *r * l / (l - *r);
+    };
+    cf.inflection_ohm = loaded(cf.inflection_ohm);
+    cf.three_point_ohm = loaded(cf.three_point_ohm);
+    cf.load_included = true;
     return cf;
 }
 
