@@ -2,6 +2,7 @@
 // command, maps the outcome to an exit code.
 // 0 success, 1 no design meets the constraints, 2 bad input or usage, 3 internal error.
 #include <CLI/CLI.hpp>
+#include <filesystem>
 #include <iostream>
 
 #include "commands.hpp"
@@ -20,6 +21,7 @@ void build_program(CLI::App& app) {
     app.require_subcommand(1);
     // A flag given twice keeps its last value: the command line overrides a spec file.
     app.option_defaults()->multi_option_policy(CLI::MultiOptionPolicy::TakeLast);
+    app.get_formatter()->label("TEXT", "VALUE");
     app.footer(std::string("Every command also takes --spec FILE (a JSON object of flag values, '-' for stdin) and\n"
                            "--jsonl (one spec per stdin line, one JSON result per stdout line).\n"
                            "Exit codes: 0 success, 1 no design meets the constraints, 2 bad input or usage, "
@@ -33,6 +35,7 @@ void build_program(CLI::App& app) {
     for (CLI::App* sub : app.get_subcommands({})) {
         // Declared for --help; read_invocation() takes both out of the arguments before parsing.
         sub->add_option("--spec", "JSON spec: keys are the long flag names with _ for - ('-' reads stdin)")
+            ->type_name("FILE")
             ->group("Input");
         sub->add_option("--jsonl", "Batch: one JSON spec per stdin line, one JSON result per stdout line")
             ->expected(0)
@@ -91,7 +94,9 @@ int run(int argc, char** argv) {
     if (!inv.spec_path.empty()) {
         const std::string source = inv.spec_path == "-" ? std::string("stdin") : inv.spec_path;
         const auto spec = rtline::cli::parse_spec(rtline::cli::read_text(inv.spec_path, "--spec"), "--spec", source);
-        std::vector<std::string> from_spec = rtline::cli::spec_arguments(spec, *app.get_subcommand(inv.command));
+        const std::string base_dir =
+            inv.spec_path == "-" ? std::string() : std::filesystem::path(inv.spec_path).parent_path().string();
+        std::vector<std::string> from_spec = rtline::cli::spec_arguments(spec, *app.get_subcommand(inv.command), base_dir);
         inv.args.insert(inv.args.begin() + 1, from_spec.begin(), from_spec.end());
     }
     std::vector<std::string> reversed(inv.args.rbegin(), inv.args.rend());

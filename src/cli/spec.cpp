@@ -1,5 +1,6 @@
 #include "spec.hpp"
 
+#include <filesystem>
 #include <sstream>
 
 #include "rtline/error.hpp"
@@ -65,7 +66,7 @@ Json parse_spec(const std::string& text, const std::string& field, const std::st
     }
 }
 
-std::vector<std::string> spec_arguments(const Json& spec_in, const CLI::App& sub) {
+std::vector<std::string> spec_arguments(const Json& spec_in, const CLI::App& sub, const std::string& base_dir) {
     if (!spec_in.is_object()) throw InputError("--spec", spec_in.type_name(), "a spec must be a JSON object");
     const bool document = spec_in.contains("tool") && spec_in["tool"] == "rtline";
     const Json spec = document ? design_of(spec_in) : spec_in;
@@ -94,6 +95,9 @@ std::vector<std::string> spec_arguments(const Json& spec_in, const CLI::App& sub
         } else {
             throw InputError(key_field(key), value.dump(), "expected a number or a string");
         }
+        if (key == "points" && !base_dir.empty() && text != "-" && !text.empty() && text.front() != '/') {
+            text = (std::filesystem::path(base_dir) / text).string();
+        }
         args.push_back(flag);
         args.push_back(text);
     }
@@ -118,9 +122,11 @@ int run_batch(const std::string& command, const std::vector<std::string>& extra,
             std::vector<std::string> args = {command};
             for (std::string& a : spec_arguments(spec, *sub)) args.push_back(std::move(a));
             for (const std::string& a : extra) args.push_back(a);
-            for (const std::string& a : args) {
+            for (std::size_t i = 0; i < args.size(); ++i) {
+                const std::string& a = args[i];
                 if (a == "-o" || a == "--output" || a.rfind("--output=", 0) == 0) {
-                    throw InputError("--output", "", "not with --jsonl: each result is one line on stdout");
+                    const std::string path = a.size() > 9 ? a.substr(9) : (i + 1 < args.size() ? args[i + 1] : "");
+                    throw InputError("--output", path, "not with --jsonl: each result is one line on stdout");
                 }
             }
             args.emplace_back("--format");

@@ -15,7 +15,9 @@ namespace rtline::cli {
 
 // The flag arguments for subcommand `sub` that `spec` stands for. Throws InputError naming the key
 // (as "spec key 'name'") for an unknown key, a wrong type or a non-object spec.
-[[nodiscard]] std::vector<std::string> spec_arguments(const Json& spec, const CLI::App& sub);
+// A relative "points" path is taken from `base_dir` (the spec file's folder; empty: the working folder).
+[[nodiscard]] std::vector<std::string> spec_arguments(const Json& spec, const CLI::App& sub,
+                                                      const std::string& base_dir = "");
 
 // Parses spec text; throws InputError naming `field` and where the JSON is malformed.
 [[nodiscard]] Json parse_spec(const std::string& text, const std::string& field, const std::string& source);
