@@ -263,12 +263,13 @@ std::string run_compare(const SizeCommand& o, Setup& s, Format format) {
         one.top = 1;
         const StandardSearch found = search_standard(one, s.grid, s.model);
         total.examined += found.examined;
-        for (const auto& [flag, n] : found.removed) {
-            auto it = std::find_if(total.removed.begin(), total.removed.end(), [&](const auto& r) { return r.first == flag; });
+        for (const auto& removed : found.removed) {
+            auto it = std::find_if(total.removed.begin(), total.removed.end(),
+                                   [&](const auto& r) { return r.first == removed.first; });
             if (it == total.removed.end()) {
-                total.removed.emplace_back(flag, n);
+                total.removed.push_back(removed);
             } else {
-                it->second += n;
+                it->second += removed.second;
             }
         }
         if (found.best.empty()) {
