@@ -9,5 +9,6 @@ namespace rtline::cli {
 void setup_model(CLI::App& app);
 void setup_fit(CLI::App& app);
 void setup_check(CLI::App& app);
+void setup_budget(CLI::App& app);
 
 }  // namespace rtline::cli

@@ -20,6 +20,7 @@ int main(int argc, char** argv) {
     rtline::cli::setup_model(app);
     rtline::cli::setup_fit(app);
     rtline::cli::setup_check(app);
+    rtline::cli::setup_budget(app);
 
     try {
         app.parse(argc, argv);
