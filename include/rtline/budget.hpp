@@ -48,6 +48,7 @@ inline constexpr std::uint64_t kMaxTrials = 100'000'000;
 inline constexpr std::uint64_t kMaxSamples = 200'000'000;  // trials × temperatures
 inline constexpr std::size_t kMaxBudgetPoints = 10'001;    // temperatures in one budget
 inline constexpr unsigned kMaxThreads = 256;
+inline constexpr double kMaxSelfHeatingK = 2.0;  // the largest nominal self-heating a budget takes
 
 struct BudgetSpec {
     Tolerances tolerance;
@@ -116,8 +117,8 @@ struct Budget {
 };
 
 // The budget of `circuit` around `model` at each temperature of `grid`. Validates the spec first;
-// throws InputError when the output is flat over the span or the tolerances carry the reading past
-// the end of its range.
+// throws InputError when the output is flat over the span, the thermistor self-heats by more than
+// kMaxSelfHeatingK, or the tolerances carry the reading past the end of its range.
 [[nodiscard]] Budget compute_budget(const Grid& grid, const Thermistor& model, const Circuit& circuit,
                                     const BudgetSpec& spec);
 

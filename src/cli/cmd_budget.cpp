@@ -86,6 +86,9 @@ BudgetSpec build_spec(const BudgetOptions& o, const Circuit& circuit) {
         if (!(s.adc.full_scale > 0.0)) {
             throw InputError("--adc-ref", o.adc_ref, "give excitation (ratiometric) or a positive voltage");
         }
+        if (drive == Drive::ratiometric) {
+            throw InputError("--adc-ref", o.adc_ref, "a fixed reference needs a drive; give --excitation V or --current A");
+        }
     }
     const bool volts = drive != Drive::ratiometric && !s.ratiometric;
     s.tolerance.excitation = o.excitation_tol.empty() ? (volts ? 0.01 : 0.0)
@@ -328,6 +331,11 @@ void run_budget(const BudgetOptions& o) {
     const Thermistor thermistor = build_model(o.model);
     const Span span = build_span(o.span);
     const Grid grid = make_grid(thermistor, span, build_step(o.span));
+    if (grid.size() > kMaxBudgetPoints) {
+        throw InputError("--step", o.span.step,
+                         "gives " + std::to_string(grid.size()) + " temperatures; a budget takes at most " +
+                             std::to_string(kMaxBudgetPoints));
+    }
     const Circuit circuit = build_circuit(o.circuit, thermistor, span);
     const BudgetSpec spec = build_spec(o, circuit);
     const Budget b = compute_budget(grid, thermistor, circuit, spec);

@@ -250,6 +250,10 @@ private:
     bool heat_;
 };
 
+// Rounding leaves about 1e−13 K where an error is zero in exact arithmetic (the model reading with
+// nominal parts, the line reading at the span's ends).
+double clean(double e_k) { return std::abs(e_k) < 1e-12 ? 0.0 : e_k; }
+
 // Worst case, nominal error, the split by cause and the resolution at point i.
 BudgetPoint point_bounds(const Channel& ch, const BudgetSpec& spec, std::size_t i) {
     const Tolerances& tol = spec.tolerance;
@@ -268,14 +272,14 @@ BudgetPoint point_bounds(const Channel& ch, const BudgetSpec& spec, std::size_t 
     BudgetPoint p;
     p.t_k = ch.t(i);
     const Extremes whole = BoxSearch(ch, i, all, adc ? Adc::offset : Adc::none, ch.heats()).run();
-    p.worst_case_k = std::max(std::abs(whole.lo), std::abs(whole.hi));
-    p.nominal_error_k = ch.error(ch.nominal(), i, Adc::none, 0.0, ch.heats());
+    p.worst_case_k = clean(std::max(std::abs(whole.lo), std::abs(whole.hi)));
+    p.nominal_error_k = clean(ch.error(ch.nominal(), i, Adc::none, 0.0, ch.heats()));
 
     // Each cause alone against the baseline: nominal parts, no converter, no self-heating.
-    const double e0 = ch.error(ch.nominal(), i, Adc::none, 0.0, false);
+    const double e0 = clean(ch.error(ch.nominal(), i, Adc::none, 0.0, false));
     auto alone = [&](std::vector<Dim> dims, Adc mode) {
         const Extremes x = BoxSearch(ch, i, std::move(dims), mode, false).run();
-        return std::max({0.0, x.hi - e0, e0 - x.lo});
+        return clean(std::max({0.0, x.hi - e0, e0 - x.lo}));
     };
     BudgetComponents& c = p.components;
     c.nonlinearity_k = spec.reading == Reading::line ? std::abs(e0) : NAN;
@@ -284,7 +288,7 @@ BudgetPoint point_bounds(const Channel& ch, const BudgetSpec& spec, std::size_t 
     c.resistors_k = resistors.empty() ? NAN : alone(resistors, Adc::none);
     c.excitation_k = ch.volts() ? alone({excitation}, Adc::none) : NAN;
     c.adc_k = adc ? alone({converter}, Adc::offset) : NAN;
-    c.self_heating_k = ch.heats() ? std::abs(ch.error(ch.nominal(), i, Adc::none, 0.0, true) - e0) : NAN;
+    c.self_heating_k = ch.heats() ? clean(std::abs(ch.error(ch.nominal(), i, Adc::none, 0.0, true) - e0)) : NAN;
     p.resolution_k_per_lsb = adc ? ch.lsb() / ch.sensitivity(i) : NAN;
     return p;
 }
@@ -307,6 +311,18 @@ Budget compute_budget(const Grid& grid, const Thermistor& model, const Circuit& 
         throw InputError("--adc-ref", describe(spec.adc.full_scale) + (spec.ratiometric ? "" : " V"),
                          "the output reaches " + describe(ch.largest_reading()) + " " + reading_unit(circuit, spec) +
                              ", beyond the converter's full scale");
+    }
+    if (ch.heats()) {
+        for (std::size_t i = 0; i < grid.size(); ++i) {
+            const double rise_k = operate(circuit, grid.r_ohm[i]).power_w / spec.dissipation_w_per_k;
+            if (rise_k > kMaxSelfHeatingK) {
+                throw InputError("--dissipation", describe(1e3 * spec.dissipation_w_per_k),
+                                 "the thermistor self-heats by " + format_number(rise_k, 3) + " K at " +
+                                     format_number(kelvin_to_celsius(grid.t_k[i])) +
+                                     " C; a budget takes a rise up to " + format_number(kMaxSelfHeatingK) +
+                                     " K (lower the drive)");
+            }
+        }
     }
     const unsigned threads = spec.threads > 0 ? spec.threads : std::max(1U, std::thread::hardware_concurrency());
 
