@@ -162,7 +162,7 @@ Json budget_json(const Budget& b, const BudgetSpec& s, const Thermistor& model, 
     Json a;
     a["reading"] = std::string(reading_name(s.reading));
     a["reading_unit"] = unit;
-    a["ratiometric"] = unit != "V";
+    a["ratiometric"] = unit == "V/V";
     a["distribution"] = std::string(distribution_name(s.distribution));
     a["sigmas_per_tolerance"] = s.distribution == Distribution::normal ? Json(3) : Json(nullptr);
     a["trials"] = s.trials;

@@ -68,15 +68,14 @@ private:
 std::uint64_t block_state(std::uint64_t seed, std::uint64_t block) { return mix64(mix64(seed) + block); }
 
 // What one worker keeps: |error| above the threshold at each temperature (kept[i][0, count[i])), and
-// for the rest their range; the largest |error|.
+// how many equal it (errors are discrete once a converter quantizes the reading, so ties are common);
+// the rest are below it. And the largest |error|.
 struct Tails {
-    explicit Tails(std::size_t n)
-        : kept(n), count(n, 0), min_below(n, INFINITY), max_below(n, -INFINITY), max_abs(n, 0.0) {}
+    explicit Tails(std::size_t n) : kept(n), count(n, 0), equal(n, 0), max_abs(n, 0.0) {}
     std::vector<std::vector<double>> kept;
     std::vector<std::size_t> count;
-    std::uint64_t trials = 0;  // run by this worker: those not kept at i are trials − count[i]
-    std::vector<double> min_below;
-    std::vector<double> max_below;
+    std::vector<std::uint64_t> equal;
+    std::uint64_t trials = 0;  // run by this worker: trials − count[i] − equal[i] lie below the threshold
     std::vector<double> max_abs;
 };
 
@@ -134,8 +133,7 @@ public:
         const double* const ref = e_ref_.data();
         const double* const th = job.tau;
         double* const mx = tails.max_abs.data();
-        double* const lo = tails.min_below.data();
-        double* const hi = tails.max_below.data();
+        std::uint64_t* const eq = tails.equal.data();
         std::size_t* const kept = tails.count.data();
         double* const s1 = job.s1;
         double* const s2 = job.s2;
@@ -158,12 +156,7 @@ public:
                 ap[i] = a;
                 mx[i] = std::max(mx[i], a);
             }
-            for (std::size_t i = 0; i < n; ++i) {
-                const double a = ap[i];
-                const bool k = a > th[i];  // kept samples do not count below the threshold
-                lo[i] = std::min(lo[i], k ? INFINITY : a);
-                hi[i] = std::max(hi[i], k ? -INFINITY : a);
-            }
+            for (std::size_t i = 0; i < n; ++i) eq[i] += ap[i] == th[i] ? 1 : 0;
             for (std::size_t i = 0; i < n; ++i) kp[i] = ap[i] > th[i] ? 1 : 0;
             for (std::size_t i = 0; i < n; ++i) {
                 out[i][kept[i]] = ap[i];
@@ -219,17 +212,16 @@ std::uint64_t rank_of(std::uint64_t permille, std::uint64_t n) {
     return std::max<std::uint64_t>(1, (permille * n + 999) / 1000);
 }
 
-// The bound at rank k of n samples when the kept ones (> threshold) are `kept` (reordered) and the
-// others number n_below within [min_below, max_below]. NaN when the rank falls among the others and
-// their values are not all known.
-double order_statistic(std::vector<double>& kept, std::uint64_t k, std::uint64_t n_below, double min_below,
-                       double max_below) {
-    if (k > n_below) {
-        const auto at = kept.begin() + static_cast<std::ptrdiff_t>(k - n_below - 1);
+// The bound at rank k when the samples above the threshold `tau` are `kept` (reordered), n_equal
+// equal it and n_below lie below it. NaN when the rank falls below the threshold (the pilot misled).
+double order_statistic(std::vector<double>& kept, std::uint64_t k, std::uint64_t n_below, std::uint64_t n_equal,
+                       double tau) {
+    if (k > n_below + n_equal) {
+        const auto at = kept.begin() + static_cast<std::ptrdiff_t>(k - n_below - n_equal - 1);
         std::nth_element(kept.begin(), at, kept.end());
         return *at;
     }
-    if (k == n_below || min_below == max_below) return max_below;
+    if (k > n_below) return tau;
     return NAN;
 }
 
@@ -268,21 +260,18 @@ std::vector<McStats> monte_carlo(const Channel& ch, const BudgetSpec& spec, unsi
     std::vector<std::size_t> redo;
     const std::uint64_t k95 = rank_of(950, trials);
     const std::uint64_t k997 = rank_of(997, trials);
-    auto bounds = [&](std::size_t i, std::vector<Tails>& from, std::vector<double>& kept) {
+    auto bounds = [&](std::size_t i, std::vector<Tails>& from, double tau_i, std::vector<double>& kept) {
         std::uint64_t n_below = 0;
-        double min_below = INFINITY;
-        double max_below = -INFINITY;
+        std::uint64_t n_equal = 0;
         kept.clear();
         for (Tails& t : from) {
-            n_below += t.trials - t.count[i];
-            min_below = std::min(min_below, t.min_below[i]);
-            max_below = std::max(max_below, t.max_below[i]);
+            n_below += t.trials - t.count[i] - t.equal[i];
+            n_equal += t.equal[i];
             kept.insert(kept.end(), t.kept[i].begin(), t.kept[i].begin() + static_cast<std::ptrdiff_t>(t.count[i]));
             std::vector<double>().swap(t.kept[i]);
         }
-        // Ranks ascending: the 99.7 % bound is found above the 95 % one after nth_element.
-        out[i].p95_k = order_statistic(kept, k95, n_below, min_below, max_below);
-        out[i].p99_7_k = order_statistic(kept, k997, n_below, min_below, max_below);
+        out[i].p95_k = order_statistic(kept, k95, n_below, n_equal, tau_i);
+        out[i].p99_7_k = order_statistic(kept, k997, n_below, n_equal, tau_i);
     };
     std::vector<std::vector<double>> scratch(workers);
     parallel_for(n, workers, [&](std::size_t i, unsigned w) {
@@ -298,7 +287,7 @@ std::vector<McStats> monte_carlo(const Channel& ch, const BudgetSpec& spec, unsi
         m.std_k = trials > 1 ? std::sqrt(std::max(0.0, (s2 - s1 * s1 / nt) / (nt - 1.0))) : NAN;
         if (!std::isfinite(m.mean_k)) out_of_range(ch.t(i));
         for (const Tails& t : tails) m.max_abs_k = std::max(m.max_abs_k, t.max_abs[i]);
-        bounds(i, tails, scratch[w]);
+        bounds(i, tails, tau[i], scratch[w]);
     });
     for (std::size_t i = 0; i < n; ++i) {
         if (std::isnan(out[i].p95_k) || std::isnan(out[i].p99_7_k)) redo.push_back(i);
@@ -311,7 +300,7 @@ std::vector<McStats> monte_carlo(const Channel& ch, const BudgetSpec& spec, unsi
         parallel_for(blocks, workers, [&](std::size_t b, unsigned w) {
             runner.run(b, trials_in(b, trials), nullptr, nullptr, keep_all, again[w]);
         });
-        for (const std::size_t i : redo) bounds(i, again, scratch[0]);
+        for (const std::size_t i : redo) bounds(i, again, -INFINITY, scratch[0]);
     }
     return out;
 }
