@@ -183,7 +183,7 @@ TEST_CASE("self-heating agrees with an exact root of T_b = T + P(R(T_b))/delta (
             const json& r = ref["points"][i];
             CAPTURE(reading);
             CAPTURE(p["t_c"].get<double>());
-            // Two fixed-point steps and a second-order Taylor series in ln R: within ΔT³/T² (3e-8 K here).
+            // Three fixed-point steps and a second-order Taylor series in ln R: within ΔT³/T² (3e-8 K here).
             const double expected = r[std::string(reading) + "_error_k"].get<double>();
             CHECK(std::abs(p["nominal_error_c"].get<double>() - expected) < 1e-6);
         }

@@ -178,8 +178,9 @@ using Slots = std::array<double, kSlots>;
 enum class Adc { none, offset, rounded };
 
 // How the firmware's temperature comes from the reading: the endpoint line, the closed-form inverse
-// of a beta or Steinhart–Hart model, or Newton on a table model.
-enum class Inverse { line, closed, table };
+// of a beta or Steinhart–Hart model, or Newton on a table model. `scaled` is `closed` for a circuit
+// whose nominal inverse returns R_T times one factor per trial (see Channel::scales).
+enum class Inverse { line, closed, scaled, table };
 
 // A compile-time choice of the error's branches, so that each loop is straight-line code.
 template <bool kHeat, Adc kMode, Inverse kInverse>
@@ -194,6 +195,7 @@ decltype(auto) with_kernel(bool heat, Adc mode, Inverse inverse, F&& f) {
         switch (inverse) {
             case Inverse::line: return f(Kernel<kH, kM, Inverse::line>{});
             case Inverse::closed: return f(Kernel<kH, kM, Inverse::closed>{});
+            case Inverse::scaled: return f(Kernel<kH, kM, Inverse::scaled>{});
             case Inverse::table: break;
         }
         return f(Kernel<kH, kM, Inverse::table>{});
@@ -216,6 +218,7 @@ struct Trial {
     Bilinear reading;  // reading against R_T
     Bilinear vt;       // thermistor volts against R_T (self-heating)
     Bilinear to_r;     // R_T ↦ the R_T the nominal circuit gives for the same reading
+    double ln_scale = 0.0;  // Inverse::scaled: ln(1 + dr) + ln(to_r(x)/x)
 };
 
 // The design with everything that does not change from trial to trial precomputed.
@@ -255,8 +258,11 @@ public:
             inverse_ = Inverse::closed;
         }
         if (spec.reading == Reading::line) inverse_ = Inverse::line;
+        if (inverse_ == Inverse::closed && scales(circuit, volts_)) inverse_ = Inverse::scaled;
+        lnr_.resize(n);
+        for (std::size_t i = 0; i < n; ++i) lnr_[i] = std::log(r_[i]);
         nominal_ = trial(Slots{});
-        nominal_.to_r = inverse_after(nominal_.reading, nominal_.reading);
+        nominal_ = trial(Slots{});  // again, now that the nominal map it inverts exists
         Analysis a = analyze(grid, model, reading_, LineKind::endpoint, 0.0);
         line_ = a.line;
         inv_slope_ = 1.0 / line_.slope;
@@ -298,7 +304,18 @@ public:
         tr.reading = through(fit_x_, y);
         tr.to_r = inverse_after(nominal_.reading, tr.reading);
         if (heat_) tr.vt = through(fit_x_, v);
+        if (inverse_ == Inverse::scaled) tr.ln_scale = std::log(tr.g) + std::log(tr.to_r.at(fit_x_[1]) / fit_x_[1]);
         return tr;
+    }
+
+    // True when the nominal inverse of a trial's reading is R_T times a factor of the trial's parts:
+    // a divider without a load read ratiometrically (v = x/(x + rs) or rs/(rs + x) depends on x/rs
+    // only, so x̂ = x·rs_nominal/rs), or the bare thermistor without a load (x̂ = x, or x·I/I_nominal
+    // with a current drive).
+    [[nodiscard]] static bool scales(const Circuit& c, bool volts) {
+        if (std::isfinite(c.load_ohm)) return false;
+        if (c.topology == Topology::bare) return true;
+        return (c.topology == Topology::divider_low || c.topology == Topology::divider_high) && !volts;
     }
 
     // The temperature read minus the true one at grid point i, kelvin, with the parts of `tr`.
@@ -313,6 +330,11 @@ public:
     template <bool kHeat, Adc kMode, Inverse kInverse>
     [[nodiscard]] [[gnu::always_inline]] inline double point_error(Kernel<kHeat, kMode, kInverse>, const Trial& tr,
                                                                    std::size_t i, double adc) const {
+        if constexpr (kInverse == Inverse::scaled && kMode == Adc::none && !kHeat) {
+            // ln of the R_T the firmware infers: ln R + ln(1 + dr) + db·ln(R/R0) + ln(factor).
+            const double l = lnr_[i] + tr.ln_scale + tr.db * lnq_[i];
+            return 1.0 / (sh_.a + l * (sh_.b + sh_.c * l * l)) - t_[i];
+        }
         // R'(T) = R(T)·(1 + dr)·(R(T)/R(T0))^db.
         double x = r_[i] * tr.g * exp_fast(tr.db * lnq_[i]);
         if constexpr (kHeat) {
@@ -329,7 +351,8 @@ public:
             x = xh;
         }
         double t_read = 0.0;
-        if constexpr (kInverse == Inverse::closed && kMode == Adc::none) {
+        constexpr bool kClosed = kInverse == Inverse::closed || kInverse == Inverse::scaled;
+        if constexpr (kClosed && kMode == Adc::none) {
             const double l = log_fast(tr.to_r.at(x));
             t_read = 1.0 / (sh_.a + l * (sh_.b + sh_.c * l * l));
         } else {
@@ -338,7 +361,7 @@ public:
             if constexpr (kMode == Adc::rounded) y = round_even(y * inv_lsb_ + adc) * lsb_;
             if constexpr (kInverse == Inverse::line) {
                 t_read = (y - line_.intercept) * inv_slope_;
-            } else if constexpr (kInverse == Inverse::closed) {
+            } else if constexpr (kClosed) {
                 const double l = log_fast(nominal_.reading.inverse(y));
                 t_read = 1.0 / (sh_.a + l * (sh_.b + sh_.c * l * l));
             } else {
@@ -383,7 +406,7 @@ private:
     double inv_dissipation_ = 0.0;
     double lsb_ = 0.0;
     double inv_lsb_ = 0.0;
-    std::vector<double> t_, r_, lnq_, alpha_, alpha_dot_, sensitivity_;
+    std::vector<double> t_, r_, lnr_, lnq_, alpha_, alpha_dot_, sensitivity_;
     std::array<double, 3> fit_x_{};
     Inverse inverse_ = Inverse::closed;
     SteinhartHart sh_;

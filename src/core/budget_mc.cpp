@@ -212,13 +212,15 @@ std::uint64_t rank_of(std::uint64_t permille, std::uint64_t n) {
     return std::max<std::uint64_t>(1, (permille * n + 999) / 1000);
 }
 
-// The bound at rank k when the samples above the threshold `tau` are `kept` (reordered), n_equal
-// equal it and n_below lie below it. NaN when the rank falls below the threshold (the pilot misled).
-double order_statistic(std::vector<double>& kept, std::uint64_t k, std::uint64_t n_below, std::uint64_t n_equal,
-                       double tau) {
+// The bound at rank k when the samples above the threshold `tau` are `kept`, n_equal equal it and
+// n_below lie below it; kept[from, end) must hold the kept ranks from `from` on (nth_element leaves
+// that true above the rank it places, so a higher rank is searched there only). NaN when the rank
+// falls below the threshold (the pilot misled).
+double order_statistic(std::vector<double>& kept, std::size_t from, std::uint64_t k, std::uint64_t n_below,
+                       std::uint64_t n_equal, double tau) {
     if (k > n_below + n_equal) {
         const auto at = kept.begin() + static_cast<std::ptrdiff_t>(k - n_below - n_equal - 1);
-        std::nth_element(kept.begin(), at, kept.end());
+        std::nth_element(kept.begin() + static_cast<std::ptrdiff_t>(from), at, kept.end());
         return *at;
     }
     if (k > n_below) return tau;
@@ -270,8 +272,9 @@ std::vector<McStats> monte_carlo(const Channel& ch, const BudgetSpec& spec, unsi
             kept.insert(kept.end(), t.kept[i].begin(), t.kept[i].begin() + static_cast<std::ptrdiff_t>(t.count[i]));
             std::vector<double>().swap(t.kept[i]);
         }
-        out[i].p95_k = order_statistic(kept, k95, n_below, n_equal, tau_i);
-        out[i].p99_7_k = order_statistic(kept, k997, n_below, n_equal, tau_i);
+        out[i].p95_k = order_statistic(kept, 0, k95, n_below, n_equal, tau_i);
+        const std::uint64_t placed = k95 > n_below + n_equal ? k95 - n_below - n_equal : 0;  // kept ranks below
+        out[i].p99_7_k = order_statistic(kept, static_cast<std::size_t>(placed), k997, n_below, n_equal, tau_i);
     };
     std::vector<std::vector<double>> scratch(workers);
     parallel_for(n, workers, [&](std::size_t i, unsigned w) {
