@@ -74,25 +74,34 @@ TEST_CASE("a B-value tolerance alone, model reading: the worst case is the exact
     //   T' = 1/(1/T0 + (1 ± ΔB/B)(1/T − 1/T0)), and the error T' − T.
     // To first order, with u = d(T0 − T)/T0: T' = T/(1 + u) ≈ T(1 − u), so |ΔT| ≈ (ΔB/B)·T·|T0 − T|/T0,
     // and the exact worst case T·|u|/(1 − |u|) exceeds it by a fraction |u| (second order).
+    // The circuit does not matter with nominal resistors: a divider without a load (whose inverse is a
+    // plain factor) and a loaded shunt-divider (a general bilinear map) must both give it.
     const double d = 0.02;
     rtline::BudgetSpec spec = nothing();
     spec.tolerance.beta = d;
-    const rtline::Budget b = budget_of(spec);
-    REQUIRE(b.points.size() == 11);
-    for (const rtline::BudgetPoint& p : b.points) {
-        const double t = p.t_k;
-        const double up = 1.0 / (1.0 / kT0 + (1.0 + d) * (1.0 / t - 1.0 / kT0)) - t;
-        const double down = 1.0 / (1.0 / kT0 + (1.0 - d) * (1.0 / t - 1.0 / kT0)) - t;
-        const double exact = std::max(std::abs(up), std::abs(down));
-        CAPTURE(rtline::kelvin_to_celsius(t));
-        CHECK(p.worst_case_k == doctest::Approx(exact).epsilon(1e-9));
-        CHECK(p.components.beta_k == doctest::Approx(exact).epsilon(1e-9));
-        const double u = d * std::abs(kT0 - t) / kT0;
-        const double first_order = d * t * std::abs(kT0 - t) / kT0;
-        CHECK(std::abs(p.worst_case_k - first_order) <= 1.01 * u * first_order / (1.0 - u) + 1e-12);
-        CHECK(p.components.r25_k == 0.0);
-        CHECK(p.components.resistors_k == 0.0);
-        CHECK(std::isnan(p.components.nonlinearity_k));
+    rtline::Circuit loaded;
+    loaded.topology = rtline::Topology::shunt_divider;
+    loaded.rs = 6.8e3;
+    loaded.rp = 33e3;
+    loaded.load_ohm = 100e3;
+    for (const rtline::Circuit& circuit : {divider_low(10e3), loaded}) {
+        const rtline::Budget b = budget_of(spec, -20.0, 80.0, 10.0, circuit);
+        REQUIRE(b.points.size() == 11);
+        for (const rtline::BudgetPoint& p : b.points) {
+            const double t = p.t_k;
+            const double up = 1.0 / (1.0 / kT0 + (1.0 + d) * (1.0 / t - 1.0 / kT0)) - t;
+            const double down = 1.0 / (1.0 / kT0 + (1.0 - d) * (1.0 / t - 1.0 / kT0)) - t;
+            const double exact = std::max(std::abs(up), std::abs(down));
+            CAPTURE(rtline::kelvin_to_celsius(t));
+            CHECK(p.worst_case_k == doctest::Approx(exact).epsilon(1e-9));
+            CHECK(p.components.beta_k == doctest::Approx(exact).epsilon(1e-9));
+            const double u = d * std::abs(kT0 - t) / kT0;
+            const double first_order = d * t * std::abs(kT0 - t) / kT0;
+            CHECK(std::abs(p.worst_case_k - first_order) <= 1.01 * u * first_order / (1.0 - u) + 1e-12);
+            CHECK(p.components.r25_k == 0.0);
+            CHECK(p.components.resistors_k == 0.0);
+            CHECK(std::isnan(p.components.nonlinearity_k));
+        }
     }
 }
 
