@@ -165,6 +165,23 @@ using Slots = std::array<double, kSlots>;
                                  (static_cast<std::uint64_t>(bad) & 0x7FF8000000000000ULL));
 }
 
+// e^u for a small |u| (≤ 0.25: the self-heating step): its Taylor series to u^11 (remainder below
+// 1.2e−16 relative there), cheaper than exp_fast's range reduction.
+[[nodiscard]] [[gnu::always_inline]] inline double exp_small(double u) {
+    double p = 1.0 / 39916800.0;  // 1/11!
+    p = p * u + 1.0 / 3628800.0;
+    p = p * u + 1.0 / 362880.0;
+    p = p * u + 1.0 / 40320.0;
+    p = p * u + 1.0 / 5040.0;
+    p = p * u + 1.0 / 720.0;
+    p = p * u + 1.0 / 120.0;
+    p = p * u + 1.0 / 24.0;
+    p = p * u + 1.0 / 6.0;
+    p = p * u + 0.5;
+    p = p * u + 1.0;
+    return p * u + 1.0;
+}
+
 // The nearest integer (ties to even) for |z| < 2^51, in plain arithmetic.
 [[nodiscard]] [[gnu::always_inline]] inline double round_even(double z) {
     constexpr double kShift = 0x1.8p52;
@@ -342,11 +359,15 @@ public:
             // (1 + db)·alpha). Three fixed-point steps from dT = 0.
             const double k1 = (1.0 + tr.db) * alpha_[i];
             const double k2 = 0.5 * (1.0 + tr.db) * alpha_dot_[i];
+            // P = v²/x with v = (a·x + b)/(c·x + d): one division a step. The exponent is below 0.25
+            // in size (alpha ≤ 0.1/K, dT ≤ 2 K by the limit), where exp_small is exact.
+            const Bilinear& v = tr.vt;
             double xh = x;
             for (int step = 0; step < kHeatSteps; ++step) {
-                const double v = tr.vt.at(xh);
-                const double dt = v * v / xh * inv_dissipation_;
-                xh = x * exp_fast(dt * (k1 + k2 * dt));
+                const double num = v.a * xh + v.b;
+                const double den = v.c * xh + v.d;
+                const double dt = num * num / (den * den * xh) * inv_dissipation_;
+                xh = x * exp_small(dt * (k1 + k2 * dt));
             }
             x = xh;
         }
