@@ -12,10 +12,10 @@
 #include <cstdint>
 #include <exception>
 #include <limits>
-#include <type_traits>
 #include <mutex>
 #include <string>
 #include <thread>
+#include <type_traits>
 #include <vector>
 
 #include "rtline/analysis.hpp"
@@ -264,8 +264,12 @@ public:
             const double h = 0.01;  // K; alpha is smooth on this scale
             alpha_dot_[i] = (model.alpha(t_[i] + h) - model.alpha(t_[i] - h)) / (2.0 * h);
         }
+        // The bilinear maps are fitted through three values of R_T: the span's ends and centre, spread
+        // to at least a factor 3 from the centre so that a narrow span still fits well-conditioned.
         const Span span{t_.front(), t_.back()};
-        fit_x_ = {model.resistance(span.lo_k), model.resistance(span.centre_k()), model.resistance(span.hi_k)};
+        const double r_mid = model.resistance(span.centre_k());
+        fit_x_ = {std::max(model.resistance(span.lo_k), 3.0 * r_mid), r_mid,
+                  std::min(model.resistance(span.hi_k), r_mid / 3.0)};
         inverse_ = Inverse::table;
         if (const auto* b = std::get_if<BetaModel>(&model.model())) {
             sh_ = to_steinhart_hart(*b);
