@@ -11,5 +11,6 @@ void setup_fit(CLI::App& app);
 void setup_check(CLI::App& app);
 void setup_size(CLI::App& app);
 void setup_table(CLI::App& app);
+void setup_budget(CLI::App& app);
 
 }  // namespace rtline::cli

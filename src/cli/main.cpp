@@ -32,6 +32,7 @@ void build_program(CLI::App& app) {
     rtline::cli::setup_check(app);
     rtline::cli::setup_size(app);
     rtline::cli::setup_table(app);
+    rtline::cli::setup_budget(app);
     for (CLI::App* sub : app.get_subcommands({})) {
         // Declared for --help; read_invocation() takes both out of the arguments before parsing.
         sub->add_option("--spec", "JSON spec: keys are the long flag names with _ for - ('-' reads stdin)")
