@@ -171,7 +171,7 @@ TEST_CASE("parse_span rejects a reversed, empty, single or three-part span, nami
     const Case cases[] = {
         {"5:-30", "--span '5:-30': the low end must be below the high end"},
         {"0:0", "--span '0:0': the low end must be below the high end"},
-        {"", "--span '': expected LO:HI in \xC2\xB0" "C, e.g. -30:5 or 0:100"},
+        {"", "--span: expected LO:HI in \xC2\xB0" "C, e.g. -30:5 or 0:100"},
         {"5", "--span '5': expected LO:HI in \xC2\xB0" "C, e.g. -30:5 or 0:100"},
         {"1:2:3", "--span '1:2:3': expected LO:HI in \xC2\xB0" "C, e.g. -30:5 or 0:100"},
         {":5", "--span ':5': expected a temperature in \xC2\xB0" "C (e.g. -40 or 25) or in kelvin (e.g. 298.15K)"},

@@ -7,7 +7,7 @@ namespace rtline {
 namespace {
 std::string compose(const std::string& field, const std::string& value, const std::string& why) {
     std::string text = field;
-    if (!value.empty() || field.rfind("--", 0) == 0) {
+    if (!value.empty()) {
         text += " '" + value + "'";
     }
     return text + ": " + why;
