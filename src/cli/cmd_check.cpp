@@ -91,7 +91,7 @@ void run_check(const CheckCommand& o) {
                                     {"deviation (" + unit + ")", "deviation", -1, 4},
                                     {"nonlinearity (%FSD)", "nonlinearity_pct_fsd", 3},
                                     {"error (\xC2\xB0" "C)", "error_c", 3},
-                                    {csv ? "power (W)" : "power (mW)", "power_w", -1, 4},
+                                    {csv ? "power (W)" : ratiometric ? "power at 1 V (mW)" : "power (mW)", "power_w", -1, 4},
                                     {"self-heating (K)", "self_heating_k", 4}};
         // CSV has no place for a title, so each row names the line its ideal and deviation refer to.
         if (csv) columns.push_back({"line", "line"});

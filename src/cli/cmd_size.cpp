@@ -144,7 +144,8 @@ Table candidate_table(const std::vector<Candidate>& cs, const std::string& unit,
     cols.push_back({"span (" + unit + ")", "output_span", -1, 4});
     cols.push_back({"min sens (" + unit + "/K)", "sensitivity_min_per_k", -1, 4});
     cols.push_back({"max sens (" + unit + "/K)", "sensitivity_max_per_k", -1, 4});
-    cols.push_back({csv ? "power (W)" : "power (mW)", "max_power_w", -1, 4});
+    const bool per_volt = !cs.empty() && cs.front().circuit.excitation.drive == Drive::ratiometric;
+    cols.push_back({csv ? "power (W)" : per_volt ? "power at 1 V (mW)" : "power (mW)", "max_power_w", -1, 4});
     if (self_heating) cols.push_back({"self-heating (K)", "max_self_heating_k", 4});
     Table t(cols);
     for (const Candidate& c : cs) {
@@ -314,7 +315,7 @@ std::string run_compare(const SizeCommand& o, Setup& s, Format format) {
              {"error (\xC2\xB0" "C)", "max_error_c", 3},
              {"span", "output_span", -1, 4},
              {"unit", "output_unit"},
-             {"power (mW)", "max_power_w", -1, 4}});
+             {drive.excitation.drive == Drive::ratiometric ? "power at 1 V (mW)" : "power (mW)", "max_power_w", -1, 4}});
     for (const Candidate& c : rows) {
         t.add_row({std::string(topology_name(c.circuit.topology)), resistors_text(c.circuit, 4), c.max_nonlinearity_pct_fsd,
                    c.max_error_k, c.output_span, output_unit(c.circuit), 1e3 * c.max_power_w});
