@@ -9,7 +9,7 @@ mode=${1:-demo}
 cd "$(dirname "$0")/.."
 
 packages=(g++ cmake make libeigen3-dev libcli11-dev nlohmann-json3-dev doctest-dev
-          ngspice python3 python3-numpy python3-scipy)
+          ngspice python3 python3-numpy python3-scipy jq)
 missing=()
 for p in "${packages[@]}"; do
   dpkg-query -W -f='${Status}' "$p" 2>/dev/null | grep -q "install ok installed" || missing+=("$p")
