@@ -139,7 +139,9 @@ std::string tick_label(double v, double step, Ticks kind) {
         s = format_resistance(v, std::min(digits, 6));
     } else if (step >= 1e5 || step < 1e-4) {
         static constexpr const char* prefixes[] = {"p", "n", "\xC2\xB5", "m", "", "k", "M", "G", "T"};
-        const int e3 = std::clamp(static_cast<int>(std::floor(std::log10(step) / 3.0)), -4, 4);
+        // The prefix suits each value (500k, 1M, 1.5M); the decimals follow the step.
+        const double size = v == 0.0 ? step : std::abs(v);
+        const int e3 = std::clamp(static_cast<int>(std::floor(std::log10(size) / 3.0 + 1e-12)), -4, 4);
         const double scale = std::pow(10.0, 3 * e3);
         const int decimals = std::max(0, -static_cast<int>(std::floor(std::log10(step / scale) + 1e-9)));
         s = format_fixed(v / scale, decimals) + prefixes[e3 + 4];
