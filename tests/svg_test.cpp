@@ -418,6 +418,25 @@ TEST_CASE("--svg refuses stdout, the -o file, and size --compare") {
     CHECK_FALSE(std::filesystem::exists(pic.str()));
 }
 
+TEST_CASE("--svg comes from a spec file like any flag, and is refused per line of a --jsonl batch") {
+    const TempPath pic(".svg");
+    const TempPath spec(".json");
+    write_file(spec.str(), Json{{"r25", "10k"}, {"beta", 3950}, {"span", "0:45"}, {"circuit", "divider-low"},
+                                {"rs", "5k6"}, {"svg", pic.str()}}
+                               .dump());
+    const auto r = run_rtline({"check", "--spec", spec.str()});
+    CHECK(r.code == 0);
+    CHECK(read_svg(pic.str())["plots"].size() == 2);
+    const TempPath pic2(".svg");
+    const std::string line = Json{{"r25", "10k"}, {"beta", 3950}, {"span", "0:45"}, {"circuit", "divider-low"},
+                                  {"rs", "5k6"}, {"svg", pic2.str()}}
+                                 .dump();
+    const auto batch = run_rtline({"check", "--jsonl"}, line + "\n");
+    CHECK(batch.code == 2);
+    CHECK(batch.out == "{\"line\":1,\"error\":\"--svg '': not with --jsonl: every line would draw over the same file\"}\n");
+    CHECK_FALSE(std::filesystem::exists(pic2.str()));
+}
+
 // --------------------------------------------------------------------------------------- size
 
 TEST_CASE("size --svg marks the continuous optimum at its rs, at the bottom of the curve, and the listed values on it") {

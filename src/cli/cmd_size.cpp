@@ -247,7 +247,7 @@ std::string size_svg(const SizeCommand& o, const Setup& s, const Candidate& cont
     p.grid = &s.grid;
     p.model = &s.model;
     p.continuous = continuous;
-    p.continuous_fails = !failed_constraint(s.spec, continuous).empty();
+    p.continuous_fails = failed_constraint(s.spec, continuous);
     p.listed = listed;
     p.listed_label = label;
     std::tie(p.lo_ohm, p.hi_ohm) = o.range == "1:10M" ? size_window(s.spec, continuous, listed)

@@ -309,7 +309,7 @@ void run_table(const TableCommand& o) {
     }
     std::vector<Output> outputs{{o.out.output, bytes, "-o"}};
     if (!o.svg.empty()) {
-        outputs.push_back({o.svg, svg::render(table_figure(r.thermistor, r.circuit, r.map, r.table, r.polynomial)), "--svg"});
+        outputs.push_back({o.svg, svg::render(table_figure(r.thermistor, r.circuit, r.map, r.table, r.polynomial, r.max_error_k)), "--svg"});
     }
     emit_all(outputs);
 }

@@ -152,6 +152,10 @@ svg::Figure size_figure(const SizePicture& p) {
     f.notes = {describe_model(*p.model), "circuit: " + describe_circuit(spec.base),
                "span: " + span_text(p.grid->t_k.front(), p.grid->t_k.back()) + ", " + std::to_string(p.grid->size()) +
                    " points; objective: largest |nonlinearity| against the " + line + " line"};
+    const Constraints& k = spec.constraints;
+    if (std::isfinite(k.max_power_w) || std::isfinite(k.max_self_heating_k) || k.min_span > 0.0 || k.min_sensitivity > 0.0) {
+        f.notes.push_back("the curve ignores the constraints; the listed values meet them");
+    }
     f.description = provenance("size") + " The objective at " + std::to_string(xs.size()) + " values of " + first +
                     " from " + format_resistance(p.lo_ohm, 4) + " to " + format_resistance(p.hi_ohm, 4) + " ohm" +
                     (two ? ", each with " + names[1] + " at its best (the continuous search's inner step)" : "") + ".";
@@ -169,7 +173,7 @@ svg::Figure size_figure(const SizePicture& p) {
     }
     svg::Markers cont;
     cont.label = "continuous optimum " + opt_text + ": " + format_fixed(p.continuous.max_nonlinearity_pct_fsd, 4) +
-                 " %FSD" + (p.continuous_fails ? " (fails a constraint)" : "");
+                 " %FSD" + (p.continuous_fails.empty() ? "" : " (fails " + p.continuous_fails + ")");
     cont.x = {opt};
     cont.y = {p.continuous.max_nonlinearity_pct_fsd};
     cont.colour = kRed;
@@ -209,7 +213,7 @@ double code_at(const CodeMap& map, double t_k) {
 }  // namespace
 
 svg::Figure table_figure(const Thermistor& model, const Circuit& circuit, const CodeMap& map, const LookupTable& table,
-                         const std::optional<Polynomial>& polynomial) {
+                         const std::optional<Polynomial>& polynomial, const std::optional<double>& target_k) {
     std::vector<double> codes;
     for (std::size_t i = 0; i < map.size(); ++i) codes.push_back(static_cast<double>(map.code_lo) + static_cast<double>(i));
     auto celsius_at = [&](std::int64_t code) { return format_fixed(kelvin_to_celsius(map.temperature(code)), 2) + " " + kDeg; };
@@ -239,6 +243,12 @@ svg::Figure table_figure(const Thermistor& model, const Circuit& circuit, const 
                                   std::to_string(polynomial->degree) + ": largest " +
                                   format_fixed(polynomial->max_error_k, 4) + " " + kDeg,
                               codes, poly_c, kOrange, 1.6, false});
+    }
+    if (target_k) {
+        const double t = *target_k;
+        plot.lines.push_back({"target \xC2\xB1" + format_number(t, 4) + " " + kDeg + " (--max-error)",
+                              {codes.front(), codes.back(), codes.back(), codes.front(), codes.back()},
+                              {t, t, NAN, -t, -t}, kRed, 1.2, true});
     }
     svg::Markers breaks;
     breaks.label = "breakpoints";

@@ -34,7 +34,7 @@ struct SizePicture {
     const Grid* grid = nullptr;
     const Thermistor* model = nullptr;
     Candidate continuous;
-    bool continuous_fails = false;     // it does not meet the constraints
+    std::string continuous_fails;      // the constraint it fails first (failed_constraint), or empty
     std::vector<Candidate> listed;     // what the report lists
     std::string listed_label;          // e.g. "best 5 E24 values (listed)"
     double lo_ohm = 0.0;
@@ -49,7 +49,9 @@ struct SizePicture {
 
 // table: the interpolation error (°C) against ADC code with the breakpoints marked, the polynomial's
 // error too when there is one, and the temperature along the top.
+// `target_k`: the --max-error bound, drawn at ± its value.
 [[nodiscard]] svg::Figure table_figure(const Thermistor& model, const Circuit& circuit, const CodeMap& map,
-                                       const LookupTable& table, const std::optional<Polynomial>& polynomial);
+                                       const LookupTable& table, const std::optional<Polynomial>& polynomial,
+                                       const std::optional<double>& target_k);
 
 }  // namespace rtline::cli

@@ -122,6 +122,9 @@ int run_batch(const std::string& command, const std::vector<std::string>& extra,
                 if (a == "-o" || a == "--output" || a.rfind("--output=", 0) == 0) {
                     throw InputError("--output", "", "not with --jsonl: each result is one line on stdout");
                 }
+                if (a == "--svg" || a.rfind("--svg=", 0) == 0) {
+                    throw InputError("--svg", "", "not with --jsonl: every line would draw over the same file");
+                }
             }
             args.emplace_back("--format");
             args.emplace_back("json");
