@@ -513,6 +513,37 @@ TEST_CASE("size --svg for a two-resistor topology plots against the first with t
     }
 }
 
+namespace {
+
+// True when one of the series' polylines runs across pixel column x.
+bool covers(const Json& s, double x) {
+    for (const Json& line : s["polylines"]) {
+        if (line.front()[0].get<double>() <= x && x <= line.back()[0].get<double>()) return true;
+    }
+    return false;
+}
+
+}  // namespace
+
+TEST_CASE("size --svg with a constraint draws the values that fail it apart, the listed values on the part that meets it") {
+    // The greenhouse example: self-heating under 0.2 K at 3.3 V with 1.5 mW/K rules out the continuous optimum.
+    const TempPath pic(".svg");
+    const Json d = run_with_svg(with({"size", "--spec", rtline::test::source_dir() + "/examples/greenhouse-vent.json"}, {}),
+                                pic);
+    REQUIRE(d["continuous"]["meets_constraints"] == false);
+    const Json s = read_svg(pic.str());
+    const Json& plot = s["plots"][0];
+    const Json& meets = series(plot, "objective, meets the constraints");
+    const Json& fails = series(plot, "objective, fails a constraint");
+    const Json& listed = markers(plot, "best 3 E24 values");
+    REQUIRE(listed["points"].size() == 3);
+    for (const Json& m : listed["points"]) CHECK(covers(meets, m[0].get<double>()));
+    const Json& opt = markers(plot, "continuous optimum");
+    CHECK(opt["label"].get<std::string>().find("(fails --max-self-heating)") != std::string::npos);
+    CHECK(covers(fails, opt["points"][0][0].get<double>()));
+    CHECK_FALSE(covers(meets, opt["points"][0][0].get<double>()));
+}
+
 TEST_CASE("size --svg plots over the whole --range when one is given") {
     const TempPath pic(".svg");
     (void)run_with_svg(with({"size"}, with(kThermistor, {"--span", "0:45", "--circuit", "divider-low", "--range",
@@ -568,6 +599,21 @@ TEST_CASE("table --svg: the error curve's largest value is the reported max_erro
     }
     const Json& worst = markers(plot, "largest table error");
     CHECK_NEAR(xm.value(worst["points"][0][0].get<double>()), d["at_code"].get<double>(), 0.05);
+}
+
+TEST_CASE("table --svg draws the --max-error target at plus and minus its value") {
+    const TempPath pic(".svg");
+    (void)run_with_svg(with({"table"}, with(kThermistor, {"--span", "-20:60", "--circuit", "divider-high", "--rs", "10k",
+                                                          "--max-error", "0.1", "--spacing", "error"})),
+                       pic);
+    const Json s = read_svg(pic.str());
+    const Json& plot = s["plots"][0];
+    const AxisMap ym = axis_map(plot["y_ticks"]);
+    const Json& target = series(plot, "target \xC2\xB1" "0.1 \xC2\xB0" "C (--max-error)");
+    REQUIRE(target["polylines"].size() == 2);
+    const double range = 0.22;  // about ±0.1 °C, padded
+    for (const Json& p : target["polylines"][0]) CHECK_NEAR(ym.value(p[1].get<double>()), 0.1, range * kReadBack);
+    for (const Json& p : target["polylines"][1]) CHECK_NEAR(ym.value(p[1].get<double>()), -0.1, range * kReadBack);
 }
 
 TEST_CASE("table --svg at 16 bits thins the curve but keeps its largest error") {

@@ -18,6 +18,7 @@ constexpr const char* kOrange = "#d35400";
 constexpr const char* kGreen = "#1e8449";
 constexpr const char* kRed = "#c0392b";
 constexpr const char* kPurple = "#6c3483";
+constexpr const char* kGrey = "#8c8c8c";
 
 // A number with a typographic minus sign.
 std::string with_minus(std::string s) { return !s.empty() && s.front() == '-' ? kMinus + s.substr(1) : s; }
@@ -153,9 +154,9 @@ svg::Figure size_figure(const SizePicture& p) {
                "span: " + span_text(p.grid->t_k.front(), p.grid->t_k.back()) + ", " + std::to_string(p.grid->size()) +
                    " points; objective: largest |nonlinearity| against the " + line + " line"};
     const Constraints& k = spec.constraints;
-    if (std::isfinite(k.max_power_w) || std::isfinite(k.max_self_heating_k) || k.min_span > 0.0 || k.min_sensitivity > 0.0) {
-        f.notes.push_back("the curve ignores the constraints; the listed values meet them");
-    }
+    const bool constrained =
+        std::isfinite(k.max_power_w) || std::isfinite(k.max_self_heating_k) || k.min_span > 0.0 || k.min_sensitivity > 0.0;
+    if (constrained && two) f.notes.push_back("the curve ignores the constraints; the listed values meet them");
     f.description = provenance("size") + " The objective at " + std::to_string(xs.size()) + " values of " + first +
                     " from " + format_resistance(p.lo_ohm, 4) + " to " + format_resistance(p.hi_ohm, 4) + " ohm" +
                     (two ? ", each with " + names[1] + " at its best (the continuous search's inner step)" : "") + ".";
@@ -165,7 +166,31 @@ svg::Figure size_figure(const SizePicture& p) {
                      : "Largest |nonlinearity| against " + first;
     plot.x = {first + " (ohm, log scale)", svg::Scale::log10, svg::Ticks::resistance, p.lo_ohm, p.hi_ohm};
     plot.y = {"largest |nonlinearity| (%FSD, log)", svg::Scale::log10, svg::Ticks::number};
-    plot.lines.push_back({two ? "objective, " + names[1] + " at its best" : "objective", xs, ys, kBlue, 2.2, false});
+    if (constrained && !two) {
+        // One resistor: the values that fail a constraint drawn apart, in grey. A run of either kind
+        // takes in its neighbours on both sides, so the two lines meet.
+        std::vector<bool> ok;
+        for (const double x : xs) {
+            const Candidate c = evaluate(spec, *p.grid, *p.model, sized_circuit(spec, *p.model, {x}));
+            ok.push_back(failed_constraint(spec, c).empty());
+        }
+        std::vector<double> meets(ys.size(), NAN);
+        std::vector<double> fails(ys.size(), NAN);
+        for (std::size_t i = 0; i < ys.size(); ++i) {
+            const bool near_ok = ok[i] || (i > 0 && ok[i - 1]) || (i + 1 < ok.size() && ok[i + 1]);
+            const bool near_fail = !ok[i] || (i > 0 && !ok[i - 1]) || (i + 1 < ok.size() && !ok[i + 1]);
+            if (near_ok) meets[i] = ys[i];
+            if (near_fail) fails[i] = ys[i];
+        }
+        if (std::find(ok.begin(), ok.end(), true) != ok.end()) {
+            plot.lines.push_back({"objective, meets the constraints", xs, meets, kBlue, 2.2, false});
+        }
+        if (std::find(ok.begin(), ok.end(), false) != ok.end()) {
+            plot.lines.push_back({"objective, fails a constraint", xs, fails, kGrey, 2.0, true});
+        }
+    } else {
+        plot.lines.push_back({two ? "objective, " + names[1] + " at its best" : "objective", xs, ys, kBlue, 2.2, false});
+    }
 
     std::string opt_text;
     for (const std::string& name : names) {
@@ -216,7 +241,9 @@ svg::Figure table_figure(const Thermistor& model, const Circuit& circuit, const 
                          const std::optional<Polynomial>& polynomial, const std::optional<double>& target_k) {
     std::vector<double> codes;
     for (std::size_t i = 0; i < map.size(); ++i) codes.push_back(static_cast<double>(map.code_lo) + static_cast<double>(i));
-    auto celsius_at = [&](std::int64_t code) { return format_fixed(kelvin_to_celsius(map.temperature(code)), 2) + " " + kDeg; };
+    auto celsius_at = [&](std::int64_t code) {
+        return with_minus(format_fixed(kelvin_to_celsius(map.temperature(code)), 2)) + " " + kDeg;
+    };
 
     svg::Figure f;
     f.title = "rtline table: the error at every ADC code of the span, " + std::to_string(map.code_lo) + " to " +
