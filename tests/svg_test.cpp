@@ -632,3 +632,29 @@ TEST_CASE("table --svg at 16 bits thins the curve but keeps its largest error") 
     CHECK_NEAR(m, max_c, 2.2 * max_c * kReadBack);
     CHECK(read_file(pic.str()).find("points drawn as") != std::string::npos);
 }
+
+// ---------------------------------------------------------------------------------------- docs
+
+TEST_CASE("the pictures in docs/images are what the commands in docs/pictures.md write today") {
+    const std::string root = rtline::test::source_dir();
+    const std::string page = read_file(root + "/docs/pictures.md");
+    const std::string exe_dir = std::filesystem::path(RTLINE_EXE).parent_path().string();
+    int checked = 0;
+    std::size_t start = 0;
+    for (std::size_t end; (end = page.find('\n', start)) != std::string::npos; start = end + 1) {
+        std::string line = page.substr(start, end - start);
+        if (line.rfind("rtline ", 0) != 0) continue;
+        const std::string flag = "--svg docs/images/";
+        const std::size_t at = line.find(flag);
+        REQUIRE(at != std::string::npos);
+        const std::string image = line.substr(at + 6, line.find(' ', at + 6) - (at + 6));
+        const TempPath fresh(".svg");
+        line.replace(at + 6, image.size(), fresh.str());
+        INFO("$ " << line);
+        const auto r = rtline::test::run_shell("cd '" + root + "' && PATH='" + exe_dir + "':\"$PATH\" && " + line);
+        REQUIRE(r.code == 0);
+        CHECK(read_file(fresh.str()) == read_file(root + "/" + image));  // re-run the page's commands when this fails
+        ++checked;
+    }
+    CHECK(checked == 3);  // one picture of each kind
+}
