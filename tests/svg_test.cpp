@@ -33,7 +33,9 @@ Args with(Args a, const Args& more) {
 // Our own thermistor: beta model R25 = 10 kΩ, B = 3950 K.
 const Args kThermistor{"--r25", "10k", "--beta", "3950"};
 
-Json read_svg(const std::string& path) { return python_ref("svg_read.py", {{"path", path}}); }
+Json read_svg(const std::string& path) {
+    return python_ref("svg_read.py", {{"path", path}});
+}
 
 // Runs rtline with --format json and --svg into `picture`; returns the JSON document.
 Json run_with_svg(const Args& args, const TempPath& picture) {
@@ -157,13 +159,13 @@ TEST_CASE("nice_step picks 1, 2 or 5 times a power of ten near range/target") {
     // By hand: raw = (hi − lo)/target; its mantissa r in [1, 10) rounds to 1 below 1.5, 2 below 3.5,
     // 5 below 7.5, else 10.
     const Case cases[] = {
-        {0.0, 45.0, 8, 5.0},         // raw 5.625 -> 5
-        {0.0, 1.0, 4, 0.2},          // raw 0.25 -> mantissa 2.5 -> 2
-        {-0.0402, 0.0402, 5, 0.02},  // raw 0.01608 -> mantissa 1.608 -> 2
-        {1242.0, 3156.0, 10, 200.0}, // raw 191.4 -> mantissa 1.914 -> 2
-        {0.0, 7.0, 1, 5.0},          // raw 7 -> 5
-        {0.0, 8.0, 1, 10.0},         // raw 8 -> 10
-        {0.0, 1.4, 1, 1.0},          // raw 1.4 -> 1
+        {0.0, 45.0, 8, 5.0},          // raw 5.625 -> 5
+        {0.0, 1.0, 4, 0.2},           // raw 0.25 -> mantissa 2.5 -> 2
+        {-0.0402, 0.0402, 5, 0.02},   // raw 0.01608 -> mantissa 1.608 -> 2
+        {1242.0, 3156.0, 10, 200.0},  // raw 191.4 -> mantissa 1.914 -> 2
+        {0.0, 7.0, 1, 5.0},           // raw 7 -> 5
+        {0.0, 8.0, 1, 10.0},          // raw 8 -> 10
+        {0.0, 1.4, 1, 1.0},           // raw 1.4 -> 1
     };
     for (const Case& c : cases) {
         CAPTURE(c.lo);
@@ -198,7 +200,9 @@ TEST_CASE("tick labels: decimals from the step, a real minus sign, SI prefixes, 
         const char* label;
     };
     const Case cases[] = {
-        {-0.02, 0.02, svg::Ticks::number, "\xE2\x88\x92" "0.02"},
+        {-0.02, 0.02, svg::Ticks::number,
+         "\xE2\x88\x92"
+         "0.02"},
         {1e-18, 0.02, svg::Ticks::number, "0.00"},  // rounding noise at zero prints as zero, unsigned
         {45.0, 5.0, svg::Ticks::number, "45"},
         {2.5, 0.5, svg::Ticks::number, "2.5"},
@@ -208,6 +212,7 @@ TEST_CASE("tick labels: decimals from the step, a real minus sign, SI prefixes, 
         {20000.0, 20000.0, svg::Ticks::resistance, "20k"},
         {4700.0, 100.0, svg::Ticks::resistance, "4k7"},
         {5e5, 5e5, svg::Ticks::number, "500k"},
+        {0.0, 1e6, svg::Ticks::number, "0"},  // no prefix on zero
         {1e6, 1e6, svg::Ticks::resistance, "1M"},
     };
     for (const Case& c : cases) {
@@ -219,7 +224,10 @@ TEST_CASE("tick labels: decimals from the step, a real minus sign, SI prefixes, 
 TEST_CASE("escape makes the five XML specials and control characters safe") {
     CHECK(svg::escape("a<b & \"c\" 'd' >") == "a&lt;b &amp; &quot;c&quot; &apos;d&apos; &gt;");
     CHECK(svg::escape(std::string("bell\x07", 5)) == "bell ");
-    CHECK(svg::escape("10 k\xCE\xA9, 25 \xC2\xB0" "C") == "10 k\xCE\xA9, 25 \xC2\xB0" "C");  // UTF-8 passes
+    CHECK(svg::escape("10 k\xCE\xA9, 25 \xC2\xB0"
+                      "C") ==
+          "10 k\xCE\xA9, 25 \xC2\xB0"
+          "C");  // UTF-8 passes
 }
 
 TEST_CASE("a picture with XML specials in every text parses as XML and keeps the text") {
@@ -256,7 +264,7 @@ TEST_CASE("a line of 20001 points is thinned per pixel column and keeps its extr
         x.push_back(i);
         y.push_back(std::sin(i * 0.01));
     }
-    y[12345] = 5.0;   // one spike up and one down, each a single point
+    y[12345] = 5.0;  // one spike up and one down, each a single point
     y[777] = -3.0;
     p.lines.push_back({"wiggle", x, y});
     f.plots.push_back(p);
@@ -286,7 +294,7 @@ TEST_CASE("a line of 20001 points is thinned per pixel column and keeps its extr
 TEST_CASE("check --svg: output and the line, nonlinearity and error, one vertex per point at the tick-implied values") {
     const TempPath pic(".svg");
     const Json d = run_with_svg(with({"check"}, with(kThermistor, {"--span", "0:45", "--step", "0.5", "--circuit",
-                                                                  "divider-low", "--rs", "5k6"})),
+                                                                   "divider-low", "--rs", "5k6"})),
                                 pic);
     const Json s = read_svg(pic.str());
     CHECK(s["root"]["tag"] == "{http://www.w3.org/2000/svg}svg");
@@ -299,7 +307,9 @@ TEST_CASE("check --svg: output and the line, nonlinearity and error, one vertex 
 
     // Top plot: the output polyline.
     const Json& top = s["plots"][0];
-    CHECK(top["x_label"] == "temperature (\xC2\xB0" "C)");
+    CHECK(top["x_label"] ==
+          "temperature (\xC2\xB0"
+          "C)");
     CHECK(top["y_label"] == "output (V/V)");
     const auto out = vertices(series(top, "output"));
     REQUIRE(out.size() == n);
@@ -329,7 +339,9 @@ TEST_CASE("check --svg: output and the line, nonlinearity and error, one vertex 
     // Bottom plot: nonlinearity on the left axis, the same points' error in °C on the right.
     const Json& bottom = s["plots"][1];
     CHECK(bottom["y_label"] == "nonlinearity (%FSD)");
-    CHECK(bottom["right_label"].get<std::string>().rfind("error (\xC2\xB0" "C", 0) == 0);
+    CHECK(bottom["right_label"].get<std::string>().rfind("error (\xC2\xB0"
+                                                         "C",
+                                                         0) == 0);
     const auto nl = vertices(series(bottom, "nonlinearity against the endpoint line"));
     REQUIRE(nl.size() == n);
     const AxisMap left = axis_map(bottom["y_ticks"]);
@@ -338,7 +350,8 @@ TEST_CASE("check --svg: output and the line, nonlinearity and error, one vertex 
     for (std::size_t i = 0; i < n; i += 9) {
         const Json& p = d["points"][i];
         CHECK_NEAR(left.value(nl[i][1]), p["nonlinearity_pct_fsd"].get<double>(), nl_max * kReadBack);
-        CHECK_NEAR(right.value(nl[i][1]), p["error_c"].get<double>(), d["summary"]["max_error_c"].get<double>() * kReadBack);
+        CHECK_NEAR(right.value(nl[i][1]), p["error_c"].get<double>(),
+                   d["summary"]["max_error_c"].get<double>() * kReadBack);
     }
     const Json& worst = markers(bottom, "largest |nonlinearity|");
     REQUIRE(worst["points"].size() == 1);
@@ -361,8 +374,8 @@ TEST_CASE("check --svg names the best-fit and minimax lines in the legend and th
 }
 
 TEST_CASE("check --svg leaves the normal output as it is, on stdout or in -o") {
-    const Args run = with({"check"}, with(kThermistor, {"--span", "0:45", "--step", "5", "--circuit", "divider-low",
-                                                        "--rs", "5k6"}));
+    const Args run = with(
+        {"check"}, with(kThermistor, {"--span", "0:45", "--step", "5", "--circuit", "divider-low", "--rs", "5k6"}));
     const auto plain = run_rtline(run);
     REQUIRE(plain.code == 0);
     const TempPath pic(".svg");
@@ -411,7 +424,8 @@ TEST_CASE("--svg refuses stdout, the -o file, and size --compare") {
     CHECK(clash.err == "rtline: --svg '" + same.str() + "': is also the -o file; give the picture its own name\n");
     CHECK_FALSE(std::filesystem::exists(same.str()));
     const TempPath pic(".svg");
-    const auto compare = run_rtline(with({"size"}, with(kThermistor, {"--span", "0:45", "--compare", "--svg", pic.str()})));
+    const auto compare =
+        run_rtline(with({"size"}, with(kThermistor, {"--span", "0:45", "--compare", "--svg", pic.str()})));
     CHECK(compare.code == 2);
     CHECK(compare.err ==
           "rtline: --svg '" + pic.str() + "': draws one topology's objective; leave out --compare, or --svg\n");
@@ -421,25 +435,31 @@ TEST_CASE("--svg refuses stdout, the -o file, and size --compare") {
 TEST_CASE("--svg comes from a spec file like any flag, and is refused per line of a --jsonl batch") {
     const TempPath pic(".svg");
     const TempPath spec(".json");
-    write_file(spec.str(), Json{{"r25", "10k"}, {"beta", 3950}, {"span", "0:45"}, {"circuit", "divider-low"},
-                                {"rs", "5k6"}, {"svg", pic.str()}}
+    write_file(spec.str(), Json{{"r25", "10k"},
+                                {"beta", 3950},
+                                {"span", "0:45"},
+                                {"circuit", "divider-low"},
+                                {"rs", "5k6"},
+                                {"svg", pic.str()}}
                                .dump());
     const auto r = run_rtline({"check", "--spec", spec.str()});
     CHECK(r.code == 0);
     CHECK(read_svg(pic.str())["plots"].size() == 2);
     const TempPath pic2(".svg");
-    const std::string line = Json{{"r25", "10k"}, {"beta", 3950}, {"span", "0:45"}, {"circuit", "divider-low"},
-                                  {"rs", "5k6"}, {"svg", pic2.str()}}
+    const std::string line = Json{{"r25", "10k"}, {"beta", 3950},     {"span", "0:45"}, {"circuit", "divider-low"},
+                                  {"rs", "5k6"},  {"svg", pic2.str()}}
                                  .dump();
     const auto batch = run_rtline({"check", "--jsonl"}, line + "\n");
     CHECK(batch.code == 2);
-    CHECK(batch.out == "{\"line\":1,\"error\":\"--svg '': not with --jsonl: every line would draw over the same file\"}\n");
+    CHECK(batch.out ==
+          "{\"line\":1,\"error\":\"--svg '': not with --jsonl: every line would draw over the same file\"}\n");
     CHECK_FALSE(std::filesystem::exists(pic2.str()));
 }
 
 // --------------------------------------------------------------------------------------- size
 
-TEST_CASE("size --svg marks the continuous optimum at its rs, at the bottom of the curve, and the listed values on it") {
+TEST_CASE(
+    "size --svg marks the continuous optimum at its rs, at the bottom of the curve, and the listed values on it") {
     const TempPath pic(".svg");
     const Json d = run_with_svg(with({"size"}, with(kThermistor, {"--span", "0:45", "--circuit", "divider-low"})), pic);
     const Json s = read_svg(pic.str());
@@ -459,7 +479,8 @@ TEST_CASE("size --svg marks the continuous optimum at its rs, at the bottom of t
     // The curve: 200 log-spaced values plus the optimum itself, whose vertex is the lowest.
     const auto curve = vertices(series(plot, "objective"));
     CHECK(curve.size() == 201);
-    const auto lowest = std::max_element(curve.begin(), curve.end(), [](const auto& a, const auto& b) { return a[1] < b[1]; });
+    const auto lowest =
+        std::max_element(curve.begin(), curve.end(), [](const auto& a, const auto& b) { return a[1] < b[1]; });
     CHECK_NEAR((*lowest)[0], opt["points"][0][0].get<double>(), 0.011);
     // The listed E24 values are points of the same objective: each sits on the curve (within the
     // chord between the neighbouring vertices, the curve being convex on either side of its minimum).
@@ -471,7 +492,8 @@ TEST_CASE("size --svg marks the continuous optimum at its rs, at the bottom of t
         const double y = listed["points"][i][1].get<double>();
         CHECK(xm.value(x) == doctest::Approx(c["resistors_ohm"]["rs"].get<double>()).epsilon(1e-3));
         CHECK(ym.value(y) == doctest::Approx(c["max_nonlinearity_pct_fsd"].get<double>()).epsilon(1e-3));
-        const auto next = std::lower_bound(curve.begin(), curve.end(), x, [](const auto& v, double px) { return v[0] < px; });
+        const auto next =
+            std::lower_bound(curve.begin(), curve.end(), x, [](const auto& v, double px) { return v[0] < px; });
         REQUIRE(next != curve.begin());
         REQUIRE(next != curve.end());
         const auto& a = *(next - 1);
@@ -484,7 +506,8 @@ TEST_CASE("size --svg marks the continuous optimum at its rs, at the bottom of t
 
 TEST_CASE("size --svg for a two-resistor topology plots against the first with the second at its best, and says so") {
     const TempPath pic(".svg");
-    const Json d = run_with_svg(with({"size"}, with(kThermistor, {"--span", "-20:60", "--circuit", "shunt-divider"})), pic);
+    const Json d =
+        run_with_svg(with({"size"}, with(kThermistor, {"--span", "-20:60", "--circuit", "shunt-divider"})), pic);
     const Json s = read_svg(pic.str());
     const Json& plot = s["plots"][0];
     CHECK(plot["title"] == "Largest |nonlinearity| against rp, rs at its best for each rp");
@@ -506,7 +529,8 @@ TEST_CASE("size --svg for a two-resistor topology plots against the first with t
     REQUIRE(listed["points"].size() == d["candidates"].size());
     for (const Json& m : listed["points"]) {
         const double x = m[0].get<double>();
-        const auto next = std::lower_bound(curve.begin(), curve.end(), x, [](const auto& v, double px) { return v[0] < px; });
+        const auto next =
+            std::lower_bound(curve.begin(), curve.end(), x, [](const auto& v, double px) { return v[0] < px; });
         REQUIRE(next != curve.begin());
         REQUIRE(next != curve.end());
         CHECK(m[1].get<double>() <= std::max((next - 1)->at(1), next->at(1)) + 0.5);
@@ -525,11 +549,12 @@ bool covers(const Json& s, double x) {
 
 }  // namespace
 
-TEST_CASE("size --svg with a constraint draws the values that fail it apart, the listed values on the part that meets it") {
+TEST_CASE(
+    "size --svg with a constraint draws the values that fail it apart, the listed values on the part that meets it") {
     // The greenhouse example: self-heating under 0.2 K at 3.3 V with 1.5 mW/K rules out the continuous optimum.
     const TempPath pic(".svg");
-    const Json d = run_with_svg(with({"size", "--spec", rtline::test::source_dir() + "/examples/greenhouse-vent.json"}, {}),
-                                pic);
+    const Json d =
+        run_with_svg(with({"size", "--spec", rtline::test::source_dir() + "/examples/greenhouse-vent.json"}, {}), pic);
     REQUIRE(d["continuous"]["meets_constraints"] == false);
     const Json s = read_svg(pic.str());
     const Json& plot = s["plots"][0];
@@ -546,9 +571,8 @@ TEST_CASE("size --svg with a constraint draws the values that fail it apart, the
 
 TEST_CASE("size --svg plots over the whole --range when one is given") {
     const TempPath pic(".svg");
-    (void)run_with_svg(with({"size"}, with(kThermistor, {"--span", "0:45", "--circuit", "divider-low", "--range",
-                                                         "1k:100k"})),
-                       pic);
+    (void)run_with_svg(
+        with({"size"}, with(kThermistor, {"--span", "0:45", "--circuit", "divider-low", "--range", "1k:100k"})), pic);
     const Json s = read_svg(pic.str());
     const Json& plot = s["plots"][0];
     const AxisMap xm = axis_map(plot["x_ticks"], true, true);
@@ -561,7 +585,8 @@ TEST_CASE("size --svg plots over the whole --range when one is given") {
 
 // -------------------------------------------------------------------------------------- table
 
-TEST_CASE("table --svg: the error curve's largest value is the reported max_error_c, breakpoints at the table's codes") {
+TEST_CASE(
+    "table --svg: the error curve's largest value is the reported max_error_c, breakpoints at the table's codes") {
     const TempPath pic(".svg");
     const Json d = run_with_svg(with({"table"}, with(kThermistor, {"--span", "0:45", "--circuit", "divider-low", "--rs",
                                                                    "10k", "--adc-bits", "10", "--degree", "4"})),
@@ -569,8 +594,12 @@ TEST_CASE("table --svg: the error curve's largest value is the reported max_erro
     const Json s = read_svg(pic.str());
     const Json& plot = s["plots"][0];
     CHECK(plot["x_label"] == "ADC code (10 bits)");
-    CHECK(plot["y_label"] == "error (\xC2\xB0" "C)");
-    CHECK(plot["top_label"] == "temperature (\xC2\xB0" "C)");
+    CHECK(plot["y_label"] ==
+          "error (\xC2\xB0"
+          "C)");
+    CHECK(plot["top_label"] ==
+          "temperature (\xC2\xB0"
+          "C)");
     const AxisMap xm = axis_map(plot["x_ticks"]);
     const AxisMap ym = axis_map(plot["y_ticks"]);
     const long lo = d["reading"]["code_lo"].get<long>();
@@ -603,13 +632,16 @@ TEST_CASE("table --svg: the error curve's largest value is the reported max_erro
 
 TEST_CASE("table --svg draws the --max-error target at plus and minus its value") {
     const TempPath pic(".svg");
-    (void)run_with_svg(with({"table"}, with(kThermistor, {"--span", "-20:60", "--circuit", "divider-high", "--rs", "10k",
-                                                          "--max-error", "0.1", "--spacing", "error"})),
+    (void)run_with_svg(with({"table"}, with(kThermistor, {"--span", "-20:60", "--circuit", "divider-high", "--rs",
+                                                          "10k", "--max-error", "0.1", "--spacing", "error"})),
                        pic);
     const Json s = read_svg(pic.str());
     const Json& plot = s["plots"][0];
     const AxisMap ym = axis_map(plot["y_ticks"]);
-    const Json& target = series(plot, "target \xC2\xB1" "0.1 \xC2\xB0" "C (--max-error)");
+    const Json& target = series(plot,
+                                "target \xC2\xB1"
+                                "0.1 \xC2\xB0"
+                                "C (--max-error)");
     REQUIRE(target["polylines"].size() == 2);
     const double range = 0.22;  // about ±0.1 °C, padded
     for (const Json& p : target["polylines"][0]) CHECK_NEAR(ym.value(p[1].get<double>()), 0.1, range * kReadBack);
@@ -618,9 +650,10 @@ TEST_CASE("table --svg draws the --max-error target at plus and minus its value"
 
 TEST_CASE("table --svg at 16 bits thins the curve but keeps its largest error") {
     const TempPath pic(".svg");
-    const Json d = run_with_svg(with({"table"}, with(kThermistor, {"--span", "-20:60", "--circuit", "divider-high", "--rs",
-                                                                   "10k", "--adc-bits", "16", "--entries", "9"})),
-                                pic);
+    const Json d =
+        run_with_svg(with({"table"}, with(kThermistor, {"--span", "-20:60", "--circuit", "divider-high", "--rs", "10k",
+                                                        "--adc-bits", "16", "--entries", "9"})),
+                     pic);
     const Json s = read_svg(pic.str());
     const Json& plot = s["plots"][0];
     const AxisMap ym = axis_map(plot["y_ticks"]);

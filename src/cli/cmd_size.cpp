@@ -283,7 +283,10 @@ std::string run_compare(const SizeCommand& o, Setup& s, Format format) {
         one.top = 1;
         const StandardSearch found = search_standard(one, s.grid, s.model);
         total.examined += found.examined;
-        for (const auto& [flag, n] : found.removed) {
+        for (const auto& removed : found.removed) {
+            // Named references, not a structured binding: clang 14 cannot capture those in a lambda.
+            const std::string& flag = removed.first;
+            const std::size_t n = removed.second;
             auto it = std::find_if(total.removed.begin(), total.removed.end(), [&](const auto& r) { return r.first == flag; });
             if (it == total.removed.end()) {
                 total.removed.emplace_back(flag, n);

@@ -11,7 +11,9 @@ namespace rtline::cli {
 
 namespace {
 
-const std::string kDeg = "\xC2\xB0" "C";
+const std::string kDeg =
+    "\xC2\xB0"
+    "C";
 const std::string kMinus = "\xE2\x88\x92";
 constexpr const char* kBlue = "#1f4e9a";
 constexpr const char* kOrange = "#d35400";
@@ -21,13 +23,14 @@ constexpr const char* kPurple = "#6c3483";
 constexpr const char* kGrey = "#8c8c8c";
 
 // A number with a typographic minus sign.
-std::string with_minus(std::string s) { return !s.empty() && s.front() == '-' ? kMinus + s.substr(1) : s; }
-
-std::string span_text(double lo_k, double hi_k) {
-    return with_minus(format_number(kelvin_to_celsius(lo_k))) + " to " + with_minus(format_number(kelvin_to_celsius(hi_k))) +
-           " " + kDeg;
+std::string with_minus(std::string s) {
+    return !s.empty() && s.front() == '-' ? kMinus + s.substr(1) : s;
 }
 
+std::string span_text(double lo_k, double hi_k) {
+    return with_minus(format_number(kelvin_to_celsius(lo_k))) + " to " +
+           with_minus(format_number(kelvin_to_celsius(hi_k))) + " " + kDeg;
+}
 
 std::string provenance(const std::string& command) {
     return "Written by rtline " RTLINE_VERSION " (rtline " + command + " --svg).";
@@ -36,7 +39,8 @@ std::string provenance(const std::string& command) {
 }  // namespace
 
 void add_svg_option(CLI::App& app, std::string& path) {
-    app.add_option("--svg", path, "Also draw the result as an SVG picture into FILE (written only when the run succeeds)")
+    app.add_option("--svg", path,
+                   "Also draw the result as an SVG picture into FILE (written only when the run succeeds)")
         ->group("Output");
 }
 
@@ -74,15 +78,16 @@ svg::Figure check_figure(const Thermistor& model, const Circuit& circuit, const 
     f.title = "rtline check: " + std::string(topology_name(circuit.topology)) + " from " + span_text(lo_k, hi_k) +
               ", against the " + line + " line";
     f.notes = {describe_model(model), "circuit: " + describe_circuit(circuit)};
-    f.description = provenance("check") + " " + std::to_string(a.points.size()) +
-                    " points: the output and the " + line + " line against temperature, then the nonlinearity.";
+    f.description = provenance("check") + " " + std::to_string(a.points.size()) + " points: the output and the " +
+                    line + " line against temperature, then the nonlinearity.";
 
     svg::Plot top;
     top.title = "Output and the " + line + " line";
     top.x.label = "temperature (" + kDeg + ")";
     top.y.label = "output (" + unit + ")";
     svg::Series output_series{"output (" + unit + ")", t, out, kBlue, 2.2, false};
-    svg::Series line_series{line + " line", {t.front(), t.back()}, {a.line.at(lo_k), a.line.at(hi_k)}, kOrange, 1.8, true};
+    svg::Series line_series{
+        line + " line", {t.front(), t.back()}, {a.line.at(lo_k), a.line.at(hi_k)}, kOrange, 1.8, true};
     top.lines = {output_series, line_series};
     f.plots.push_back(top);
 
@@ -93,7 +98,8 @@ svg::Figure check_figure(const Thermistor& model, const Circuit& circuit, const 
     bottom.zero_line = true;
     // error = deviation / slope and nonlinearity = deviation / span × 100, so error = nonlinearity × factor.
     const double factor = a.summary.output_span / (100.0 * a.line.slope);
-    if (std::isfinite(factor) && factor != 0.0) bottom.right = {"error (" + kDeg + ", read " + kMinus + " true)", factor};
+    if (std::isfinite(factor) && factor != 0.0)
+        bottom.right = {"error (" + kDeg + ", read " + kMinus + " true)", factor};
     bottom.lines.push_back({"nonlinearity against the " + line + " line", t, nl, kGreen, 2.2, false});
     std::size_t worst = 0;
     for (std::size_t i = 1; i < nl.size(); ++i) {
@@ -101,7 +107,8 @@ svg::Figure check_figure(const Thermistor& model, const Circuit& circuit, const 
     }
     svg::Markers m;
     m.label = "largest |nonlinearity| " + format_fixed(a.summary.max_nonlinearity_pct_fsd, 3) + " %FSD (error " +
-              with_minus(format_fixed(a.points[worst].error_k, 3)) + " " + kDeg + ") at " + with_minus(format_number(t[worst], 5)) + " " + kDeg;
+              with_minus(format_fixed(a.points[worst].error_k, 3)) + " " + kDeg + ") at " +
+              with_minus(format_number(t[worst], 5)) + " " + kDeg;
     m.x = {t[worst]};
     m.y = {nl[worst]};
     m.colour = kRed;
@@ -141,11 +148,14 @@ svg::Figure size_figure(const SizePicture& p) {
     };
     std::vector<double> xs;
     const int n = std::max(2, p.points);
-    for (int i = 0; i < n; ++i) xs.push_back(p.lo_ohm * std::pow(p.hi_ohm / p.lo_ohm, static_cast<double>(i) / (n - 1)));
+    xs.reserve(static_cast<std::size_t>(n) + 1);
+    for (int i = 0; i < n; ++i)
+        xs.push_back(p.lo_ohm * std::pow(p.hi_ohm / p.lo_ohm, static_cast<double>(i) / (n - 1)));
     // The optimum itself is a point of the curve, so the curve reaches the marker at its minimum.
     const double opt = resistor_value(p.continuous.circuit, first);
     if (opt > p.lo_ohm && opt < p.hi_ohm) xs.insert(std::upper_bound(xs.begin(), xs.end(), opt), opt);
     std::vector<double> ys;
+    ys.reserve(xs.size());
     for (const double x : xs) ys.push_back(value_at(x));
 
     svg::Figure f;
@@ -154,8 +164,8 @@ svg::Figure size_figure(const SizePicture& p) {
                "span: " + span_text(p.grid->t_k.front(), p.grid->t_k.back()) + ", " + std::to_string(p.grid->size()) +
                    " points; objective: largest |nonlinearity| against the " + line + " line"};
     const Constraints& k = spec.constraints;
-    const bool constrained =
-        std::isfinite(k.max_power_w) || std::isfinite(k.max_self_heating_k) || k.min_span > 0.0 || k.min_sensitivity > 0.0;
+    const bool constrained = std::isfinite(k.max_power_w) || std::isfinite(k.max_self_heating_k) || k.min_span > 0.0 ||
+                             k.min_sensitivity > 0.0;
     if (constrained && two) f.notes.push_back("the curve ignores the constraints; the listed values meet them");
     f.description = provenance("size") + " The objective at " + std::to_string(xs.size()) + " values of " + first +
                     " from " + format_resistance(p.lo_ohm, 4) + " to " + format_resistance(p.hi_ohm, 4) + " ohm" +
@@ -189,12 +199,14 @@ svg::Figure size_figure(const SizePicture& p) {
             plot.lines.push_back({"objective, fails a constraint", xs, fails, kGrey, 2.0, true});
         }
     } else {
-        plot.lines.push_back({two ? "objective, " + names[1] + " at its best" : "objective", xs, ys, kBlue, 2.2, false});
+        plot.lines.push_back(
+            {two ? "objective, " + names[1] + " at its best" : "objective", xs, ys, kBlue, 2.2, false});
     }
 
     std::string opt_text;
     for (const std::string& name : names) {
-        opt_text += (opt_text.empty() ? "" : ", ") + name + " = " + format_resistance(resistor_value(p.continuous.circuit, name), 5);
+        opt_text += (opt_text.empty() ? "" : ", ") + name + " = " +
+                    format_resistance(resistor_value(p.continuous.circuit, name), 5);
     }
     svg::Markers cont;
     cont.label = "continuous optimum " + opt_text + ": " + format_fixed(p.continuous.max_nonlinearity_pct_fsd, 4) +
@@ -240,21 +252,21 @@ double code_at(const CodeMap& map, double t_k) {
 svg::Figure table_figure(const Thermistor& model, const Circuit& circuit, const CodeMap& map, const LookupTable& table,
                          const std::optional<Polynomial>& polynomial, const std::optional<double>& target_k) {
     std::vector<double> codes;
-    for (std::size_t i = 0; i < map.size(); ++i) codes.push_back(static_cast<double>(map.code_lo) + static_cast<double>(i));
+    for (std::size_t i = 0; i < map.size(); ++i)
+        codes.push_back(static_cast<double>(map.code_lo) + static_cast<double>(i));
     auto celsius_at = [&](std::int64_t code) {
         return with_minus(format_fixed(kelvin_to_celsius(map.temperature(code)), 2)) + " " + kDeg;
     };
 
     svg::Figure f;
-    f.title = "rtline table: the error at every ADC code of the span, " + std::to_string(map.code_lo) + " to " +
-              std::to_string(map.code_hi);
+    f.title = "rtline table: the error at every ADC code of the span";
     f.notes = {describe_model(model), "circuit: " + describe_circuit(circuit),
                "code k stands for the ratio k/" + std::to_string(1LL << map.adc_bits) +
                    " of the ADC reference; error = value read " + kMinus + " exact inverse"};
     f.description = provenance("table") + " The error at each of " + std::to_string(map.size()) + " codes.";
 
     svg::Plot plot;
-    plot.title = "Error against ADC code";
+    plot.title = "Error against ADC code, codes " + std::to_string(map.code_lo) + " to " + std::to_string(map.code_hi);
     plot.x = {"ADC code (" + std::to_string(map.adc_bits) + " bits)", svg::Scale::linear, svg::Ticks::whole,
               codes.front(), codes.back()};
     plot.y = {"error (" + kDeg + ")", svg::Scale::linear, svg::Ticks::number};
@@ -275,7 +287,10 @@ svg::Figure table_figure(const Thermistor& model, const Circuit& circuit, const 
         const double t = *target_k;
         plot.lines.push_back({"target \xC2\xB1" + format_number(t, 4) + " " + kDeg + " (--max-error)",
                               {codes.front(), codes.back(), codes.back(), codes.front(), codes.back()},
-                              {t, t, NAN, -t, -t}, kRed, 1.2, true});
+                              {t, t, NAN, -t, -t},
+                              kRed,
+                              1.2,
+                              true});
     }
     svg::Markers breaks;
     breaks.label = "breakpoints";

@@ -34,9 +34,9 @@ struct SizePicture {
     const Grid* grid = nullptr;
     const Thermistor* model = nullptr;
     Candidate continuous;
-    std::string continuous_fails;      // the constraint it fails first (failed_constraint), or empty
-    std::vector<Candidate> listed;     // what the report lists
-    std::string listed_label;          // e.g. "best 5 E24 values (listed)"
+    std::string continuous_fails;   // the constraint it fails first (failed_constraint), or empty
+    std::vector<Candidate> listed;  // what the report lists
+    std::string listed_label;       // e.g. "best 5 E24 values (listed)"
     double lo_ohm = 0.0;
     double hi_ohm = 0.0;
     int points = 200;

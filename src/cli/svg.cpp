@@ -42,21 +42,15 @@ constexpr const char* kMinus = "\xE2\x88\x92";  // U+2212, the typographic minus
 // punctuation about 0.40, anything else (°, −, µ) 0.70. Bold text is about 8 % wider.
 double text_width(std::string_view s, double font_px, bool bold = false) {
     double em = 0.0;
+    auto advance = [](unsigned char c) {
+        if (c == ' ') return 0.32;
+        if (c >= '0' && c <= '9') return 0.64;
+        if (c >= 'a' && c <= 'z') return 0.56;
+        const bool capital = c >= 'A' && c <= 'Z';
+        return c < 0x80 && !capital ? 0.40 : 0.70;
+    };
     for (const unsigned char c : s) {
-        if ((c & 0xC0) == 0x80) continue;  // a continuation byte: counted with its lead byte
-        if (c == ' ') {
-            em += 0.32;
-        } else if (c >= '0' && c <= '9') {
-            em += 0.64;
-        } else if (c >= 'A' && c <= 'Z') {
-            em += 0.70;
-        } else if (c >= 'a' && c <= 'z') {
-            em += 0.56;
-        } else if (c < 0x80) {
-            em += 0.40;
-        } else {
-            em += 0.70;
-        }
+        if ((c & 0xC0) != 0x80) em += advance(c);  // a continuation byte counts with its lead byte
     }
     return em * font_px * (bold ? 1.08 : 1.0);
 }
@@ -78,7 +72,9 @@ std::vector<std::string> wrap(const std::string& text, double font_px, double wi
         std::size_t end = text.find(' ', start);
         if (end == std::string::npos) end = text.size();
         const std::string word = text.substr(start, end - start);
-        const std::string candidate = line.empty() ? word : line + " " + word;
+        std::string candidate = line;
+        if (!candidate.empty()) candidate += ' ';
+        candidate += word;
         if (!line.empty() && text_width(candidate, font_px, bold) > width_px) {
             lines.push_back(line);
             line = word;
@@ -117,7 +113,8 @@ std::vector<double> nice_ticks(double lo, double hi, int target) {
 std::vector<double> log_ticks(double lo, double hi, const std::vector<int>& mantissas) {
     std::vector<double> ticks;
     const double slack = 1e-9;
-    for (int e = static_cast<int>(std::floor(std::log10(lo))) - 1; e <= static_cast<int>(std::ceil(std::log10(hi))); ++e) {
+    for (int e = static_cast<int>(std::floor(std::log10(lo))) - 1; e <= static_cast<int>(std::ceil(std::log10(hi)));
+         ++e) {
         for (const int m : mantissas) {
             // 10^e exactly for e < 0 (a division; pow(10, -3) is not 1e-3 to the last bit).
             const double v = e >= 0 ? m * std::pow(10.0, e) : m / std::pow(10.0, -e);
@@ -134,8 +131,8 @@ std::string tick_label(double v, double step, Ticks kind) {
     if (kind == Ticks::whole) {
         s = format_fixed(v, 0);
     } else if (kind == Ticks::resistance) {
-        const int digits = std::max(1, static_cast<int>(std::floor(std::log10(std::abs(v)) + 1e-9) -
-                                                        std::floor(std::log10(step) + 1e-9)) + 1);
+        const int digits = std::max(
+            1, static_cast<int>(std::floor(std::log10(std::abs(v)) + 1e-9) - std::floor(std::log10(step) + 1e-9)) + 1);
         s = format_resistance(v, std::min(digits, 6));
     } else if (step >= 1e5 || step < 1e-4) {
         static constexpr const char* prefixes[] = {"p", "n", "\xC2\xB5", "m", "", "k", "M", "G", "T"};
@@ -144,7 +141,7 @@ std::string tick_label(double v, double step, Ticks kind) {
         const int e3 = std::clamp(static_cast<int>(std::floor(std::log10(size) / 3.0 + 1e-12)), -4, 4);
         const double scale = std::pow(10.0, 3 * e3);
         const int decimals = std::max(0, -static_cast<int>(std::floor(std::log10(step / scale) + 1e-9)));
-        s = format_fixed(v / scale, decimals) + prefixes[e3 + 4];
+        s = v == 0.0 ? "0" : format_fixed(v / scale, decimals) + prefixes[e3 + 4];
     } else {
         s = format_fixed(v, std::max(0, -static_cast<int>(std::floor(std::log10(step) + 1e-9))));
     }
@@ -229,7 +226,8 @@ AxisPlan plan_axis(const Plot& p, const Axis& a, bool x_dir, double length_px) {
     }
     if (std::isfinite(a.lo)) lo = a.lo;
     if (std::isfinite(a.hi)) hi = a.hi;
-    if (!(lo < hi) || (log && !(lo > 0.0))) throw std::logic_error("an axis range is empty or not positive on a log axis");
+    if (!(lo < hi) || (log && !(lo > 0.0)))
+        throw std::logic_error("an axis range is empty or not positive on a log axis");
     plan.lo = lo;
     plan.hi = hi;
     plan.p_lo = 0.0;
@@ -239,14 +237,16 @@ AxisPlan plan_axis(const Plot& p, const Axis& a, bool x_dir, double length_px) {
     auto fits = [&](const std::vector<double>& ticks, const std::vector<std::string>& labels) {
         for (std::size_t i = 1; i < ticks.size(); ++i) {
             const double gap = std::abs(plan.at(ticks[i]) - plan.at(ticks[i - 1]));
-            const double need = x_dir ? 0.5 * (text_width(labels[i], kTickFont) + text_width(labels[i - 1], kTickFont)) + 14.0
-                                      : kTickFont + 8.0;
+            const double need =
+                x_dir ? 0.5 * (text_width(labels[i], kTickFont) + text_width(labels[i - 1], kTickFont)) + 14.0
+                      : kTickFont + 8.0;
             if (gap < need) return false;
         }
         return true;
     };
     auto label_all = [&](const std::vector<double>& ticks, double step) {
         std::vector<std::string> labels;
+        labels.reserve(ticks.size());
         for (const double t : ticks) labels.push_back(tick_label(t, log ? t : step, a.ticks));
         return labels;
     };
@@ -278,10 +278,12 @@ AxisPlan plan_axis(const Plot& p, const Axis& a, bool x_dir, double length_px) {
         plan.ticks = ticks;
         plan.labels = labels;
         if (std::log10(hi / lo) <= 4.0) {
-            for (int e = static_cast<int>(std::floor(std::log10(lo))); e <= static_cast<int>(std::ceil(std::log10(hi))); ++e) {
+            for (int e = static_cast<int>(std::floor(std::log10(lo))); e <= static_cast<int>(std::ceil(std::log10(hi)));
+                 ++e) {
                 for (int m = 1; m <= 9; ++m) {
                     const double v = m * std::pow(10.0, e);
-                    if (v > lo && v < hi && std::find(ticks.begin(), ticks.end(), v) == ticks.end()) plan.minor.push_back(v);
+                    if (v > lo && v < hi && std::find(ticks.begin(), ticks.end(), v) == ticks.end())
+                        plan.minor.push_back(v);
                 }
             }
         }
@@ -292,7 +294,8 @@ AxisPlan plan_axis(const Plot& p, const Axis& a, bool x_dir, double length_px) {
         const double step = nice_step(lo, hi, target);
         std::vector<double> ticks = nice_ticks(lo, hi, target);
         if (a.ticks == Ticks::whole && step < 1.0) {
-            ticks.erase(std::remove_if(ticks.begin(), ticks.end(), [](double t) { return t != std::floor(t); }), ticks.end());
+            ticks.erase(std::remove_if(ticks.begin(), ticks.end(), [](double t) { return t != std::floor(t); }),
+                        ticks.end());
         }
         std::vector<std::string> labels = label_all(ticks, step);
         plan.ticks = ticks;
@@ -369,7 +372,8 @@ std::string marker_shape(const Markers& m) {
                    "\"" + paint + "/>";
         case Shape::diamond: {
             const double d = 1.3 * s;
-            return "<polygon points=\"0," + px(-d) + " " + px(d) + ",0 0," + px(d) + " " + px(-d) + ",0\"" + paint + "/>";
+            return "<polygon points=\"0," + px(-d) + " " + px(d) + ",0 0," + px(d) + " " + px(-d) + ",0\"" + paint +
+                   "/>";
         }
     }
     return "";
@@ -424,14 +428,16 @@ std::string render(const Figure& f) {
     std::string notes_desc;
     double y = 0.0;
     // Title and notes, wrapped to the width.
-    for (const std::string& line : wrap(f.title, kTitleFont, width - left - 10.0, true)) {
+    // The title and notes start at the page margin, the plots' own titles at their left edge.
+    const double margin = 16.0;
+    for (const std::string& line : wrap(f.title, kTitleFont, width - 2 * margin, true)) {
         y += kTitleFont + 10.0;
-        body += text_element(left, y, line, kTitleFont, " font-weight=\"bold\" class=\"title\"");
+        body += text_element(margin, y, line, kTitleFont, " font-weight=\"bold\" class=\"title\"");
     }
     for (const std::string& note : f.notes) {
-        for (const std::string& line : wrap(note, kNoteFont, width - left - 10.0)) {
+        for (const std::string& line : wrap(note, kNoteFont, width - 2 * margin)) {
             y += kNoteFont + 5.0;
-            body += text_element(left, y, line, kNoteFont, " fill=\"#444444\" class=\"note\"");
+            body += text_element(margin, y, line, kNoteFont, " fill=\"#444444\" class=\"note\"");
         }
     }
     y += 14.0;
@@ -455,14 +461,15 @@ std::string render(const Figure& f) {
                 const double sx = left + e.x;
                 const double sy = ey - 4.5;
                 if (e.line != nullptr) {
-                    g += "<line x1=\"" + px(sx) + "\" y1=\"" + px(sy) + "\" x2=\"" + px(sx + kLegendSample) + "\" y2=\"" +
-                         px(sy) + "\" stroke=\"" + e.line->colour + "\" stroke-width=\"" + px(e.line->width_px) + "\"" +
-                         (e.line->dashed ? " stroke-dasharray=\"7 4\"" : "") + "/>\n";
+                    g += "<line x1=\"" + px(sx) + "\" y1=\"" + px(sy) + "\" x2=\"" + px(sx + kLegendSample) +
+                         "\" y2=\"" + px(sy) + "\" stroke=\"" + e.line->colour + "\" stroke-width=\"" +
+                         px(e.line->width_px) + "\"" + (e.line->dashed ? " stroke-dasharray=\"7 4\"" : "") + "/>\n";
                 } else {
                     g += "<g transform=\"translate(" + px(sx + 0.5 * kLegendSample) + "," + px(sy) + ")\">" +
                          marker_shape(*e.markers) + "</g>\n";
                 }
-                g += text_element(sx + kLegendSample + 6.0, ey, e.label, kLegendFont, " fill=\"" + std::string(kInk) + "\"");
+                g += text_element(sx + kLegendSample + 6.0, ey, e.label, kLegendFont,
+                                  " fill=\"" + std::string(kInk) + "\"");
             }
             g += "</g>\n";
             y += 8.0 + kLegendRow * rows;
@@ -494,8 +501,8 @@ std::string render(const Figure& f) {
         for (const double v : ya.ticks) g += hline(v, nullptr);
         g += "</g>\n";
         if (p.zero_line && ya.scale == Scale::linear && ya.lo < 0.0 && ya.hi > 0.0) {
-            g += "<line class=\"zero\" x1=\"" + px(left) + "\" y1=\"" + px(ya.at(0.0)) + "\" x2=\"" + px(left + area_w) +
-                 "\" y2=\"" + px(ya.at(0.0)) + "\" stroke=\"#999999\" stroke-width=\"1.2\"/>\n";
+            g += "<line class=\"zero\" x1=\"" + px(left) + "\" y1=\"" + px(ya.at(0.0)) + "\" x2=\"" +
+                 px(left + area_w) + "\" y2=\"" + px(ya.at(0.0)) + "\" stroke=\"#999999\" stroke-width=\"1.2\"/>\n";
         }
 
         // Data, clipped to the plot area.
@@ -505,8 +512,8 @@ std::string render(const Figure& f) {
         g += "<g clip-path=\"url(#" + clip + ")\">\n";
         for (const Series& s : p.lines) {
             g += "<g class=\"series\" fill=\"none\" stroke=\"" + s.colour + "\" stroke-width=\"" + px(s.width_px) +
-                 "\" stroke-linejoin=\"round\" stroke-linecap=\"round\"" + (s.dashed ? " stroke-dasharray=\"7 4\"" : "") +
-                 "><title>" + escape(s.label) + "</title>\n";
+                 "\" stroke-linejoin=\"round\" stroke-linecap=\"round\"" +
+                 (s.dashed ? " stroke-dasharray=\"7 4\"" : "") + "><title>" + escape(s.label) + "</title>\n";
             // Runs of finite points, each its own polyline.
             std::size_t i = 0;
             std::size_t shown = 0;
@@ -516,7 +523,8 @@ std::string render(const Figure& f) {
                 std::vector<double> run_y;
                 for (; i < s.x.size(); ++i) {
                     const bool ok = std::isfinite(s.x[i]) && std::isfinite(s.y[i]) &&
-                                    (xa.scale == Scale::linear || s.x[i] > 0.0) && (ya.scale == Scale::linear || s.y[i] > 0.0);
+                                    (xa.scale == Scale::linear || s.x[i] > 0.0) &&
+                                    (ya.scale == Scale::linear || s.y[i] > 0.0);
                     if (!ok) break;
                     run_x.push_back(xa.at(s.x[i]));
                     run_y.push_back(ya.at(s.y[i]));
@@ -535,16 +543,16 @@ std::string render(const Figure& f) {
             }
             g += "</g>\n";
             if (shown < total) {
-                notes_desc += " '" + s.label + "': " + std::to_string(total) + " points drawn as " + std::to_string(shown) +
-                              " vertices (each pixel column's smallest and largest value).";
+                notes_desc += " '" + s.label + "': " + std::to_string(total) + " points drawn as " +
+                              std::to_string(shown) + " vertices (each pixel column's smallest and largest value).";
             }
         }
         for (const Markers& m : p.markers) {
             g += "<g class=\"markers\"><title>" + escape(m.label) + "</title>\n";
             for (std::size_t i = 0; i < m.x.size() && i < m.y.size(); ++i) {
                 if (!std::isfinite(m.x[i]) || !std::isfinite(m.y[i])) continue;
-                g += "<g transform=\"translate(" + px(xa.at(m.x[i])) + "," + px(ya.at(m.y[i])) + ")\">" + marker_shape(m) +
-                     "</g>\n";
+                g += "<g transform=\"translate(" + px(xa.at(m.x[i])) + "," + px(ya.at(m.y[i])) + ")\">" +
+                     marker_shape(m) + "</g>\n";
             }
             g += "</g>\n";
         }
@@ -555,8 +563,14 @@ std::string render(const Figure& f) {
         // Ticks: each a group placed at its position, so a reader can map labels to pixels.
         auto tick = [&](const char* cls, double tx, double ty, const std::string& line, const std::string& label,
                         const std::string& text_attrs) {
-            return "<g class=\"" + std::string(cls) + "\" transform=\"translate(" + px(tx) + "," + px(ty) + ")\">" + line +
-                   "<text" + text_attrs + ">" + escape(label) + "</text></g>\n";
+            std::string t = "<g class=\"";
+            t += cls;
+            t += "\" transform=\"translate(" + px(tx) + "," + px(ty) + ")\">";
+            t += line;
+            t += "<text" + text_attrs + ">";
+            t += escape(label);
+            t += "</text></g>\n";
+            return t;
         };
         const std::string stroke = " stroke=\"" + std::string(kFrame) + "\"";
         g += "<g class=\"axes\" font-size=\"" + px(kTickFont) + "\" fill=\"" + kInk + "\">\n";
@@ -591,11 +605,12 @@ std::string render(const Figure& f) {
         g += text_element(left + 0.5 * area_w, area_bottom + 42.0, p.x.label, kLabelFont,
                           " text-anchor=\"middle\" class=\"x-label\"");
         g += "<text class=\"y-label\" transform=\"translate(18," + px(area_top + 0.5 * h) +
-             ") rotate(-90)\" text-anchor=\"middle\" font-size=\"" + px(kLabelFont) + "\">" + escape(p.y.label) + "</text>\n";
+             ") rotate(-90)\" text-anchor=\"middle\" font-size=\"" + px(kLabelFont) + "\">" + escape(p.y.label) +
+             "</text>\n";
         if (p.right.factor != 0.0) {
-            g += "<text class=\"right-label\" transform=\"translate(" + px(width - 16.0) + "," + px(area_top + 0.5 * h) +
-                 ") rotate(90)\" text-anchor=\"middle\" font-size=\"" + px(kLabelFont) + "\">" + escape(p.right.label) +
-                 "</text>\n";
+            g += "<text class=\"right-label\" transform=\"translate(" + px(width - 16.0) + "," +
+                 px(area_top + 0.5 * h) + ") rotate(90)\" text-anchor=\"middle\" font-size=\"" + px(kLabelFont) +
+                 "\">" + escape(p.right.label) + "</text>\n";
         }
         if (top) {
             g += text_element(left + 0.5 * area_w, area_top - 30.0, p.top.label, kLabelFont,
@@ -608,8 +623,8 @@ std::string render(const Figure& f) {
     const double height = std::ceil(y);
 
     std::string out = "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n";
-    out += "<svg xmlns=\"http://www.w3.org/2000/svg\" version=\"1.1\" width=\"" + px(width) + "\" height=\"" + px(height) +
-           "\" viewBox=\"0 0 " + px(width) + " " + px(height) +
+    out += "<svg xmlns=\"http://www.w3.org/2000/svg\" version=\"1.1\" width=\"" + px(width) + "\" height=\"" +
+           px(height) + "\" viewBox=\"0 0 " + px(width) + " " + px(height) +
            "\" font-family=\"DejaVu Sans, Helvetica, Arial, sans-serif\" fill=\"" + kInk + "\">\n";
     out += "<title>" + escape(f.title) + "</title>\n";
     out += "<desc>" + escape(f.description + notes_desc) + "</desc>\n";

@@ -18,10 +18,10 @@ enum class Scale { linear, log10 };
 enum class Ticks { number, whole, resistance };
 
 struct Axis {
-    std::string label;             // with its unit, e.g. "temperature (°C)"
+    std::string label;  // with its unit, e.g. "temperature (°C)"
     Scale scale = Scale::linear;
     Ticks ticks = Ticks::number;
-    double lo = NAN;               // NaN: from the data (x exactly, y padded by 5 % of its range)
+    double lo = NAN;  // NaN: from the data (x exactly, y padded by 5 % of its range)
     double hi = NAN;
 };
 
@@ -41,8 +41,8 @@ struct RightAxis {
 enum class Shape { circle, square, diamond };
 
 struct Series {
-    std::string label;          // legend entry (empty: not in the legend)
-    std::vector<double> x, y;   // a non-finite y breaks the line
+    std::string label;         // legend entry (empty: not in the legend)
+    std::vector<double> x, y;  // a non-finite y breaks the line
     std::string colour = "#1f4e9a";
     double width_px = 2.0;
     bool dashed = false;
@@ -60,7 +60,7 @@ struct Markers {
 struct Plot {
     std::string title;
     Axis x, y;
-    TopAxis top;     // empty `at`: none
+    TopAxis top;  // empty `at`: none
     RightAxis right;
     std::vector<Series> lines;
     std::vector<Markers> markers;
