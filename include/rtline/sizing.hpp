@@ -64,6 +64,16 @@ struct Candidate {
 // Constraints are not applied (the result says whether it meets them: see meets()).
 [[nodiscard]] Candidate optimize_continuous(const SizingSpec& spec, const Grid& grid, const Thermistor& model);
 
+// For a two-resistor topology, the inner search optimize_continuous runs for each value of the first
+// free resistor: the second resistor's best value in [range_lo, range_hi] with the first at
+// `first_ohm`, and the objective there (+infinity when the output cannot change). Requires two free
+// resistors.
+struct InnerBest {
+    double second_ohm = 0.0;
+    double objective_pct_fsd = 0.0;
+};
+[[nodiscard]] InnerBest best_second(const SizingSpec& spec, const Grid& grid, const Thermistor& model, double first_ohm);
+
 // Closed forms for one-resistor topologies (Pallàs-Areny & Webster, Sensors and Signal Conditioning,
 // 2nd ed., ch. 2): the inflection value R = R_Tc·(B − 2Tc)/(B + 2Tc) at the span's centre, with the
 // model's local B there (absent when B ≤ 2Tc), and the three-point value

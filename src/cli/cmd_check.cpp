@@ -4,6 +4,7 @@
 
 #include "commands.hpp"
 #include "common.hpp"
+#include "pictures.hpp"
 #include "rtline/analysis.hpp"
 #include "rtline/error.hpp"
 
@@ -18,6 +19,7 @@ struct CheckCommand {
     std::string dissipation;  // mW/K
     std::string line = "endpoint";
     OutputOptions out;
+    std::string svg;  // --svg FILE
 };
 
 std::string line_description(LineKind k) {
@@ -44,6 +46,7 @@ void run_check(const CheckCommand& o) {
     const Thermistor thermistor = build_model(o.model);
     const Span span = build_span(o.span);
     const LineKind line = parse_line(o.line, "--line");
+    if (!o.svg.empty()) check_svg_path(o.svg, o.out.output);
     double dissipation_w_per_k = 0.0;
     if (!o.dissipation.empty()) {
         dissipation_w_per_k = 1e-3 * parse_number(o.dissipation, "--dissipation");
@@ -126,7 +129,9 @@ void run_check(const CheckCommand& o) {
             bytes = t;
         }
     }
-    emit(o.out.output, bytes);
+    std::vector<Output> outputs{{o.out.output, bytes, "-o"}};
+    if (!o.svg.empty()) outputs.push_back({o.svg, svg::render(check_figure(thermistor, circuit, a)), "--svg"});
+    emit_all(outputs);
 }
 
 }  // namespace
@@ -141,6 +146,7 @@ void setup_check(CLI::App& app) {
         ->group("Circuit");
     sub->add_option("--line", opt->line, "Reference line: endpoint (default), best-fit or minimax")->group("Analysis");
     add_output_options(*sub, opt->out);
+    add_svg_option(*sub, opt->svg);
     sub->footer(std::string("Example:\n"
                             "  rtline check --r25 10k --beta 3950 --span 0:45 --step 5 --circuit divider-low --rs 5k6\n"
                             "  rtline check --r25 10k --beta 3950 --span -20:60 --circuit bridge --r1 10k --load 100k "

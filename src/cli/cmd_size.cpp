@@ -2,9 +2,11 @@
 #include <algorithm>
 #include <cmath>
 #include <memory>
+#include <tuple>
 
 #include "commands.hpp"
 #include "common.hpp"
+#include "pictures.hpp"
 #include "rtline/error.hpp"
 #include "rtline/sizing.hpp"
 
@@ -28,6 +30,7 @@ struct SizeCommand {
     bool compare = false;
     bool tradeoff = false;
     OutputOptions out;
+    std::string svg;  // --svg FILE
 };
 
 // The spec shared by every topology the run sizes.
@@ -236,6 +239,23 @@ Json header_json(const Setup& s, const std::string& command) {
     return doc;
 }
 
+// The picture: the objective against the first free resistor with `listed` marked. The plotted
+// range is the --range the user gave, or a factor of 4 either side of the continuous optimum by default.
+std::string size_svg(const SizeCommand& o, const Setup& s, const Candidate& continuous,
+                     const std::vector<Candidate>& listed, const std::string& label) {
+    SizePicture p;
+    p.spec = &s.spec;
+    p.grid = &s.grid;
+    p.model = &s.model;
+    p.continuous = continuous;
+    p.continuous_fails = failed_constraint(s.spec, continuous);
+    p.listed = listed;
+    p.listed_label = label;
+    std::tie(p.lo_ohm, p.hi_ohm) = o.range == "1:10M" ? size_window(s.spec, continuous, listed)
+                                                      : std::pair{s.spec.range_lo_ohm, s.spec.range_hi_ohm};
+    return svg::render(size_figure(p));
+}
+
 std::string run_compare(const SizeCommand& o, Setup& s, Format format) {
     std::vector<Candidate> rows;
     std::vector<std::string> skipped;
@@ -338,6 +358,10 @@ void run_size(const SizeCommand& o) {
     if (!o.compare && o.circuit.circuit.empty()) {
         throw InputError("--circuit", "", "name the topology to size, or give --compare for all of them");
     }
+    if (!o.svg.empty() && o.compare) {
+        throw InputError("--svg", o.svg, "draws one topology's objective; leave out --compare, or --svg");
+    }
+    if (!o.svg.empty()) check_svg_path(o.svg, o.out.output);
     Setup s = build_setup(o);
     std::string bytes;
     if (o.compare) {
@@ -379,7 +403,15 @@ void run_size(const SizeCommand& o) {
                     "\nPareto front: each value is the most linear of all values with at least its output span\n" +
                     candidate_table(front, unit, false, false, heat).text();
         }
-        emit(o.out.output, bytes);
+        std::vector<Output> outputs{{o.out.output, bytes, "-o"}};
+        if (!o.svg.empty()) {
+            outputs.push_back({o.svg,
+                               size_svg(o, s, optimize_continuous(s.spec, s.grid, s.model), front,
+                                        "Pareto front, " + std::to_string(front.size()) + " " +
+                                            std::string(series_name(s.spec.series)) + " values (listed)"),
+                               "--svg"});
+        }
+        emit_all(outputs);
         return;
     }
 
@@ -448,7 +480,16 @@ void run_size(const SizeCommand& o) {
         if (const std::string w = span_warning(found.best.front()); !w.empty()) t += w + "\n";
         bytes = t;
     }
-    emit(o.out.output, bytes);
+    std::vector<Output> outputs{{o.out.output, bytes, "-o"}};
+    if (!o.svg.empty()) {
+        const std::string what = one ? " values" : " combinations, each at its own " + names[1];
+        outputs.push_back({o.svg,
+                           size_svg(o, s, continuous, found.best,
+                                    "best " + std::to_string(found.best.size()) + " " +
+                                        std::string(series_name(s.spec.series)) + what + " (listed)"),
+                           "--svg"});
+    }
+    emit_all(outputs);
 }
 
 }  // namespace
@@ -477,6 +518,7 @@ void setup_size(CLI::App& app) {
     sub->add_option("--min-sensitivity", opt->min_sensitivity, "Smallest |d output/dT| over the span, output units per K")
         ->group("Constraints");
     add_output_options(*sub, opt->out);
+    add_svg_option(*sub, opt->svg);
     sub->footer(std::string("Examples:\n"
                             "  rtline size --r25 10k --beta 3950 --span 0:45 --circuit divider-low\n"
                             "  rtline size --r25 10k --beta 3950 --span -20:60 --circuit shunt-divider --series E96 "

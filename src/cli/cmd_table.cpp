@@ -7,6 +7,7 @@
 #include "commands.hpp"
 #include "common.hpp"
 #include "emit_c.hpp"
+#include "pictures.hpp"
 #include "rtline/correction.hpp"
 #include "rtline/error.hpp"
 
@@ -28,6 +29,7 @@ struct TableCommand {
     std::string emit;               // "c": a C99 header instead of the report
     std::string prefix;             // C name prefix (default "ntc_")
     OutputOptions out;
+    std::string svg;                // --svg FILE
 };
 
 constexpr std::size_t kDefaultEntries = 17;  // 16 segments: common practice, no formal source
@@ -243,6 +245,7 @@ void run_table(const TableCommand& o) {
     }
     if (!o.prefix.empty() && !emit_c) throw InputError("--prefix", o.prefix, "applies only with --emit c");
     if (!o.prefix.empty()) check_c_prefix(o.prefix);
+    if (!o.svg.empty()) check_svg_path(o.svg, o.out.output);
 
     const int bits = static_cast<int>(whole_number(o.adc_bits, "--adc-bits", "a bit count"));
     const int scale = parse_scale(o.unit);
@@ -304,7 +307,11 @@ void run_table(const TableCommand& o) {
     } else {
         bytes = text_report(r);
     }
-    emit(o.out.output, bytes);
+    std::vector<Output> outputs{{o.out.output, bytes, "-o"}};
+    if (!o.svg.empty()) {
+        outputs.push_back({o.svg, svg::render(table_figure(r.thermistor, r.circuit, r.map, r.table, r.polynomial, r.max_error_k)), "--svg"});
+    }
+    emit_all(outputs);
 }
 
 }  // namespace
@@ -331,6 +338,7 @@ void setup_table(CLI::App& app) {
     sub->add_option("--emit", opt->emit, "c: write a C99 header (table and interpolation function) instead")
         ->group("Output");
     sub->add_option("--prefix", opt->prefix, "With --emit c: prefix of the C names (default ntc_)")->group("Output");
+    add_svg_option(*sub, opt->svg);
     sub->footer(std::string("Examples:\n"
                             "  rtline table --r25 10k --beta 3950 --span 0:45 --circuit divider-low --rs 10k "
                             "--adc-bits 12 --entries 17\n"

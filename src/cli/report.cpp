@@ -130,36 +130,57 @@ std::string* g_sink = nullptr;
 SinkScope::SinkScope(std::string& buffer) : previous_(g_sink) { g_sink = &buffer; }
 SinkScope::~SinkScope() { g_sink = previous_; }
 
-void emit(const std::string& path, const std::string& bytes) {
-    if (path.empty() || path == "-") {
-        if (g_sink != nullptr) {
-            *g_sink += bytes;
-            return;
-        }
-        std::cout << bytes;
-        std::cout.flush();
-        return;
-    }
+void emit(const std::string& path, const std::string& bytes) { emit_all({{path, bytes, "-o"}}); }
+
+void emit_all(const std::vector<Output>& outputs) {
     namespace fs = std::filesystem;
-    const fs::path target(path);
+    auto to_stdout = [](const Output& o) { return o.path.empty() || o.path == "-"; };
+    struct Pending {
+        fs::path temp;
+        fs::path target;
+        const Output* output;
+    };
+    std::vector<Pending> pending;
+    auto discard = [&pending] {
+        std::error_code ec;
+        for (const Pending& p : pending) fs::remove(p.temp, ec);
+    };
     std::random_device rd;
-    const fs::path temp = target.parent_path() / (target.filename().string() + ".tmp" + std::to_string(rd()));
-    {
+    for (const Output& o : outputs) {
+        if (to_stdout(o)) continue;
+        const fs::path target(o.path);
+        const fs::path temp = target.parent_path() / (target.filename().string() + ".tmp" + std::to_string(rd()));
+        pending.push_back({temp, target, &o});
         std::ofstream out(temp, std::ios::binary | std::ios::trunc);
-        if (!out) throw InputError("-o", path, "cannot be written (no such folder, or no permission)");
-        out << bytes;
+        if (!out) {
+            pending.pop_back();
+            discard();
+            throw InputError(o.flag, o.path, "cannot be written (no such folder, or no permission)");
+        }
+        out << o.bytes;
         out.close();
         if (!out) {
-            std::error_code ec;
-            fs::remove(temp, ec);
-            throw InputError("-o", path, "writing failed (disk full?)");
+            discard();
+            throw InputError(o.flag, o.path, "writing failed (disk full?)");
         }
     }
-    std::error_code ec;
-    fs::rename(temp, target, ec);
-    if (ec) {
-        fs::remove(temp, ec);
-        throw InputError("-o", path, "cannot be replaced: " + ec.message());
+    for (std::size_t i = 0; i < pending.size(); ++i) {
+        std::error_code ec;
+        fs::rename(pending[i].temp, pending[i].target, ec);
+        if (ec) {
+            const std::string why = "cannot be replaced: " + ec.message();
+            for (std::size_t j = i; j < pending.size(); ++j) fs::remove(pending[j].temp, ec);
+            throw InputError(pending[i].output->flag, pending[i].output->path, why);
+        }
+    }
+    for (const Output& o : outputs) {
+        if (!to_stdout(o)) continue;
+        if (g_sink != nullptr) {
+            *g_sink += o.bytes;
+            continue;
+        }
+        std::cout << o.bytes;
+        std::cout.flush();
     }
 }
 

@@ -68,4 +68,15 @@ private:
 // renamed into place once complete. Throws InputError ("-o") when the file cannot be written.
 void emit(const std::string& path, const std::string& bytes);
 
+// One output of a run: stdout (path empty or "-") or a file, and the flag that named it.
+struct Output {
+    std::string path;
+    std::string bytes;
+    std::string flag = "-o";
+};
+// Writes all outputs or none: every file goes to a temporary file beside it first, and only when all
+// of them are complete are they renamed into place and stdout written. Throws InputError naming the
+// flag of the file that cannot be written (the other temporary files are removed).
+void emit_all(const std::vector<Output>& outputs);
+
 }  // namespace rtline::cli

@@ -128,6 +128,10 @@ int run_batch(const std::string& command, const std::vector<std::string>& extra,
                     const std::string path = a.size() > 9 ? a.substr(9) : (i + 1 < args.size() ? args[i + 1] : "");
                     throw InputError("--output", path, "not with --jsonl: each result is one line on stdout");
                 }
+                if (a == "--svg" || a.rfind("--svg=", 0) == 0) {
+                    const std::string path = a.size() > 6 ? a.substr(6) : (i + 1 < args.size() ? args[i + 1] : "");
+                    throw InputError("--svg", path, "not with --jsonl: every line would draw over the same file");
+                }
             }
             args.emplace_back("--format");
             args.emplace_back("json");

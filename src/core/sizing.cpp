@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <cmath>
 #include <functional>
+#include <stdexcept>
 
 #include "rtline/error.hpp"
 
@@ -138,11 +139,28 @@ double minimize_1d(const std::function<double(double)>& f, double lo, double hi,
 
 }  // namespace
 
+namespace {
+constexpr double kSearchTol = 1e-9;  // in ln R: 1e-9 relative in the resistor value
+}  // namespace
+
+InnerBest best_second(const SizingSpec& spec, const Grid& grid, const Thermistor& model, double first_ohm) {
+    if (free_resistors(spec.base.topology).size() != 2) {
+        throw std::logic_error("best_second needs a topology with two free resistors");
+    }
+    const double lo = std::log(spec.range_lo_ohm);
+    const double hi = std::log(spec.range_hi_ohm);
+    double fv = INFINITY;
+    const double v = minimize_1d(
+        [&](double x) { return objective(spec, grid, sized_circuit(spec, model, {first_ohm, std::exp(x)})); }, lo, hi,
+        57, kSearchTol, fv);
+    return {std::exp(v), fv};
+}
+
 Candidate optimize_continuous(const SizingSpec& spec, const Grid& grid, const Thermistor& model) {
     const std::vector<std::string> names = free_resistors(spec.base.topology);
     const double lo = std::log(spec.range_lo_ohm);
     const double hi = std::log(spec.range_hi_ohm);
-    const double tol = 1e-9;  // in ln R: 1e-9 relative in the resistor value
+    const double tol = kSearchTol;
     auto f = [&](const std::vector<double>& v) { return objective(spec, grid, sized_circuit(spec, model, v)); };
     std::vector<double> best;
     double fbest = INFINITY;
@@ -151,19 +169,10 @@ Candidate optimize_continuous(const SizingSpec& spec, const Grid& grid, const Th
         const double u = minimize_1d([&](double x) { return f({std::exp(x)}); }, lo, hi, 141, tol, fbest);
         best = {std::exp(u)};
     } else if (names.size() == 2) {
-        // Nested: for each outer value the best inner value, then the best outer value.
-        auto inner = [&](double u, double& fv) {
-            return minimize_1d([&](double v) { return f({std::exp(u), std::exp(v)}); }, lo, hi, 57, tol, fv);
-        };
-        auto outer = [&](double u) {
-            double fv = INFINITY;
-            (void)inner(u, fv);
-            return fv;
-        };
+        // Nested: for each outer value the best inner value (best_second), then the best outer value.
+        auto outer = [&](double u) { return best_second(spec, grid, model, std::exp(u)).objective_pct_fsd; };
         const double u = minimize_1d(outer, lo, hi, 57, tol, fbest);
-        double fv = INFINITY;
-        const double v = inner(u, fv);
-        best = {std::exp(u), std::exp(v)};
+        best = {std::exp(u), best_second(spec, grid, model, std::exp(u)).second_ohm};
         // A single thermistor in any of these networks gives an output (a + b·R_T)/(c + d·R_T), whose
         // linearity depends on one equivalent resistance (rp∥rs for the shunt-divider): the optimum is a
         // ridge of pairs, not a point. Of the ridge, report the pair with the largest output span.
@@ -174,12 +183,11 @@ Candidate optimize_continuous(const SizingSpec& spec, const Grid& grid, const Th
         double best_span = span_of(best);
         constexpr int kRidgeScan = 29;
         for (int i = 0; i < kRidgeScan; ++i) {
-            const double ui = lo + (hi - lo) * i / (kRidgeScan - 1);
-            double fi = INFINITY;
-            const double vi = inner(ui, fi);
-            if (!(fi <= fbest * (1.0 + 1e-6))) continue;
+            const double first = std::exp(lo + (hi - lo) * i / (kRidgeScan - 1));
+            const InnerBest inner = best_second(spec, grid, model, first);
+            if (!(inner.objective_pct_fsd <= fbest * (1.0 + 1e-6))) continue;
             ridge_points += 1;
-            const std::vector<double> cand = {std::exp(ui), std::exp(vi)};
+            const std::vector<double> cand = {first, inner.second_ohm};
             if (const double si = span_of(cand); si > best_span) {
                 best_span = si;
                 best = cand;
