@@ -416,3 +416,28 @@ TEST_CASE("the pictures in docs/images are what the commands in docs/pictures.md
     }
     CHECK(checked == 3);  // one picture of each kind
 }
+
+TEST_CASE("budget --svg: the worst-case and 99.7 % curves reach the reported summary values") {
+    const TempPath pic(".svg");
+    const Json d = run_with_svg(with({"budget"}, with(kThermistor, {"--span", "0:45", "--step", "5", "--circuit",
+                                                                    "divider-low", "--rs", "9k1", "--trials", "4000"})),
+                                pic);
+    const Json s = read_svg(pic.str());
+    const Json& plot = s["plots"][0];
+    CHECK(plot["y_label"] == "error (\xC2\xB0" "C)");
+    const AxisMap xm = axis_map(plot["x_ticks"]);
+    const AxisMap ym = axis_map(plot["y_ticks"]);
+    auto largest = [&](const std::string& name) {
+        double m = 0.0;
+        for (const auto& p : vertices(series(plot, name))) m = std::max(m, ym.value(p[1]));
+        return m;
+    };
+    const double wc = d["summary"]["worst_case_c"].get<double>();
+    const double range = 2.2 * wc;  // the y axis spans about ±worst case, padded by 5 %
+    CHECK_NEAR(largest("worst case"), wc, range * kReadBack);
+    CHECK_NEAR(largest("99.7 % bound"), d["summary"]["p99_7_c"].get<double>(), range * kReadBack);
+    const auto wc_line = vertices(series(plot, "worst case"));
+    REQUIRE(wc_line.size() == d["points"].size());  // one vertex per temperature of the span
+    CHECK_NEAR(xm.value(wc_line.front()[0]), 0.0, 45.0 * kReadBack);
+    CHECK_NEAR(xm.value(wc_line.back()[0]), 45.0, 45.0 * kReadBack);
+}

@@ -6,6 +6,7 @@
 
 #include "commands.hpp"
 #include "common.hpp"
+#include "pictures.hpp"
 #include "rtline/budget.hpp"
 #include "rtline/error.hpp"
 
@@ -31,6 +32,7 @@ struct BudgetOptions {
     std::string seed;
     std::string threads;
     OutputOptions out;
+    std::string svg;  // --svg FILE
 };
 
 const char* const kDegC = "\xC2\xB0" "C";
@@ -338,6 +340,7 @@ void run_budget(const BudgetOptions& o) {
     }
     const Circuit circuit = build_circuit(o.circuit, thermistor, span);
     const BudgetSpec spec = build_spec(o, circuit);
+    if (!o.svg.empty()) check_svg_path(o.svg, o.out.output);
     const Budget b = compute_budget(grid, thermistor, circuit, spec);
     const std::string unit = reading_unit(circuit, spec);
 
@@ -347,7 +350,11 @@ void run_budget(const BudgetOptions& o) {
         case Format::csv: bytes = budget_csv(b); break;
         case Format::text: bytes = budget_text(b, spec, thermistor, circuit, unit); break;
     }
-    emit(o.out.output, bytes);
+    std::vector<Output> outputs{{o.out.output, bytes, "-o"}};
+    if (!o.svg.empty()) {
+        outputs.push_back({o.svg, svg::render(budget_figure(thermistor, circuit, b, spec.distribution == Distribution::normal ? "normal, tolerance = 3 sigma" : "uniform over the tolerance")), "--svg"});
+    }
+    emit_all(outputs);
 }
 
 }  // namespace
@@ -388,6 +395,7 @@ void setup_budget(CLI::App& app) {
     sub->add_option("--threads", opt->threads, "Threads (default: every core; the result does not depend on it)")
         ->group(mc);
     add_output_options(*sub, opt->out);
+    add_svg_option(*sub, opt->svg);
     sub->footer(std::string("Example:\n"
                             "  rtline budget --r25 10k --beta 3950 --span 0:45 --step 5 --circuit divider-low --rs 10k\n"
                             "  rtline budget --r25 10k --beta 3950 --span -20:60 --step 10 --circuit divider-low --rs 10k "

@@ -322,4 +322,58 @@ svg::Figure table_figure(const Thermistor& model, const Circuit& circuit, const 
     return f;
 }
 
+// ------------------------------------------------------------------------------------ budget
+
+svg::Figure budget_figure(const Thermistor& model, const Circuit& circuit, const Budget& b,
+                          const std::string& distribution) {
+    std::vector<double> t;
+    std::vector<double> wc_hi, wc_lo, p997_hi, p997_lo, p95_hi, p95_lo, mean, nominal;
+    bool have_mc = false;
+    for (const BudgetPoint& p : b.points) {
+        t.push_back(kelvin_to_celsius(p.t_k));
+        wc_hi.push_back(p.worst_case_k);
+        wc_lo.push_back(-p.worst_case_k);
+        p997_hi.push_back(p.mc.p99_7_k);
+        p997_lo.push_back(-p.mc.p99_7_k);
+        p95_hi.push_back(p.mc.p95_k);
+        p95_lo.push_back(-p.mc.p95_k);
+        mean.push_back(p.mc.mean_k);
+        nominal.push_back(p.nominal_error_k);
+        have_mc = have_mc || std::isfinite(p.mc.p99_7_k);
+    }
+    const double lo_k = b.points.front().t_k;
+    const double hi_k = b.points.back().t_k;
+    svg::Figure f;
+    f.title = "rtline budget: " + std::string(topology_name(circuit.topology)) + " from " + span_text(lo_k, hi_k) +
+              ", error with real parts";
+    f.notes = {describe_model(model), "circuit: " + describe_circuit(circuit),
+               have_mc ? "Monte Carlo: " + distribution : std::string("no Monte Carlo trials: the worst case only")};
+    f.description = provenance("budget") + " " + std::to_string(b.points.size()) +
+                    " temperatures: the worst case, the Monte Carlo bounds and mean, the nominal error.";
+    svg::Plot plot;
+    plot.title = "Error band: reading " + kMinus + " true temperature";
+    plot.x.label = "temperature (" + kDeg + ")";
+    plot.y.label = "error (" + kDeg + ")";
+    plot.zero_line = true;
+    plot.lines.push_back({"worst case (" + kMinus + "/+)", t, wc_hi, kRed, 2.0, true});
+    plot.lines.push_back({"", t, wc_lo, kRed, 2.0, true});
+    if (have_mc) {
+        plot.lines.push_back({"99.7 % bound of |error|", t, p997_hi, kBlue, 2.0, false});
+        plot.lines.push_back({"", t, p997_lo, kBlue, 2.0, false});
+        plot.lines.push_back({"95 % bound of |error|", t, p95_hi, kPurple, 1.5, false});
+        plot.lines.push_back({"", t, p95_lo, kPurple, 1.5, false});
+        plot.lines.push_back({"Monte Carlo mean", t, mean, kGreen, 2.0, false});
+    }
+    plot.lines.push_back({"nominal parts", t, nominal, kGrey, 1.5, true});
+    svg::Markers worst;
+    worst.label = "largest worst case " + format_fixed(b.summary.worst_case_k, 3) + " " + kDeg + " at " +
+                  with_minus(format_number(kelvin_to_celsius(b.summary.at_t_k), 5)) + " " + kDeg;
+    worst.x = {kelvin_to_celsius(b.summary.at_t_k)};
+    worst.y = {b.summary.worst_case_k};
+    worst.colour = kRed;
+    plot.markers.push_back(worst);
+    f.plots.push_back(plot);
+    return f;
+}
+
 }  // namespace rtline::cli
