@@ -41,7 +41,7 @@ struct Setup {
 Setup build_setup(const SizeCommand& o) {
     Thermistor model = build_model(o.model);
     const Span span = build_span(o.span);
-    Grid grid = make_grid(model, span, build_step(o.span));
+    Grid grid = build_grid(model, span, o.span);
     SizingSpec spec;
     spec.line = parse_line(o.line, "--line");
     spec.series = parse_series(o.series, "--series");
@@ -469,7 +469,7 @@ void setup_size(CLI::App& app) {
                             "  rtline size --r25 10k --beta 3950 --span -20:60 --circuit shunt-divider --series E96 "
                             "--min-span 0.3\n"
                             "  rtline size --r25 10k --beta 3950 --span -30:5 --compare --excitation 3.3 --max-power 1m\n"
-                            "Exit code 1 when no combination meets the constraints.\n\n") +
+                            "\n") +
                 kSafetyNote);
     sub->callback([opt] { run_size(*opt); });
 }

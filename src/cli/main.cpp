@@ -11,6 +11,14 @@
 
 namespace {
 
+// The exit codes `command` can give, for its --help: model, fit and check never search for a design,
+// so they never exit 1.
+std::string exit_codes(const std::string& command) {
+    const bool searches = command != "model" && command != "fit" && command != "check";
+    return std::string("Exit codes: 0 success, ") + (searches ? "1 no design meets the constraints, " : "") +
+           "2 bad input or usage, 3 internal error (with --jsonl: the worst line's).";
+}
+
 void build_program(CLI::App& app) {
     app.description(
         "rtline designs NTC thermistor linearization circuits: thermistor models and fits, divider, shunt\n"
@@ -23,7 +31,7 @@ void build_program(CLI::App& app) {
     app.footer(std::string("Every command also takes --spec FILE (a JSON object of flag values, '-' for stdin) and\n"
                            "--jsonl (one spec per stdin line, one JSON result per stdout line).\n"
                            "Exit codes: 0 success, 1 no design meets the constraints, 2 bad input or usage, "
-                           "3 internal error.\n\n") +
+                           "3 internal error;\nwith --jsonl the worst line's (3, else 2, else 1).\n\n") +
                rtline::cli::kSafetyNote);
     rtline::cli::setup_model(app);
     rtline::cli::setup_fit(app);
@@ -31,6 +39,11 @@ void build_program(CLI::App& app) {
     rtline::cli::setup_size(app);
     rtline::cli::setup_table(app);
     for (CLI::App* sub : app.get_subcommands({})) {
+        // The exit codes go before the safety caution, which closes the help.
+        std::string footer = sub->get_footer();
+        const std::size_t caution = footer.find("\n\nCaution:");
+        footer.insert(caution == std::string::npos ? footer.size() : caution, "\n" + exit_codes(sub->get_name()));
+        sub->footer(footer);
         // Declared for --help; read_invocation() takes both out of the arguments before parsing.
         sub->add_option("--spec", "JSON spec: keys are the long flag names with _ for - ('-' reads stdin)")
             ->group("Input");
