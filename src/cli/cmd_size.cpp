@@ -178,7 +178,13 @@ Table candidate_table(const std::vector<Candidate>& cs, const std::string& unit,
     }
     std::string msg = "no " + std::string(series_name(spec.series)) + " combination " + (what.empty() ? "" : what + " ") +
                       "meets the constraints";
-    if (worst.second > 0) {
+    if (worst.second == 0 && what.empty()) {
+        // One topology, and no constraint removed any: every combination left the output unchanged.
+        const std::vector<double> values = series_values(spec.series, spec.range_lo_ohm, spec.range_hi_ohm);
+        msg = "no " + std::string(series_name(spec.series)) + " combination gives an output that changes over the span; the values searched run from " +
+              format_resistance(values.front()) + " to " + format_resistance(values.back()) +
+              " ohm, out of reach of the thermistor";
+    } else {
         msg += ": " + worst.first + " removed " + std::to_string(worst.second) + " of " + std::to_string(s.examined) +
                " combinations" + others;
     }
