@@ -184,7 +184,9 @@ TEST_CASE("max_nonlinearity_pct_fsd follows Bentley's %FSD for each line, comput
     const std::pair<LineKind, const char*> kinds[] = {
         {LineKind::endpoint, "endpoint"}, {LineKind::best_fit, "best_fit"}, {LineKind::minimax, "minimax"}};
     for (std::size_t i = 0; i < data.size(); ++i) {
-        for (const auto& [kind, key] : kinds) {
+        for (const auto& entry : kinds) {  // not a structured binding: clang 14 cannot capture one
+            const LineKind kind = entry.first;
+            const char* const key = entry.second;
             CAPTURE(data[i].shape);
             CAPTURE(key);
             const double want = ref[i][key]["pct_fsd"].get<double>();

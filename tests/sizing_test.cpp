@@ -588,7 +588,8 @@ TEST_CASE("each constraint removes exactly the candidates a brute force says it 
                 CHECK(found.best[i].max_self_heating_k == doctest::Approx(feasible[i].max_power_w / 1e-3).epsilon(1e-9));
             }
         }
-        for (const auto& [flag, n] : found.removed) {
+        for (const auto& [flag_, n] : found.removed) {
+            const std::string& flag = flag_;  // CAPTURE cannot take a structured binding in clang 14
             CAPTURE(flag);
             CHECK(n == (flag == c.flag ? values.size() - feasible.size() : 0u));
         }
@@ -619,7 +620,8 @@ TEST_CASE("when nothing meets the constraints the search is empty and says which
     const StandardSearch found = search_standard(spec, grid, model);
     CHECK(found.best.empty());
     CHECK(found.examined == values.size());
-    for (const auto& [flag, n] : found.removed) {
+    for (const auto& [flag_, n] : found.removed) {
+        const std::string& flag = flag_;  // CAPTURE cannot take a structured binding in clang 14
         CAPTURE(flag);
         if (flag == "--min-span") CHECK(n == fail_span);
         if (flag == "--max-power") CHECK(n == fail_power);

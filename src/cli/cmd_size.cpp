@@ -269,7 +269,9 @@ std::string run_compare(const SizeCommand& o, Setup& s, Format format) {
         one.top = 1;
         const StandardSearch found = search_standard(one, s.grid, s.model);
         total.examined += found.examined;
-        for (const auto& [flag, n] : found.removed) {
+        for (const auto& entry : found.removed) {
+            const std::string& flag = entry.first;  // not a structured binding: clang 14 cannot capture one
+            const std::size_t n = entry.second;
             auto it = std::find_if(total.removed.begin(), total.removed.end(), [&](const auto& r) { return r.first == flag; });
             if (it == total.removed.end()) {
                 total.removed.emplace_back(flag, n);
