@@ -2,14 +2,17 @@
 # One-step set-up for a fresh Debian 12 machine: installs the Debian packages rtline needs (apt-get,
 # through sudo when not root), configures and builds, then either runs the bundled example or the
 # whole test suite.
-#   bash scripts/setup.sh demo   # build, then size the greenhouse example
-#   bash scripts/setup.sh test   # build, then run every test through ctest
+#   bash scripts/setup.sh demo                  # build, then size the greenhouse example
+#   bash scripts/setup.sh test                  # build and run every test through ctest; then the same
+#                                               # suite under ASan/UBSan (build-asan/), then the fuzzers
+#   RTLINE_QUICK=1 bash scripts/setup.sh test   # the first ctest run only
+# The test mode ends with one summary line: "setup: N passed, N failed".
 set -euo pipefail
 mode=${1:-demo}
 cd "$(dirname "$0")/.."
 
 packages=(g++ cmake make libeigen3-dev libcli11-dev nlohmann-json3-dev doctest-dev
-          ngspice python3 python3-numpy python3-scipy jq)
+          ngspice python3 python3-numpy python3-scipy jq clang libclang-rt-14-dev)
 missing=()
 for p in "${packages[@]}"; do
   dpkg-query -W -f='${Status}' "$p" 2>/dev/null | grep -q "install ok installed" || missing+=("$p")
@@ -26,12 +29,57 @@ jobs=$(nproc 2>/dev/null || echo 2)
 cmake -S . -B build -DCMAKE_BUILD_TYPE=Release >&2
 cmake --build build -j"$jobs" >&2
 
+passed=0
+failed=0
+# Runs ctest in build folder $1, labelled $2, and adds its counts to the totals. ctest's own summary
+# ("100% tests passed, 0 tests failed out of N") stays in the output.
+run_ctest() {
+  local log status=0 total bad
+  log=$(mktemp)
+  (cd "$1" && ctest --output-on-failure -j"$jobs") 2>&1 | tee "$log" || status=$?
+  total=$(sed -n 's/.* tests failed out of \([0-9]*\).*/\1/p' "$log" | tail -1)
+  bad=$(sed -n 's/.* \([0-9]*\) tests failed out of .*/\1/p' "$log" | tail -1)
+  rm -f "$log"
+  if [ -z "$total" ]; then total=1; bad=1; fi  # ctest did not get as far as its summary
+  passed=$((passed + total - bad))
+  failed=$((failed + bad))
+  summary+=("setup: $2: $((total - bad)) passed, $bad failed")
+  [ "$status" -eq 0 ] && [ "$bad" -eq 0 ]
+}
+
+finish() {
+  printf '%s\n' "${summary[@]}"
+  echo "setup: $passed passed, $failed failed"
+  [ "$failed" -eq 0 ]
+}
+
+summary=()
 case "$mode" in
   demo)
     bash examples/greenhouse-vent.sh build/rtline
     ;;
   test)
-    cd build && ctest --output-on-failure -j"$jobs"
+    run_ctest build "test suite (build/)" || { finish; exit 1; }
+    if [ "${RTLINE_QUICK:-0}" != 1 ]; then
+      # The same suite with every target built by clang under AddressSanitizer and UBSan.
+      cmake -S . -B build-asan -DCMAKE_CXX_COMPILER=clang++ -DCMAKE_BUILD_TYPE=RelWithDebInfo \
+            -DCMAKE_CXX_FLAGS_RELWITHDEBINFO="-O1 -gline-tables-only" -DRTLINE_SANITIZE=ON >&2
+      cmake --build build-asan -j"$jobs" >&2
+      export ASAN_OPTIONS=detect_leaks=1 UBSAN_OPTIONS=print_stacktrace=1
+      run_ctest build-asan "ASan/UBSan suite (build-asan/)" || { finish; exit 1; }
+      fuzz_log=$(mktemp)
+      fuzz_status=0
+      bash fuzz/run.sh 2>&1 | tee "$fuzz_log" || fuzz_status=$?
+      fuzz_passed=$(sed -n 's/^fuzz: \([0-9]*\) passed, \([0-9]*\) failed$/\1/p' "$fuzz_log")
+      fuzz_failed=$(sed -n 's/^fuzz: \([0-9]*\) passed, \([0-9]*\) failed$/\2/p' "$fuzz_log")
+      rm -f "$fuzz_log"
+      if [ -z "$fuzz_passed" ]; then fuzz_passed=0; fuzz_failed=1; fi  # the build failed
+      [ "$fuzz_status" -ne 0 ] && [ "$fuzz_failed" -eq 0 ] && fuzz_failed=1
+      passed=$((passed + fuzz_passed))
+      failed=$((failed + fuzz_failed))
+      summary+=("setup: fuzzers (build-fuzz/): $fuzz_passed passed, $fuzz_failed failed")
+    fi
+    finish
     ;;
   *)
     echo "setup: unknown mode '$mode' (use demo or test)" >&2

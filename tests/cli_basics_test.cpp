@@ -1,6 +1,9 @@
 // The program's outer behaviour: version, help, exit codes for usage errors.
 #include <doctest/doctest.h>
 
+#include <string>
+#include <vector>
+
 #include "support.hpp"
 
 using rtline::test::run_rtline;
@@ -23,4 +26,40 @@ TEST_CASE("the top-level help lists the exit codes and carries the safety cautio
     CHECK(r.code == 0);
     CHECK(r.out.find("2 bad input or usage") != std::string::npos);
     CHECK(r.out.find("not a protective device") != std::string::npos);
+}
+
+TEST_CASE("each command's help states the exit codes that command can give") {
+    // model, fit and check analyse what they are given and never search, so they never exit 1.
+    const std::string searching = "Exit codes: 0 success, 1 no design meets the constraints, 2 bad input or usage, "
+                                  "3 internal error (with --jsonl: the worst line's).";
+    const std::string analysing = "Exit codes: 0 success, 2 bad input or usage, 3 internal error (with --jsonl: the "
+                                  "worst line's).";
+    for (const char* command : {"model", "fit", "check", "size", "table"}) {
+        const std::string name = command;
+        INFO("rtline " << name << " --help");
+        const auto r = run_rtline({name, "--help"});
+        CHECK(r.code == 0);
+        const bool searches = name == "size" || name == "table";
+        CHECK(r.out.find(searches ? searching : analysing) != std::string::npos);
+        CHECK(r.out.find(searches ? analysing : searching) == std::string::npos);
+    }
+}
+
+TEST_CASE("model, fit and check give exit code 0 on success, and size and table 1 when nothing meets the target") {
+    const std::vector<std::string> beta = {"--r25", "10k", "--beta", "3950", "--span", "0:50", "--step", "10"};
+    auto with = [&](std::vector<std::string> a) {
+        a.insert(a.begin() + 1, beta.begin(), beta.end());
+        return a;
+    };
+    CHECK(run_rtline(with({"model"})).code == 0);
+    CHECK(run_rtline(with({"check", "--circuit", "divider-low", "--rs", "10k"})).code == 0);
+    // A ratiometric divider spans at most 1 V/V, so --min-span 2 cannot be met.
+    CHECK(run_rtline(with({"size", "--circuit", "divider-low", "--min-span", "2"})).code == 1);
+    // 1e-9 °C is out of reach of the largest table the search tries (1024 entries): the span's ~2000
+    // codes leave segments about 2 codes long, whose interpolation error is about h²/8·|T''| with
+    // |T''| ≈ (50 °C / 2000 codes) / 2000 codes ≈ 1e-5 °C per code², i.e. about 5e-6 °C (by hand).
+    const auto table = run_rtline({"table", "--r25", "10k", "--beta", "3950", "--span", "0:50", "--circuit", "divider-low",
+                                   "--rs", "10k", "--max-error", "1e-9"});
+    CHECK(table.code == 1);
+    CHECK(table.out.empty());
 }

@@ -155,7 +155,7 @@ TEST_CASE("a batch refuses -o, and --spec together with --jsonl") {
     const auto with_o = run_rtline({"size", "--jsonl", "-o", "/tmp/x.json"},
                                    R"({"r25": "10k", "beta": 3890, "span": "0:45", "circuit": "divider-low"})");
     CHECK(with_o.code == 2);
-    CHECK(json::parse(with_o.out)["error"] == "--output '/tmp/x.json': not with --jsonl: each result is one line on stdout");
+    CHECK(json::parse(with_o.out)["error"] == "-o '/tmp/x.json': not with --jsonl: each result is one line on stdout");
     const auto both = run_rtline({"size", "--jsonl", "--spec", "x.json"}, "");
     CHECK(both.code == 2);
     CHECK(both.out.empty());

@@ -15,7 +15,8 @@ inline constexpr double k25CelsiusK = 298.15;     // the usual reference tempera
 [[nodiscard]] constexpr double kelvin_to_celsius(double t_k) { return t_k - kZeroCelsiusK; }
 
 // Parses a resistance: plain (470, 0.1, 1e3), letter code with R/k/K/M/G as decimal marker or suffix
-// (4k7, 2R2, 10k, 1.5M), optional "ohm", "Ohm" or "Ω" suffix. Returns ohms (> 0, finite).
+// (4k7, 2R2, 10k, 1.5M), optional "ohm", "Ohm" or "Ω" suffix. Returns ohms (> 0, finite, not
+// subnormal).
 // Throws InputError naming `field` and `text` otherwise.
 [[nodiscard]] double parse_resistance(std::string_view text, std::string_view field);
 
@@ -40,7 +41,8 @@ struct Span {
 [[nodiscard]] Span parse_span(std::string_view text, std::string_view field);
 
 // Formats a resistance in the letter code with `digits` significant figures, trailing zeros dropped:
-// 4700 -> "4k7", 10000 -> "10k", 2.2 -> "2R2", 470 -> "470", 1.5e6 -> "1M5", 18513.4 (4) -> "18k51".
+// 4700 -> "4k7", 10000 -> "10k", 2.2 -> "2R2", 470 -> "470", 1.5e6 -> "1M5", 18513.4 (4) -> "18k51";
+// below 1 mΩ or from 1 TΩ up in exponent form ("1e-06", "2.5e+12"), which parse_resistance reads too.
 [[nodiscard]] std::string format_resistance(double ohms, int digits = 4);
 
 // Formats a number with `digits` significant figures (%g style, no trailing zeros).

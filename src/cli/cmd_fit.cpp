@@ -53,6 +53,17 @@ void run_fit(const FitCommand& o) {
     if (o.model == "sh") {
         const std::vector<RtPoint> pts = validate_points(raw, 3, source);
         const ShFit fit = fit_steinhart_hart(pts);
+        try {
+            // Coefficients that turn back between the points describe no thermistor: every other
+            // command would refuse them, so refuse them here, where the points can still be fixed.
+            Thermistor(fit.model).check_span(Span{pts.front().t_k, pts.back().t_k}, source);
+        } catch (const InputError&) {
+            throw InputError(source, std::to_string(pts.size()) + " points",
+                             "the Steinhart-Hart fit does not give a resistance that falls monotonically from " +
+                                 format_number(kelvin_to_celsius(pts.front().t_k)) + " to " +
+                                 format_number(kelvin_to_celsius(pts.back().t_k)) +
+                                 " \xC2\xB0" "C; check the points, or fit --model beta");
+        }
         residuals = fit.residuals;
         max_residual_k = fit.max_residual_k;
         model = model_json(Thermistor(fit.model));

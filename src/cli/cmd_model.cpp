@@ -20,7 +20,7 @@ void run_model(const ModelCommand& o) {
     const Format format = parse_format(o.out.format);
     const Thermistor thermistor = build_model(o.model);
     const Span span = build_span(o.span);
-    const Grid grid = make_grid(thermistor, span, build_step(o.span));
+    const Grid grid = build_grid(thermistor, span, o.span);
 
     std::string bytes;
     if (format == Format::json) {

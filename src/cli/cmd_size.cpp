@@ -44,7 +44,7 @@ struct Setup {
 Setup build_setup(const SizeCommand& o) {
     Thermistor model = build_model(o.model);
     const Span span = build_span(o.span);
-    Grid grid = make_grid(model, span, build_step(o.span));
+    Grid grid = build_grid(model, span, o.span);
     SizingSpec spec;
     spec.line = parse_line(o.line, "--line");
     spec.series = parse_series(o.series, "--series");
@@ -182,7 +182,13 @@ Table candidate_table(const std::vector<Candidate>& cs, const std::string& unit,
     }
     std::string msg = "no " + std::string(series_name(spec.series)) + " combination " + (what.empty() ? "" : what + " ") +
                       "meets the constraints";
-    if (worst.second > 0) {
+    if (worst.second == 0 && what.empty()) {
+        // One topology, and no constraint removed any: every combination left the output unchanged.
+        const std::vector<double> values = series_values(spec.series, spec.range_lo_ohm, spec.range_hi_ohm);
+        msg = "no " + std::string(series_name(spec.series)) + " combination gives an output that changes over the span; the values searched run from " +
+              format_resistance(values.front()) + " to " + format_resistance(values.back()) +
+              " ohm, out of reach of the thermistor";
+    } else {
         msg += ": " + worst.first + " removed " + std::to_string(worst.second) + " of " + std::to_string(s.examined) +
                " combinations" + others;
     }
@@ -524,7 +530,7 @@ void setup_size(CLI::App& app) {
                             "  rtline size --r25 10k --beta 3950 --span -20:60 --circuit shunt-divider --series E96 "
                             "--min-span 0.3\n"
                             "  rtline size --r25 10k --beta 3950 --span -30:5 --compare --excitation 3.3 --max-power 1m\n"
-                            "Exit code 1 when no combination meets the constraints.\n\n") +
+                            "\n") +
                 kSafetyNote);
     sub->callback([opt] { run_size(*opt); });
 }

@@ -284,7 +284,12 @@ void run_table(const TableCommand& o) {
     refuse_unreadable(o.circuit);
     Result r{build_model(o.model), build_span(o.span), {}, {}, {}, {}, {}, target_k};
     r.circuit = build_circuit(o.circuit, r.thermistor, r.span);
-    r.map = map_codes(r.thermistor, r.circuit, r.span, bits);
+    try {
+        r.map = map_codes(r.thermistor, r.circuit, r.span, bits);
+    } catch (const InputError& e) {
+        if (e.field() != "--span") throw;
+        throw InputError("--span", o.span.span, e.why());  // quoted as typed, not as kelvin turned back into °C
+    }
     r.table_searched = target_k && !entries;
     r.degree_searched = target_k && want_poly && !degree;
     if (r.table_searched) {

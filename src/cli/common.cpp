@@ -1,6 +1,7 @@
 #include "common.hpp"
 
 #include <cmath>
+#include <filesystem>
 #include <fstream>
 #include <iostream>
 #include <iterator>
@@ -24,11 +25,17 @@ std::string read_text(const std::string& path, const std::string& field) {
         ss << std::cin.rdbuf();
         return ss.str();
     }
+    std::error_code ec;
+    if (std::filesystem::is_directory(path, ec)) throw InputError(field, path, "is a folder, not a file");
     std::ifstream in(path, std::ios::binary);
     if (!in) throw InputError(field, path, "cannot be opened");
-    std::string text((std::istreambuf_iterator<char>(in)), std::istreambuf_iterator<char>());
-    if (in.bad()) throw InputError(field, path, "cannot be read");
-    return text;
+    try {
+        std::string text((std::istreambuf_iterator<char>(in)), std::istreambuf_iterator<char>());
+        if (in.bad()) throw InputError(field, path, "cannot be read");
+        return text;
+    } catch (const std::ios_base::failure&) {
+        throw InputError(field, path, "cannot be read");
+    }
 }
 
 double optional_quantity(const std::string& text, const std::string& field, const std::string& unit,
@@ -170,6 +177,17 @@ double build_step(const SpanOptions& o) {
     const double step = parse_number(s, "--step");
     if (!(step > 0.0)) throw InputError("--step", o.step, "the step must be a positive number of kelvin");
     return step;
+}
+
+Grid build_grid(const Thermistor& model, const Span& span, const SpanOptions& o) {
+    const double step = build_step(o);
+    try {
+        return make_grid(model, span, step);
+    } catch (const InputError& e) {
+        if (e.field() == "--span") throw InputError("--span", o.span, e.why());
+        if (e.field() == "--step") throw InputError("--step", o.step, e.why());
+        throw;
+    }
 }
 
 // ------------------------------------------------------------------------------------ circuit

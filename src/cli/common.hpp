@@ -8,6 +8,7 @@
 
 #include "report.hpp"
 #include "rtline/analysis.hpp"
+#include "rtline/grid.hpp"
 #include "rtline/thermistor.hpp"
 
 namespace rtline::cli {
@@ -38,6 +39,8 @@ struct SpanOptions {
 void add_span_options(CLI::App& app, SpanOptions& o);
 [[nodiscard]] Span build_span(const SpanOptions& o);
 [[nodiscard]] double build_step(const SpanOptions& o);
+// make_grid over `span` at the --step, its errors quoting --span and --step as the user typed them.
+[[nodiscard]] Grid build_grid(const Thermistor& model, const Span& span, const SpanOptions& o);
 
 struct CircuitOptions {
     std::string circuit;

@@ -12,38 +12,6 @@
 
 namespace {
 
-void build_program(CLI::App& app) {
-    app.description(
-        "rtline designs NTC thermistor linearization circuits: thermistor models and fits, divider, shunt\n"
-        "and bridge networks checked against a straight line, resistor sizing with standard values.");
-    app.name("rtline");
-    app.set_version_flag("--version", std::string("rtline ") + RTLINE_VERSION);
-    app.require_subcommand(1);
-    // A flag given twice keeps its last value: the command line overrides a spec file.
-    app.option_defaults()->multi_option_policy(CLI::MultiOptionPolicy::TakeLast);
-    app.get_formatter()->label("TEXT", "VALUE");
-    app.footer(std::string("Every command also takes --spec FILE (a JSON object of flag values, '-' for stdin) and\n"
-                           "--jsonl (one spec per stdin line, one JSON result per stdout line).\n"
-                           "Exit codes: 0 success, 1 no design meets the constraints, 2 bad input or usage, "
-                           "3 internal error.\n\n") +
-               rtline::cli::kSafetyNote);
-    rtline::cli::setup_model(app);
-    rtline::cli::setup_fit(app);
-    rtline::cli::setup_check(app);
-    rtline::cli::setup_size(app);
-    rtline::cli::setup_table(app);
-    rtline::cli::setup_budget(app);
-    for (CLI::App* sub : app.get_subcommands({})) {
-        // Declared for --help; read_invocation() takes both out of the arguments before parsing.
-        sub->add_option("--spec", "JSON spec: keys are the long flag names with _ for - ('-' reads stdin)")
-            ->type_name("FILE")
-            ->group("Input");
-        sub->add_option("--jsonl", "Batch: one JSON spec per stdin line, one JSON result per stdout line")
-            ->expected(0)
-            ->group("Input");
-    }
-}
-
 // The command line with --spec and --jsonl taken out and a spec's flags put in front of the user's.
 struct Invocation {
     std::vector<std::string> args;  // in order, without the program name
@@ -82,13 +50,13 @@ Invocation read_invocation(int argc, char** argv, CLI::App& app) {
 
 int run(int argc, char** argv) {
     CLI::App app;
-    build_program(app);
+    rtline::cli::build_program(app);
     Invocation inv = read_invocation(argc, argv, app);
     if (inv.jsonl) {
         if (!inv.spec_path.empty()) throw rtline::InputError("--spec", inv.spec_path, "not with --jsonl (specs come on stdin)");
         const std::vector<std::string> extra(inv.args.begin() + 1, inv.args.end());
         std::string out;
-        const int code = rtline::cli::run_batch(inv.command, extra, rtline::cli::read_text("-", "--jsonl"), build_program, out);
+        const int code = rtline::cli::run_batch(inv.command, extra, rtline::cli::read_text("-", "--jsonl"), rtline::cli::build_program, out);
         std::cout << out;
         return code;
     }

@@ -1,5 +1,6 @@
 #include "spec.hpp"
 
+#include <algorithm>
 #include <filesystem>
 #include <sstream>
 
@@ -15,40 +16,62 @@ std::string key_field(const std::string& key) { return "spec key '" + key + "'";
 // A number as its shortest round-trip text (nlohmann's formatting).
 std::string number_text(const Json& v) { return v.dump(); }
 
+// doc[key] of an rtline document, where it must be a JSON object (when `key` is absent: null).
+const Json* object_at(const Json& doc, const std::string& key, const std::string& path) {
+    if (!doc.contains(key)) return nullptr;
+    if (!doc[key].is_object()) throw InputError(key_field(path), doc[key].dump(), "expected a JSON object");
+    return &doc[key];
+}
+
+// The number doc[key] of an rtline document, which must be there.
+const Json& number_at(const Json& doc, const std::string& key, const std::string& path) {
+    if (!doc.contains(key)) throw InputError(key_field(path), "", "is missing from the rtline document");
+    if (!doc[key].is_number()) throw InputError(key_field(path), doc[key].dump(), "expected a number");
+    return doc[key];
+}
+
 // A design document rtline wrote (it opens with "tool": "rtline"): the flat spec of its design.
 Json design_of(const Json& doc) {
     Json flat = Json::object();
-    if (doc.contains("model") && doc["model"].is_object()) {
-        const Json& m = doc["model"];
-        const std::string kind = m.value("kind", "");
+    if (const Json* m = object_at(doc, "model", "model")) {
+        const Json kind = m->contains("kind") ? (*m)["kind"] : Json("");
         if (kind == "beta") {
-            flat["r25"] = m.at("r0_ohm");
-            flat["beta"] = m.at("b_k");
-            flat["t0"] = m.at("t0_c");
+            flat["r25"] = number_at(*m, "r0_ohm", "model.r0_ohm");
+            flat["beta"] = number_at(*m, "b_k", "model.b_k");
+            flat["t0"] = number_at(*m, "t0_c", "model.t0_c");
         } else if (kind == "steinhart-hart") {
-            flat["sh"] = number_text(m.at("a")) + "," + number_text(m.at("b")) + "," + number_text(m.at("c"));
+            flat["sh"] = number_text(number_at(*m, "a", "model.a")) + "," + number_text(number_at(*m, "b", "model.b")) +
+                         "," + number_text(number_at(*m, "c", "model.c"));
+        } else if (kind == "table") {
+            throw InputError("--spec", "table", "a design with a table model cannot be read back; give --points");
         } else {
-            throw InputError("--spec", kind, "a design with a table model cannot be read back; give --points");
+            throw InputError(key_field("model.kind"), kind.is_string() ? kind.get<std::string>() : kind.dump(),
+                             "expected beta, steinhart-hart or table");
         }
     }
-    if (doc.contains("span") && doc["span"].is_object()) {
-        flat["span"] = number_text(doc["span"].at("lo_c")) + ":" + number_text(doc["span"].at("hi_c"));
+    if (const Json* span = object_at(doc, "span", "span")) {
+        flat["span"] = number_text(number_at(*span, "lo_c", "span.lo_c")) + ":" +
+                       number_text(number_at(*span, "hi_c", "span.hi_c"));
     }
     // The circuit: from "circuit", with the resistors of the first candidate of a size result.
-    Json circuit = doc.contains("circuit") ? doc["circuit"] : Json::object();
+    Json circuit = doc.contains("circuit") ? *object_at(doc, "circuit", "circuit") : Json::object();
     if (doc.contains("candidates") && doc["candidates"].is_array() && !doc["candidates"].empty()) {
-        circuit["resistors_ohm"] = doc["candidates"][0].at("resistors_ohm");
-        circuit["topology"] = doc["candidates"][0].at("topology");
+        const Json& first = doc["candidates"][0];
+        if (!first.is_object()) throw InputError(key_field("candidates"), first.dump(), "expected JSON objects");
+        if (!first.contains("resistors_ohm") || !first.contains("topology")) {
+            throw InputError(key_field("candidates"), "", "the first candidate has no topology and resistors_ohm");
+        }
+        circuit["resistors_ohm"] = first["resistors_ohm"];
+        circuit["topology"] = first["topology"];
     }
     if (circuit.contains("topology")) flat["circuit"] = circuit["topology"];
-    if (circuit.contains("resistors_ohm")) {
-        for (const auto& [name, value] : circuit["resistors_ohm"].items()) flat[name] = value;
+    if (const Json* r = object_at(circuit, "resistors_ohm", "resistors_ohm")) {
+        for (const auto& [name, value] : r->items()) flat[name] = value;
     }
     if (circuit.contains("load_ohm")) flat["load"] = circuit["load_ohm"];
-    if (circuit.contains("drive")) {
-        const Json& d = circuit["drive"];
-        if (d.contains("excitation_v")) flat["excitation"] = d["excitation_v"];
-        if (d.contains("current_a")) flat["current"] = d["current_a"];
+    if (const Json* d = object_at(circuit, "drive", "circuit.drive")) {
+        if (d->contains("excitation_v")) flat["excitation"] = (*d)["excitation_v"];
+        if (d->contains("current_a")) flat["current"] = (*d)["current_a"];
     }
     if (doc.contains("line") && doc["line"].is_string()) flat["line"] = doc["line"];
     return flat;
@@ -63,6 +86,12 @@ Json parse_spec(const std::string& text, const std::string& field, const std::st
     } catch (const nlohmann::json::parse_error& e) {
         throw InputError(field, source,
                          "is not valid JSON (at byte " + std::to_string(e.byte) + ")");
+    } catch (const nlohmann::json::out_of_range& e) {
+        // nlohmann's only range error while parsing: a number beyond a double ("... parsing '1e400'").
+        const std::string what = e.what();
+        const std::size_t open = what.find("parsing '");
+        const std::string number = open == std::string::npos ? std::string() : what.substr(open + 9, what.size() - open - 10);
+        throw InputError(field, source, "holds a number too large for a double" + (number.empty() ? "" : " (" + number + ")"));
     }
 }
 
@@ -118,15 +147,17 @@ int run_batch(const std::string& command, const std::vector<std::string>& extra,
             CLI::App app;
             build(app);
             CLI::App* sub = app.get_subcommand(command);
-            const Json spec = parse_spec(line, "line " + std::to_string(line_no), "");
+            const std::string where = "line " + std::to_string(line_no);
+            const Json spec = parse_spec(line, where, "");
+            if (!spec.is_object()) throw InputError(where, spec.type_name(), "a spec must be a JSON object");
             std::vector<std::string> args = {command};
             for (std::string& a : spec_arguments(spec, *sub)) args.push_back(std::move(a));
             for (const std::string& a : extra) args.push_back(a);
             for (std::size_t i = 0; i < args.size(); ++i) {
                 const std::string& a = args[i];
                 if (a == "-o" || a == "--output" || a.rfind("--output=", 0) == 0) {
-                    const std::string path = a.size() > 9 ? a.substr(9) : (i + 1 < args.size() ? args[i + 1] : "");
-                    throw InputError("--output", path, "not with --jsonl: each result is one line on stdout");
+                    const std::string file = a.rfind("--output=", 0) == 0 ? a.substr(9) : i + 1 < args.size() ? args[i + 1] : "";
+                    throw InputError(a == "-o" ? "-o" : "--output", file, "not with --jsonl: each result is one line on stdout");
                 }
                 if (a == "--svg" || a.rfind("--svg=", 0) == 0) {
                     const std::string path = a.size() > 6 ? a.substr(6) : (i + 1 < args.size() ? args[i + 1] : "");
@@ -144,13 +175,17 @@ int run_batch(const std::string& command, const std::vector<std::string>& extra,
             result = Json::parse(bytes);
         } catch (const CLI::ParseError& e) {
             result = {{"line", line_no}, {"error", e.what()}};
-            code = 2;
+            code = std::max(code, 2);
         } catch (const InputError& e) {
             result = {{"line", line_no}, {"error", e.what()}};
-            code = 2;
+            code = std::max(code, 2);
         } catch (const InfeasibleError& e) {
             result = {{"line", line_no}, {"error", e.what()}, {"infeasible", true}};
             if (code == 0) code = 1;
+        } catch (const std::exception& e) {
+            // A fault in one line must not lose the others' results: report it and go on.
+            result = {{"line", line_no}, {"error", std::string("internal error: ") + e.what()}};
+            code = 3;
         }
         output += result.dump() + "\n";
     }

@@ -25,7 +25,8 @@ namespace rtline::cli {
 // Runs a JSON Lines batch for `command`: one spec per line of `input`, one compact JSON result per line
 // of the returned text, in order; a bad line becomes {"line": N, "error": "..."}. `extra` are the
 // command line's own flags (they override each line's). `build` makes a fresh program to parse with.
-// Returns the exit code: 2 when any line was bad input, else 1 when any had no feasible design, else 0.
+// Returns the exit code: 3 when any line met an internal error (reported as {"line": N, "error":
+// "internal error: ..."}), else 2 when any was bad input, else 1 when any had no feasible design, else 0.
 int run_batch(const std::string& command, const std::vector<std::string>& extra, const std::string& input,
               const std::function<void(CLI::App&)>& build, std::string& output);
 

@@ -1,5 +1,6 @@
 #include "rtline/analysis.hpp"
 
+#include <algorithm>
 #include <cmath>
 
 #include "rtline/error.hpp"
@@ -22,7 +23,10 @@ Analysis analyze(const Grid& grid, const Thermistor& model, const Circuit& circu
         y[i] = ops[i].output;
     }
     const double fs = full_scale(y);
-    if (!(fs > 0.0) || !std::isfinite(fs)) {
+    // Zero, or at rounding level next to the output itself (a current forced through a divider-high
+    // gives I·rs at every temperature, its ends differing by ~1e-16 of it): no full scale to divide by.
+    const double level = std::max(std::abs(y.front()), std::abs(y.back()));
+    if (!(fs > 1e-12 * level) || !std::isfinite(fs)) {
         throw InputError("--circuit", std::string(topology_name(circuit.topology)),
                          "the output does not change over the span (zero full-scale output)");
     }

@@ -170,7 +170,9 @@ std::string output_unit(const Circuit& c) {
 double parallel(double a, double b) {
     if (std::isinf(a)) return b;
     if (std::isinf(b)) return a;
-    return a * b / (a + b);
+    const double p = a * b / (a + b);
+    // a·b overflows (or underflows) for very large (small) resistances; the reciprocal form does not.
+    return std::isnormal(p) ? p : 1.0 / (1.0 / a + 1.0 / b);
 }
 
 OperatingPoint operate(const Circuit& c, double r_t) {

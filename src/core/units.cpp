@@ -4,6 +4,7 @@
 #include <charconv>
 #include <cmath>
 #include <cstdio>
+#include <limits>
 #include <string>
 
 #include "rtline/error.hpp"
@@ -37,6 +38,18 @@ bool read_number(std::string_view s, double& out) {
     return ec == std::errc() && ptr == last && std::isfinite(out);
 }
 
+// A finite result a double cannot hold to full precision (a subnormal) or at all (an overflow after
+// a multiplier) is refused with its own reason; the callers have already checked the syntax.
+void require_representable(double value, std::string_view field, std::string_view text) {
+    if (!std::isfinite(value)) {
+        throw InputError(std::string(field), std::string(text), "is too large for a double");
+    }
+    if (value != 0.0 && std::abs(value) < std::numeric_limits<double>::min()) {
+        throw InputError(std::string(field), std::string(text),
+                         "is too close to zero for a double (the smallest is about 2.2e-308)");
+    }
+}
+
 bool all_digits(std::string_view s) {
     for (const char c : s) {
         if (c < '0' || c > '9') return false;
@@ -61,6 +74,7 @@ double parse_number(std::string_view text, std::string_view field) {
     if (!read_number(trim(text), value)) {
         throw InputError(std::string(field), std::string(text), "expected a finite number");
     }
+    require_representable(value, field, text);
     return value;
 }
 
@@ -114,9 +128,8 @@ double parse_resistance(std::string_view text, std::string_view field) {
             value *= mult;
         }
     }
-    if (!std::isfinite(value) || value <= 0.0) {
-        throw InputError(f, t, "a resistance must be positive");
-    }
+    if (value <= 0.0) throw InputError(f, t, "a resistance must be positive");
+    require_representable(value, field, text);
     return value;
 }
 
@@ -145,6 +158,7 @@ double parse_quantity(std::string_view text, std::string_view field, std::string
         if (!unit.empty()) example += ", e.g. 100u" + std::string(unit) + " or 0.5";
         throw InputError(std::string(field), std::string(text), "expected " + example);
     }
+    require_representable(value * mult, field, text);
     return value * mult;
 }
 
@@ -216,6 +230,9 @@ std::string format_resistance(double ohms, int digits) {
     if (!std::isfinite(ohms) || ohms <= 0.0) return format_number(ohms, digits);
     // Round to the significant figures first, so 999.96 becomes 1k and not 1000.
     const double rounded = std::stod(format_number(ohms, digits));
+    // Beyond the letter code's reach (%.9f keeps nine decimals; G is the largest letter) the number
+    // is written in exponent form, which parse_resistance reads back: 1e-12, 5e+15.
+    if (rounded < 1e-3 || rounded >= 1e12) return format_number(rounded, digits);
     struct Scale {
         double factor;
         char letter;

@@ -1,0 +1,45 @@
+#!/usr/bin/env bash
+# Builds the libFuzzer targets (clang, with AddressSanitizer and UndefinedBehaviorSanitizer) and runs
+# each for a bounded time, starting from the seed corpus in fuzz/corpus/<target>/. Fails on any crash,
+# leak, timeout or sanitizer report; the input that caused
+# it is kept as build-fuzz/<target>-crash-* (or -leak-*, -timeout-*).
+#   bash fuzz/run.sh                         # 60 s per target
+#   RTLINE_FUZZ_SECONDS=600 bash fuzz/run.sh  # longer
+# The seed corpus is left as it is: new inputs a run finds go to a scratch folder and are discarded.
+set -euo pipefail
+cd "$(dirname "$0")/.."
+seconds=${RTLINE_FUZZ_SECONDS:-60}
+build=build-fuzz
+targets=(values rtcsv spec)
+jobs=$(nproc 2>/dev/null || echo 2)
+
+# -O1 with line tables: stack traces name the line, and the instrumented build stays quick to compile.
+cmake -S . -B "$build" -DCMAKE_CXX_COMPILER=clang++ -DCMAKE_BUILD_TYPE=RelWithDebInfo \
+      -DCMAKE_CXX_FLAGS_RELWITHDEBINFO="-O1 -gline-tables-only" -DRTLINE_FUZZ=ON -DRTLINE_BUILD_TESTS=OFF >&2
+cmake --build "$build" -j"$jobs" --target "${targets[@]/#/fuzz_}" >&2
+
+scratch=$(mktemp -d)
+trap 'rm -rf "$scratch"' EXIT
+failed=0
+for t in "${targets[@]}"; do
+  log="$build/fuzz-$t.log"
+  mkdir -p "$scratch/$t"
+  status=0
+  ASAN_OPTIONS=detect_leaks=1 "$build/fuzz/fuzz_$t" -max_total_time="$seconds" -timeout=10 -rss_limit_mb=2048 \
+      -print_final_stats=1 -dict="fuzz/$t.dict" -artifact_prefix="$build/$t-" \
+      "$scratch/$t" "fuzz/corpus/$t" >"$log" 2>&1 || status=$?
+  # A sanitizer report is a failure even if the process somehow exited 0.
+  if [ "$status" -eq 0 ] && grep -q -E 'ERROR: (Address|Leak|UndefinedBehavior)Sanitizer|runtime error:|fuzz property failed' "$log"; then
+    status=1
+  fi
+  execs=$(sed -n 's/^stat::number_of_executed_units: *//p' "$log" | tail -1)
+  if [ "$status" -eq 0 ]; then
+    echo "fuzz: $t: ${execs:-?} executions in $seconds s; no crash, leak or sanitizer report"
+  else
+    echo "fuzz: $t: FAILED (exit $status) after ${execs:-?} executions; the end of $log:"
+    tail -n 40 "$log"
+    failed=$((failed + 1))
+  fi
+done
+echo "fuzz: $(( ${#targets[@]} - failed )) passed, $failed failed"
+[ "$failed" -eq 0 ]

@@ -1,0 +1,309 @@
+// The catalogue of malformed input (issue 8): every command refuses a mistyped value, a broken R–T
+// file, a broken spec file or a broken JSON Lines batch with exit code 2, exactly one line on stderr
+// naming the flag or field and the offending value, and nothing on stdout. The messages are checked
+// whole: they are what an engineer reads. Files are given on stdin ('-'), so they are named "stdin".
+#include <doctest/doctest.h>
+
+#include <algorithm>
+#include <string>
+#include <vector>
+
+#include "support.hpp"
+
+using nlohmann::json;
+using rtline::test::run_rtline;
+
+namespace {
+
+struct BadInput {
+    const char* mistake;            // what the user got wrong
+    std::vector<std::string> args;  // the command line
+    std::string message;            // stderr without the "rtline: " prefix and the newline
+    std::string input = "";         // stdin (an R–T file or a spec)
+};
+
+std::string joined(const std::vector<std::string>& args) {
+    std::string s;
+    for (const std::string& a : args) s += " " + a;
+    return s;
+}
+
+void check_refused(const std::vector<BadInput>& cases) {
+    for (const BadInput& c : cases) {
+        INFO(c.mistake << ": rtline" << joined(c.args));
+        const auto r = run_rtline(c.args, c.input);
+        CHECK(r.code == 2);
+        CHECK(r.out.empty());
+        CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
+        CHECK(r.err == "rtline: " + c.message + "\n");
+    }
+}
+
+// A command line with the flags common to a case spliced in.
+std::vector<std::string> with(std::vector<std::string> base, const std::vector<std::string>& more) {
+    base.insert(base.end(), more.begin(), more.end());
+    return base;
+}
+
+const std::vector<std::string> kModel = {"model", "--r25", "10k", "--beta", "3950"};
+const std::vector<std::string> kCheck = {"check", "--r25", "10k", "--beta", "3950", "--span", "0:50", "--circuit"};
+const std::vector<std::string> kTable = {"table", "--r25", "10k", "--beta", "3950", "--span", "0:45",
+                                         "--circuit", "divider-low", "--rs", "10k"};
+const std::vector<std::string> kSize = {"size", "--r25", "10k", "--beta", "3950", "--span", "0:50", "--circuit",
+                                        "divider-low"};
+
+const std::string kResistance = "expected a resistance such as 470, 4k7, 10k or 1M5";
+const std::string kTemperature = "expected a temperature in \xC2\xB0" "C (e.g. -40 or 25) or in kelvin (e.g. 298.15K)";
+const std::string kBelowZero = "is at or below absolute zero (-273.15 \xC2\xB0" "C)";
+const std::string kKeys = "(keys are the long flag names with _ for -)";
+
+}  // namespace
+
+TEST_CASE("a mistyped resistance, B-value, temperature or step is refused by its flag and its text") {
+    check_refused({
+        {"a negative resistance", with(kModel, {"--r25", "-10k", "--span", "0:50"}),
+         "--r25 '-10k': a resistance must be positive"},
+        {"a zero resistance", with(kCheck, {"divider-low", "--rs", "0"}), "--rs '0': a resistance must be positive"},
+        {"a zero load", with(kCheck, {"divider-low", "--rs", "10k", "--load", "0"}),
+         "--load '0': a resistance must be positive"},
+        {"a negative B-value", {"model", "--r25", "10k", "--beta", "-3950", "--span", "0:50"},
+         "--beta '-3950': the B-value of an NTC must be positive (kelvin)"},
+        {"a zero B-value", {"model", "--r25", "10k", "--beta", "0", "--span", "0:50"},
+         "--beta '0': the B-value of an NTC must be positive (kelvin)"},
+        {"a reversed span", with(kModel, {"--span", "50:0"}), "--span '50:0': the low end must be below the high end"},
+        {"a span with equal ends", with(kModel, {"--span", "25:25"}),
+         "--span '25:25': the low end must be below the high end"},
+        {"an empty span", with(kModel, {"--span", ""}), "--span: expected LO:HI in \xC2\xB0" "C, e.g. -30:5 or 0:100"},
+        {"a span below absolute zero", with(kModel, {"--span", "-300:0"}), "--span '-300:0': " + kBelowZero},
+        {"a negative kelvin temperature", with(kModel, {"--span", "-5K:300K"}), "--span '-5K:300K': " + kBelowZero},
+        {"a reference temperature below absolute zero", with(kModel, {"--span", "0:50", "--t0", "-274"}),
+         "--t0 '-274': " + kBelowZero},
+        {"a bridge null below absolute zero", with(kCheck, {"bridge", "--r1", "10k", "--null-at", "-300"}),
+         "--null-at '-300': " + kBelowZero},
+        {"a zero step", with(kModel, {"--span", "0:50", "--step", "0"}),
+         "--step '0': the step must be a positive number of kelvin"},
+        {"a negative step", with(kModel, {"--span", "0:50", "--step", "-1"}),
+         "--step '-1': the step must be a positive number of kelvin"},
+        // 50 K / 1e-6 K = 5e7 points, past the grid's limit of 1e6 (kMaxGridPoints).
+        {"a step count past the limit", with(kModel, {"--span", "0:50", "--step", "1e-6"}),
+         "--step '1e-6': gives more than 1000000 points over the span"},
+        {"NaN as a resistance", with(kCheck, {"divider-low", "--rs", "nan"}), "--rs 'nan': " + kResistance},
+        {"NaN as a B-value", {"model", "--r25", "10k", "--beta", "NaN", "--span", "0:50"},
+         "--beta 'NaN': expected a finite number"},
+        {"infinity as a step", with(kModel, {"--span", "0:50", "--step", "inf"}), "--step 'inf': expected a finite number"},
+        {"infinity as a span end", with(kModel, {"--span", "-inf:5"}), "--span '-inf:5': " + kTemperature},
+        {"infinity as a voltage", with(kCheck, {"divider-low", "--rs", "10k", "--excitation", "inf"}),
+         "--excitation 'inf': expected a number with an optional SI prefix, e.g. 100uV or 0.5"},
+        {"a value that overflows after its prefix", with(kCheck, {"divider-low", "--rs", "10k", "--excitation", "1e308G"}),
+         "--excitation '1e308G': is too large for a double"},
+        {"a subnormal resistance", with(kModel, {"--r25", "1e-320", "--span", "0:50"}),
+         "--r25 '1e-320': is too close to zero for a double (the smallest is about 2.2e-308)"},
+        {"two multipliers in one value", with(kModel, {"--r25", "4k7k", "--span", "0:50"}),
+         "--r25 '4k7k': two multiplier letters in one value"},
+        {"two different multipliers", with(kCheck, {"divider-low", "--rs", "1k5M"}),
+         "--rs '1k5M': two multiplier letters in one value"},
+        {"milli for a resistance", with(kCheck, {"divider-low", "--rs", "10m"}),
+         "--rs '10m': 'm' would mean milli; resistances take R, k, M or G"},
+        {"a zero excitation", with(kCheck, {"divider-low", "--rs", "10k", "--excitation", "0"}),
+         "--excitation '0': must be a positive value"},
+        {"Steinhart-Hart with two coefficients", {"model", "--sh", "1e-3,2e-4", "--span", "0:50"},
+         "--sh '1e-3,2e-4': expected three numbers A,B,C, e.g. 1.1e-3,2.4e-4,7.5e-8"},
+        {"a negative dissipation constant", with(kCheck, {"divider-low", "--rs", "10k", "--dissipation", "-1"}),
+         "--dissipation '-1': the dissipation constant must be positive (mW/K)"},
+    });
+}
+
+TEST_CASE("an unknown name, count or ADC width is refused by its flag and its text") {
+    check_refused({
+        {"an unknown circuit", with(kCheck, {"divider"}),
+         "--circuit 'divider': unknown circuit; choose bare, divider-high, divider-low, shunt, shunt-divider, bridge "
+         "or shunt-bridge"},
+        {"an unknown series", with(kSize, {"--series", "E25"}),
+         "--series 'E25': unknown series; choose E3, E6, E12, E24, E48, E96 or E192"},
+        {"an unknown format", with(kModel, {"--span", "0:50", "--format", "xml"}),
+         "--format 'xml': unknown format; choose text, json or csv"},
+        {"an unknown reference line", with(kCheck, {"divider-low", "--rs", "10k", "--line", "straight"}),
+         "--line 'straight': unknown line; choose endpoint, best-fit or minimax"},
+        {"an unknown table spacing", with(kTable, {"--spacing", "log"}),
+         "--spacing 'log': unknown spacing; choose code (evenly spaced codes) or error (equal error per segment)"},
+        {"an unknown polynomial fit", with(kTable, {"--degree", "3", "--fit", "spline"}),
+         "--fit 'spline': unknown fit; choose least-squares or minimax"},
+        {"an unknown fit model", {"fit", "--points", "-", "--model", "table"},
+         "--model 'table': fit takes sh (Steinhart-Hart) or beta", "t_c,r_ohm\n0,32k\n25,10k\n50,3k6\n"},
+        {"an unknown flag", with(kModel, {"--span", "0:50", "--colour"}),
+         "The following argument was not expected: --colour (see rtline --help)"},
+        {"a flag without its value", with(kModel, {"--span", "0:50", "--step"}),
+         "--step: 1 required TEXT missing (see rtline --help)"},
+        {"an ADC of zero bits", with(kTable, {"--adc-bits", "0"}), "--adc-bits '0': an ADC has 1 to 24 bits"},
+        {"an ADC wider than 24 bits", with(kTable, {"--adc-bits", "25"}), "--adc-bits '25': an ADC has 1 to 24 bits"},
+        {"a fractional ADC width", with(kTable, {"--adc-bits", "12.5"}),
+         "--adc-bits '12.5': a bit count must be a whole number"},
+        {"a negative count of candidates", with(kSize, {"--top", "-1"}),
+         "--top '-1': expected a whole number from 1 to 1000"},
+        {"a negative count of table entries", with(kTable, {"--entries", "-5"}),
+         "--entries '-5': a table needs at least 2 entries"},
+        {"a negative polynomial degree", with(kTable, {"--degree", "-1"}), "--degree '-1': choose a degree from 1 to 12"},
+        {"a negative error target", with(kTable, {"--max-error", "-0.1"}),
+         "--max-error '-0.1': the largest error must be positive (\xC2\xB0" "C)"},
+        {"a fixed-point unit that is neither 0.1 nor 0.01", with(kTable, {"--unit", "0.5"}),
+         "--unit '0.5': choose 0.1 or 0.01 (\xC2\xB0" "C per count of the fixed-point table)"},
+        {"a reversed resistor range", with(kSize, {"--range", "10M:1"}),
+         "--range '10M:1': the low end must be below the high end"},
+    });
+}
+
+TEST_CASE("a model that cannot describe the span, or a circuit whose output does not change, is refused") {
+    check_refused({
+        // R(-200 °C) = 10k·exp(1e6·(1/73.15 − 1/298.15)) = 10k·e^10317 (by hand): beyond a double's 1.8e308.
+        {"a model that overflows a double", {"model", "--r25", "10k", "--beta", "1e6", "--span", "-200:50"},
+         "--span '-200:50': the model's resistance overflows a double over this span"},
+        // d(1/T)/d ln R = B + 3C·ln²R = 2e-4 − 3e-5·ln²R is positive only for |ln R| < 2.58; there
+        // 1/T reaches at most 1e-3 + 2e-4·2.58 − 1e-5·2.58³ = 1.34e-3, i.e. T ≥ 745 K (by hand), so no
+        // monotonic branch covers -50 to 150 °C.
+        {"Steinhart-Hart coefficients not monotonic over the span",
+         {"model", "--sh", "1e-3,2e-4,-1e-5", "--span", "-50:150"},
+         "--span '-50:150': the Steinhart-Hart coefficients do not give a resistance that falls monotonically with "
+         "temperature over this span"},
+        {"the same coefficients in check", with({"check", "--sh", "1e-3,2e-4,-1e-5", "--span", "-50:150", "--circuit"},
+                                                {"divider-low", "--rs", "10k"}),
+         "--span '-50:150': the Steinhart-Hart coefficients do not give a resistance that falls monotonically with "
+         "temperature over this span"},
+        {"the same coefficients in size", {"size", "--sh", "1e-3,2e-4,-1e-5", "--span", "-50:150", "--circuit", "shunt"},
+         "--span '-50:150': the Steinhart-Hart coefficients do not give a resistance that falls monotonically with "
+         "temperature over this span"},
+        {"the same coefficients in table",
+         {"table", "--sh", "1e-3,2e-4,-1e-5", "--span", "-50:150", "--circuit", "divider-low", "--rs", "10k"},
+         "--span '-50:150': the Steinhart-Hart coefficients do not give a resistance that falls monotonically with "
+         "temperature over this span"},
+        // A current source forces I through rs whatever R_T is: the output is I·rs = 1 V at every
+        // temperature (by hand), a zero full-scale output that %FSD would divide by.
+        {"a zero full-scale output", with(kCheck, {"divider-high", "--rs", "10k", "--current", "100u"}),
+         "--circuit 'divider-high': the output does not change over the span (zero full-scale output)"},
+    });
+}
+
+TEST_CASE("a broken R-T file is refused by its line, its column and the field's text") {
+    const std::vector<std::string> fit = {"fit", "--points", "-"};
+    check_refused({
+        {"a resistance that rises with temperature", fit,
+         "stdin:4:2 '11000 ohm': the resistance at 50 C does not fall below that at 25 C (line 3); an NTC's must fall "
+         "strictly",
+         "t_c,r_ohm\n0,32k\n25,10k\n50,11k\n"},
+        {"a resistance that stays the same", fit,
+         "stdin:4:2 '10000 ohm': the resistance at 50 C does not fall below that at 25 C (line 3); an NTC's must fall "
+         "strictly",
+         "t_c,r_ohm\n0,32k\n25,10k\n50,10k\n"},
+        {"a duplicate temperature", fit, "stdin:4:1 '25 C': duplicate temperature (also on line 3)",
+         "t_c,r_ohm\n0,32k\n25,10k\n25,9k\n"},
+        {"an empty file", fit, "stdin: contains no R-T points", ""},
+        {"a file of comments only", fit, "stdin: contains no R-T points", "# freezer room sensor\n\n"},
+        {"a binary file", fit, "stdin:1: is not a text file (a NUL byte at byte 3 of the line)",
+         std::string("PK\0\x03\x04", 5)},
+        {"a negative resistance", fit, "stdin:3:2 '-10k': a resistance must be positive", "t_c,r_ohm\n0,32k\n25,-10k\n"},
+        {"a temperature below absolute zero", fit, "stdin:3:1 '-300': is at or below absolute zero (-273.15 C)",
+         "t_c,r_ohm\n0,32k\n-300,10k\n"},
+        {"NaN as a resistance", fit, "stdin:3:2 'nan': " + kResistance, "t_c,r_ohm\n0,32k\n25,nan\n"},
+        {"infinity as a temperature", fit, "stdin:3:1 'inf': expected a temperature (a plain number)",
+         "t_c,r_ohm\n0,32k\ninf,10k\n"},
+        {"an unknown column", fit,
+         "stdin:1:3 'ohms': unknown column; the header names t_c or t_k and r_ohm or r_kohm", "t_c,r_ohm,ohms\n"},
+        {"a row with an extra field", fit, "stdin:3:3 '25,10k,9': expected 2 fields, found 3",
+         "t_c,r_ohm\n0,32k\n25,10k,9\n"},
+        {"too few points for Steinhart-Hart", fit, "stdin '2 points': this model needs at least 3 R-T points",
+         "t_c,r_ohm\n0,32k\n25,10k\n"},
+        {"too few points for a beta fit", with(fit, {"--model", "beta"}),
+         "stdin '1 point': this model needs at least 2 R-T points", "t_c,r_ohm\n0,32k\n"},
+        // ln R = 1, 0, −1: the Steinhart-Hart matrix [1, L, L³] has determinant
+        // (L2−L1)(L3−L1)(L3−L2)(L1+L2+L3) = 0 (by hand), so no unique fit exists.
+        {"points that do not determine a Steinhart-Hart fit", fit,
+         "--points '3 points': the points do not determine a Steinhart-Hart fit (too few distinct resistances, or "
+         "collinear in ln R)",
+         "t_c,r_ohm\n0,2.718281828459045\n25,1\n50,0.36787944117144233\n"},
+        // Through 1e300, 1e-300 and 1e-301 ohm the exact coefficients are B < 0 with a large C: the
+        // curve turns back between the points (1/T against ln R is not monotonic).
+        {"a Steinhart-Hart fit that is not monotonic", fit,
+         "stdin '3 points': the Steinhart-Hart fit does not give a resistance that falls monotonically from 0 to 50 "
+         "\xC2\xB0" "C; check the points, or fit --model beta",
+         "t_c,r_ohm\n0,1e300\n25,1e-300\n50,1e-301\n"},
+        {"a table model asked outside its points", {"model", "--points", "-", "--model", "table", "--span", "0:60"},
+         "--span '0:60': outside the R-T table, which covers 0 to 50 \xC2\xB0" "C", "t_c,r_ohm\n0,32k\n25,10k\n50,3k6\n"},
+        {"a folder instead of a file", {"fit", "--points", rtline::test::source_dir()},
+         "--points '" + rtline::test::source_dir() + "': is a folder, not a file"},
+    });
+}
+
+TEST_CASE("a broken spec file is refused by its key or its position") {
+    const std::vector<std::string> model = {"model", "--spec", "-"};
+    check_refused({
+        {"an unknown key", model, "spec key 'colour': is not a key of 'model' " + kKeys,
+         R"({"r25": "10k", "beta": 3950, "span": "0:50", "colour": "red"})"},
+        {"a flag's name with a dash", model, "spec key 'null-at': is not a key of 'model' " + kKeys,
+         R"({"null-at": 10})"},
+        {"a list where a value goes", model, "spec key 'r25' '[\"10k\"]': expected a number or a string",
+         R"({"r25": ["10k"]})"},
+        {"null where a value goes", model, "spec key 'step' 'null': expected a number or a string", R"({"step": null})"},
+        {"a boolean where a value goes", model, "spec key 'format' 'true': expected a number or a string",
+         R"({"format": true})"},
+        {"a string where a switch goes", {"size", "--spec", "-"}, "spec key 'compare' '\"yes\"': expected true or false",
+         R"({"compare": "yes"})"},
+        // The text is 36 bytes long (counted by hand); nlohmann's parser reports the end of the input
+        // inside the string as byte 37.
+        {"truncated JSON", model, "--spec 'stdin': is not valid JSON (at byte 37)",
+         R"({"r25":"10k","beta":3950,"span":"0:5)"},
+        {"an empty spec file", model, "--spec 'stdin': is not valid JSON (at byte 1)", ""},
+        {"a binary spec file", model, "--spec 'stdin': is not a text file (NUL bytes)", std::string("{\0}", 3)},
+        {"a spec that is not an object", model, "--spec 'array': a spec must be a JSON object", "[1, 2]"},
+        {"a number beyond a double", model, "--spec 'stdin': holds a number too large for a double (1e400)",
+         R"({"r25": 1e400})"},
+        {"a spec naming another spec", model, "spec key 'spec': is not allowed inside a spec", R"({"spec": "x.json"})"},
+        {"a bad value inside a spec", model, "--beta '-1': the B-value of an NTC must be positive (kelvin)",
+         R"({"r25": "10k", "beta": -1, "span": "0:50"})"},
+        {"an rtline document without its model's values", model,
+         "spec key 'model.r0_ohm': is missing from the rtline document",
+         R"({"tool": "rtline", "model": {"kind": "beta"}})"},
+        {"an rtline document with an unknown model", model,
+         "spec key 'model.kind' 'spline': expected beta, steinhart-hart or table",
+         R"({"tool": "rtline", "model": {"kind": "spline"}})"},
+    });
+}
+
+TEST_CASE("a JSON Lines batch reports each bad line on stdout and goes on, exit code 2") {
+    const std::string good = R"({"r25": "10k", "beta": 3950, "span": "0:50", "step": 25})";
+    const std::string input = good + "\n" +                                  // line 1
+                              R"({"r25": "10k", "beta": -1, "span": "0:50"})" "\n"  // line 2: a bad value
+                              R"({"r25": "10k", "beta)" "\n"                       // line 3: truncated
+                              "\n"                                                 // line 4: blank, skipped
+                              R"({"r25": 1e999})" "\n"                             // line 5: beyond a double
+                              "[1]\n" +                                            // line 6: not an object
+                              good + "\n";                                         // line 7
+    const auto r = run_rtline({"model", "--jsonl"}, input);
+    INFO("stdout: " << r.out << "stderr: " << r.err);
+    CHECK(r.code == 2);
+    CHECK(r.err.empty());
+    std::vector<json> lines;
+    std::size_t start = 0;
+    for (std::size_t nl; (nl = r.out.find('\n', start)) != std::string::npos; start = nl + 1) {
+        lines.push_back(json::parse(r.out.substr(start, nl - start)));
+    }
+    REQUIRE(lines.size() == 6);
+    CHECK(lines[0]["command"] == "model");
+    CHECK(lines[0]["points"].size() == 3);  // 0, 25 and 50 °C
+    CHECK(lines[1] == json{{"line", 2}, {"error", "--beta '-1': the B-value of an NTC must be positive (kelvin)"}});
+    // Line 3 is 20 bytes (counted by hand); the parser meets the end of input as byte 21.
+    CHECK(lines[2] == json{{"line", 3}, {"error", "line 3: is not valid JSON (at byte 21)"}});
+    CHECK(lines[3] == json{{"line", 5}, {"error", "line 5: holds a number too large for a double (1e999)"}});
+    CHECK(lines[4] == json{{"line", 6}, {"error", "line 6 'array': a spec must be a JSON object"}});
+    CHECK(lines[5] == lines[0]);
+}
+
+TEST_CASE("a JSON Lines batch exits 1 when a line has no feasible design, and 2 when a line is also bad") {
+    // --min-span 2 V/V cannot be met: a ratiometric output spans at most 1 V/V.
+    const std::string infeasible = R"({"r25": "10k", "beta": 3950, "span": "0:50", "circuit": "divider-low", "min_span": 2})";
+    const std::string bad = R"({"r25": "10k", "beta": 3950, "span": "0:50", "circuit": "divider-low", "top": -1})";
+    const auto only_infeasible = run_rtline({"size", "--jsonl"}, infeasible + "\n");
+    CHECK(only_infeasible.code == 1);
+    CHECK(json::parse(only_infeasible.out)["infeasible"] == true);
+    const auto both = run_rtline({"size", "--jsonl"}, infeasible + "\n" + bad + "\n");
+    CHECK(both.code == 2);
+    CHECK(both.out.find(R"({"line":2,"error":"--top '-1': expected a whole number from 1 to 1000"})") != std::string::npos);
+}
