@@ -6,7 +6,7 @@
   4  a JSON Lines batch of 1000 size specs (divider-low, E24, varied R25, B and span)
 (3, the Monte Carlo budget, is not part of this tree yet.)
 
-Each figure is the median wall time of --runs whole runs of the built program (start-up, parsing, the
+Each figure is the median wall time (and the median CPU time, all threads) of --runs whole runs of the built program (start-up, parsing, the
 continuous optimum, the search and the output included). For 1 and 2 the numpy search (bench/numpy_size.py)
 runs here too: both must give the same best pair, and the ratio numpy search time / rtline process time is
 printed (numpy's interpreter start-up and imports are not counted, which favours numpy).
@@ -16,6 +16,7 @@ Usage: bench.py RTLINE [--runs N] [--only 1,2,4] [--no-numpy]
 import argparse
 import json
 import os
+import resource
 import statistics
 import subprocess
 import sys
@@ -46,21 +47,28 @@ def batch_specs(n=1000):
 
 
 def run(cmd, stdin=None):
+    """Wall time, CPU time (user + system, all threads) and stdout of one run."""
+    before = resource.getrusage(resource.RUSAGE_CHILDREN)
     start = time.perf_counter()
     p = subprocess.run(cmd, input=stdin, capture_output=True, text=True)
     elapsed = time.perf_counter() - start
+    after = resource.getrusage(resource.RUSAGE_CHILDREN)
+    cpu = (after.ru_utime - before.ru_utime) + (after.ru_stime - before.ru_stime)
     if p.returncode not in (0, 1):
         sys.exit(f"{' '.join(cmd)} failed ({p.returncode}): {p.stderr}")
-    return elapsed, p.stdout
+    return elapsed, cpu, p.stdout
 
 
 def median_time(cmd, runs, stdin=None):
+    """Median wall, min wall, median CPU and the last stdout over `runs` runs."""
     times = []
+    cpus = []
     out = ""
     for _ in range(runs):
-        t, out = run(cmd, stdin)
+        t, c, out = run(cmd, stdin)
         times.append(t)
-    return statistics.median(times), min(times), out
+        cpus.append(c)
+    return statistics.median(times), min(times), statistics.median(cpus), out
 
 
 def main():
@@ -77,11 +85,12 @@ def main():
         if key not in which:
             continue
         name, args, target, (circuit, n) = CASES[key]
-        med, best, _ = median_time([a.rtline] + args, a.runs)
-        _, out = run([a.rtline] + args + ["--format", "json"])
+        med, best, cpu, _ = median_time([a.rtline] + args, a.runs)
+        _, _, out = run([a.rtline] + args + ["--format", "json"])
         cand = json.loads(out)["candidates"][0]["resistors_ohm"]
         pair = (cand["rp"], cand.get("rs", cand.get("r1")))
-        line = f"{key}  {name}: median {med * 1e3:.1f} ms (min {best * 1e3:.1f}) over {a.runs} runs, target {target * 1e3:.0f} ms"
+        line = (f"{key}  {name}: median {med * 1e3:.1f} ms (min {best * 1e3:.1f}, CPU {cpu * 1e3:.0f}) over {a.runs} runs,"
+                f" target {target * 1e3:.0f} ms")
         if med > target:
             line += "  ABOVE TARGET"
         print(line + f"; best pair {pair[0]:g}, {pair[1]:g} ohm")
@@ -93,10 +102,11 @@ def main():
                   f" ({'same' if same else 'DIFFERENT'}); numpy / rtline = {ref['search_s'] / med:.1f}x")
     if "4" in which:
         specs = batch_specs()
-        med, best, out = median_time([a.rtline, "size", "--jsonl"], a.runs, stdin=specs)
+        med, best, cpu, out = median_time([a.rtline, "size", "--jsonl"], a.runs, stdin=specs)
         results = [json.loads(x) for x in out.splitlines()]
         errors = sum(1 for r in results if "error" in r)
-        line = f"4  batch of {len(results)} size specs: median {med * 1e3:.0f} ms (min {best * 1e3:.0f}) over {a.runs} runs, target 2000 ms"
+        line = (f"4  batch of {len(results)} size specs: median {med * 1e3:.0f} ms (min {best * 1e3:.0f}, CPU {cpu * 1e3:.0f})"
+                f" over {a.runs} runs, target 2000 ms")
         if med > 2.0:
             line += "  ABOVE TARGET"
         print(line + f"; {errors} errors")

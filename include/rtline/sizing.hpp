@@ -86,7 +86,8 @@ struct StandardSearch {
 };
 
 // Every combination of series values in range for the free resistors, ranked by the objective;
-// ties broken by the larger output span. Exhaustive: no combination is skipped.
+// objectives equal in their leading 30 bits (within about 1e-9 relative) are a tie, broken by the larger
+// output span, then by the smaller resistor values. Exhaustive: no combination is skipped.
 [[nodiscard]] StandardSearch search_standard(const SizingSpec& spec, const Grid& grid, const Thermistor& model);
 
 // For a one-resistor topology: the series values on the Pareto front of nonlinearity (lower is better)

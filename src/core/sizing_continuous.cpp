@@ -1,0 +1,156 @@
+// The continuous optimum: a scan in log-resistance finds the local minima (the objective can have
+// several), golden section refines the best three; two resistors are nested (for each outer value the
+// best inner value, then the best outer value). Every evaluation runs on the topology's kernel, so the
+// outer resistor's share of the circuit is computed once per outer value.
+#include <algorithm>
+#include <cmath>
+
+#include "rtline/error.hpp"
+#include "rtline/sizing.hpp"
+#include "search_kernels.hpp"
+
+namespace rtline {
+
+namespace {
+
+constexpr double kGolden = 0.38196601125010515;  // 2 − φ
+
+// Golden-section search for a minimum of f on [a, b] to an interval of `tol`.
+template <class F>
+double golden(F&& f, double a, double b, double tol, double& fbest) {
+    double x1 = a + kGolden * (b - a);
+    double x2 = b - kGolden * (b - a);
+    double f1 = f(x1);
+    double f2 = f(x2);
+    while (b - a > tol) {
+        if (f1 <= f2) {
+            b = x2;
+            x2 = x1;
+            f2 = f1;
+            x1 = a + kGolden * (b - a);
+            f1 = f(x1);
+        } else {
+            a = x1;
+            x1 = x2;
+            f1 = f2;
+            x2 = b - kGolden * (b - a);
+            f2 = f(x2);
+        }
+    }
+    if (f1 <= f2) {
+        fbest = f1;
+        return x1;
+    }
+    fbest = f2;
+    return x2;
+}
+
+// Minimum of f over [lo, hi]: a scan of `n` points finds the local minima, the best three are refined
+// by golden section between their neighbours.
+template <class F>
+double minimize_1d(F&& f, double lo, double hi, int n, double tol, double& fbest) {
+    std::vector<double> x(static_cast<std::size_t>(n));
+    std::vector<double> fx(static_cast<std::size_t>(n));
+    for (int i = 0; i < n; ++i) x[static_cast<std::size_t>(i)] = lo + (hi - lo) * i / (n - 1);
+    for (std::size_t i = 0; i < x.size(); ++i) fx[i] = f(x[i]);
+    std::vector<std::size_t> minima;
+    for (std::size_t i = 0; i < x.size(); ++i) {
+        const bool left = i == 0 || fx[i] <= fx[i - 1];
+        const bool right = i + 1 == x.size() || fx[i] <= fx[i + 1];
+        if (left && right && std::isfinite(fx[i])) minima.push_back(i);
+    }
+    std::sort(minima.begin(), minima.end(), [&](std::size_t a, std::size_t b) { return fx[a] < fx[b]; });
+    if (minima.size() > 3) minima.resize(3);
+    double best_x = x[0];
+    fbest = INFINITY;
+    for (std::size_t i = 0; i < x.size(); ++i) {
+        if (fx[i] < fbest) {
+            fbest = fx[i];
+            best_x = x[i];
+        }
+    }
+    for (const std::size_t i : minima) {
+        const double a = x[i == 0 ? 0 : i - 1];
+        const double b = x[std::min(i + 1, x.size() - 1)];
+        double fv = INFINITY;
+        const double xv = golden(f, a, b, tol, fv);
+        if (fv < fbest) {
+            fbest = fv;
+            best_x = xv;
+        }
+    }
+    return best_x;
+}
+
+// objective() for the kernel's circuit: +infinity when the output does not change.
+template <class K>
+class Objective {
+public:
+    Objective(const K& k, const kernel::ScanGrid& scan, const Grid& grid, LineKind line)
+        : k_(k), scan_(scan), grid_(grid), line_(line) {}
+
+    void outer(double a) { k_.outer(a); }
+    double operator()(double b) {
+        k_.inner(b);
+        const kernel::Ends e = kernel::ends(k_);
+        if (e.unchanging) return INFINITY;
+        if (line_ == LineKind::endpoint)
+            return kernel::endpoint_scan(k_, scan_.t_k, e, [](double) { return false; }).pct_fsd;
+        kernel::outputs_in_grid_order(k_, scan_, y_);
+        return max_nonlinearity_pct_fsd(grid_.t_k, y_, line_);
+    }
+
+private:
+    K k_;
+    const kernel::ScanGrid& scan_;
+    const Grid& grid_;
+    LineKind line_;
+    std::vector<double> y_;
+};
+
+// The free resistor values of the continuous optimum on kernel K, and its objective in fbest.
+template <class K>
+std::vector<double> continuous_optimum(const SizingSpec& spec, const Grid& grid, const kernel::ScanGrid& scan,
+                                       const K& k, double& fbest) {
+    const double lo = std::log(spec.range_lo_ohm);
+    const double hi = std::log(spec.range_hi_ohm);
+    const double tol = 1e-9;  // in ln R: 1e-9 relative in the resistor value
+    Objective<K> f(k, scan, grid, spec.line);
+    if constexpr (K::kFree == 1) {
+        const double u = minimize_1d([&](double x) { return f(std::exp(x)); }, lo, hi, 141, tol, fbest);
+        return {std::exp(u)};
+    } else {
+        // For an outer value u, the best inner value.
+        auto inner = [&](double u, double& fv) {
+            f.outer(std::exp(u));
+            return minimize_1d([&](double v) { return f(std::exp(v)); }, lo, hi, 57, tol, fv);
+        };
+        auto outer = [&](double u) {
+            double fv = INFINITY;
+            (void)inner(u, fv);
+            return fv;
+        };
+        const double u = minimize_1d(outer, lo, hi, 57, tol, fbest);
+        double fv = INFINITY;
+        const double v = inner(u, fv);
+        return {std::exp(u), std::exp(v)};
+    }
+}
+
+}  // namespace
+
+Candidate optimize_continuous(const SizingSpec& spec, const Grid& grid, const Thermistor& model) {
+    const kernel::ScanGrid scan = kernel::scan_grid(grid);
+    const double r_null = is_bridge(spec.base.topology) ? model.resistance(spec.null_at_k) : 0.0;
+    std::vector<double> best;
+    double fbest = INFINITY;
+    kernel::with_kernel(spec.base, r_null, scan,
+                        [&](const auto& k) { best = continuous_optimum(spec, grid, scan, k, fbest); });
+    if (!std::isfinite(fbest)) {
+        throw InputError("--circuit", std::string(topology_name(spec.base.topology)),
+                         "the output does not change over the span with this drive, whatever the resistor values");
+    }
+    return evaluate(spec, grid, model, sized_circuit(spec, model, best));
+}
+
+}  // namespace rtline
