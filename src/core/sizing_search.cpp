@@ -71,6 +71,11 @@ class TopList {
 public:
     explicit TopList(std::size_t k) : k_(k) {}
 
+    // The tie class above which a combination cannot enter the list (every class while it is not full).
+    [[nodiscard]] std::uint64_t stop_class() const {
+        if (k_ == 0) return 0;
+        return items_.size() < k_ ? kAnyClass : tie_class(items_.back().objective);
+    }
     void offer(const Ranked& r) {
         if (k_ == 0 || (items_.size() >= k_ && !better(r, items_.back()))) return;
         items_.insert(std::upper_bound(items_.begin(), items_.end(), r, better), r);
@@ -78,19 +83,28 @@ public:
     }
     [[nodiscard]] const std::vector<Ranked>& items() const { return items_; }
 
+    static constexpr std::uint64_t kAnyClass = std::numeric_limits<std::uint64_t>::max();
+
 private:
     std::size_t k_;
     std::vector<Ranked> items_;
 };
 
-// What assessing one combination gives.
-struct Quick {
+// A scored combination.
+struct Score {
     double objective = INFINITY;
     double span = 0.0;
-    bool feasible = true;
+    bool complete = true;  // false: the scan stopped once the combination could not rank
 };
 
-// One combination at a time on kernel K: the constraints first, each failure counted, then the objective.
+// Marks a combination that is out of the ranking (its output does not change, or it fails a constraint).
+constexpr double kOut = INFINITY;
+
+// One combination at a time on kernel K, in two steps. screen(): the constraints, each failure counted
+// (power and sensitivity need every point), and for a combination that meets them a lower bound on its
+// objective; score(): the objective, the endpoint-line scan stopping once its partial maximum puts the
+// combination above a given tie class. A combination that fails a constraint is never scored, and every
+// combination is screened, so the counts are exactly those of full scans.
 template <class K>
 class Assessor {
 public:
@@ -101,39 +115,54 @@ public:
         k_.outer(a);
     }
 
-    // Assesses the combination (outer, b) for a two-resistor topology, (b) for one resistor.
-    Quick assess(double b) {
-        values_[K::kFree - 1] = b;
-        k_.inner(b);
-        Quick q;
+    // The lower bound of the combination (outer, b), or (b) for one resistor, or kOut. Against the
+    // endpoint line: the largest deviation over the first block of the scan order (the ends, the middle,
+    // the quarters, …), which a full scan can only raise; other lines have no such bound (0).
+    double screen(double b) {
+        set_inner(b);
         const kernel::Ends e = kernel::ends(k_);
-        q.span = e.full_scale;
-        if (e.unchanging) {
-            q.feasible = false;
-            return q;
-        }
-        check_constraints(q);
-        if (!q.feasible) return q;
+        if (e.unchanging || !meets_constraints(e.full_scale)) return kOut;
+        if (ctx_.spec.line != LineKind::endpoint) return 0.0;
+        return kernel::endpoint_scan(k_, ctx_.scan.t_k, e, [](double) { return true; }).pct_fsd;
+    }
+
+    // The objective of a combination that screen() let through; stops (complete = false) once it is
+    // known to lie in a tie class above stop_class.
+    Score score(double b, std::uint64_t stop_class) {
+        set_inner(b);
+        const kernel::Ends e = kernel::ends(k_);
+        Score s;
+        s.span = e.full_scale;
         if (ctx_.spec.line == LineKind::endpoint) {
-            q.objective = kernel::endpoint_scan(k_, ctx_.scan.t_k, e, [](double) { return false; }).pct_fsd;
+            const kernel::Scan scan =
+                kernel::endpoint_scan(k_, ctx_.scan.t_k, e, [&](double pct) { return tie_class(pct) > stop_class; });
+            s.objective = scan.pct_fsd;
+            s.complete = scan.complete;
         } else {
             kernel::outputs_in_grid_order(k_, ctx_.scan, y_);
-            q.objective = max_nonlinearity_pct_fsd(ctx_.grid.t_k, y_, ctx_.spec.line);
+            s.objective = max_nonlinearity_pct_fsd(ctx_.grid.t_k, y_, ctx_.spec.line);
         }
-        return q;
+        return s;
     }
 
     [[nodiscard]] const std::array<double, 2>& values() const { return values_; }
     [[nodiscard]] const std::array<std::size_t, 4>& removed() const { return removed_; }
 
 private:
-    void check_constraints(Quick& q) {
+    void set_inner(double b) {
+        values_[K::kFree - 1] = b;
+        k_.inner(b);
+    }
+
+    // Checks every constraint (not only up to the first failure: each counts what it removes).
+    bool meets_constraints(double span) {
         const Constraints& k = ctx_.spec.constraints;
+        bool ok = true;
         auto fail = [&](std::size_t which) {
             ++removed_[which];
-            q.feasible = false;
+            ok = false;
         };
-        if (q.span < k.min_span) fail(0);
+        if (span < k.min_span) fail(0);
         if (ctx_.need_sensitivity && min_sensitivity() < k.min_sensitivity) fail(1);
         if (ctx_.need_power) {
             double max_power = 0.0;
@@ -144,6 +173,7 @@ private:
                 fail(3);
             }
         }
+        return ok;
     }
 
     // The smallest |d output/dT| over the span, by sensitivity() on the circuit itself (a derivative by
@@ -165,44 +195,89 @@ private:
     std::vector<double> y_;
 };
 
-// One thread's share of a search: its assessor, its best N, its counts.
-template <class K>
-struct Worker {
-    Assessor<K> assessor;
-    TopList top;
-    std::size_t examined = 0;
-
-    void consider(double b) {
-        ++examined;
-        const Quick q = assessor.assess(b);
-        if (q.feasible) top.offer({assessor.values(), q.objective, q.span});
+// The `size` lowest (bound, combination) pairs seen, for seeding; the pairs are totally ordered.
+class Lowest {
+public:
+    explicit Lowest(std::size_t size) : size_(size) {}
+    void offer(double bound, std::size_t index) {
+        const std::pair<double, std::size_t> p{bound, index};
+        if (heap_.size() < size_) {
+            heap_.push_back(p);
+            std::push_heap(heap_.begin(), heap_.end());
+        } else if (size_ > 0 && p < heap_.front()) {
+            std::pop_heap(heap_.begin(), heap_.end());
+            heap_.back() = p;
+            std::push_heap(heap_.begin(), heap_.end());
+        }
     }
+    [[nodiscard]] std::vector<std::size_t> sorted() const {
+        std::vector<std::pair<double, std::size_t>> v = heap_;
+        std::sort(v.begin(), v.end());
+        std::vector<std::size_t> out;
+        for (const auto& p : v) out.push_back(p.second);
+        return out;
+    }
+
+private:
+    std::size_t size_;
+    std::vector<std::pair<double, std::size_t>> heap_;
 };
 
-// Every combination over kernel K.
+// Combinations are numbered row by row: row = the outer value's index (0 for one-resistor topologies),
+// column = the inner value's.
+//
+// Every combination over kernel K, in three passes:
+// 1. screen every combination: constraints counted, a lower bound kept for each that meets them;
+// 2. seed: score in full the few with the lowest bounds. The N-th best of them is no better than the
+//    N-th best of all (they are among all), so a combination whose bound lies in a tie class above it
+//    cannot rank: N others are strictly better;
+// 3. score every combination whose bound is not above the N-th best known (the seeds' at first, then
+//    the list's), each scan stopping as soon as its partial maximum is above it.
+// Pass 3 scores the seeds again; they are seen once there, as every other combination, so the result
+// is exactly the best N of full scans of every combination.
 template <class K>
 StandardSearch run_search(const Context& ctx, const std::vector<double>& values, const K& k) {
-    std::vector<Worker<K>> w(1, Worker<K>{Assessor<K>(ctx, k), TopList(ctx.spec.top)});
-    Worker<K>& me = w[0];
-    if constexpr (K::kFree == 2) {
-        for (const double a : values) {
-            me.assessor.outer(a);
-            for (const double b : values) me.consider(b);
+    constexpr bool kTwo = K::kFree == 2;
+    const std::size_t n = values.size();
+    const std::size_t rows = kTwo ? n : 1;
+    const std::size_t top = ctx.spec.top;
+    Assessor<K> assessor(ctx, k);
+    std::vector<double> bound(rows * n, kOut);
+    Lowest lowest(top == 0 ? 0 : top + 8);
+    for (std::size_t row = 0; row < rows; ++row) {
+        if constexpr (kTwo) assessor.outer(values[row]);
+        for (std::size_t col = 0; col < n; ++col) {
+            const double b = assessor.screen(values[col]);
+            bound[row * n + col] = b;
+            if (b != kOut) lowest.offer(b, row * n + col);
         }
-    } else {
-        for (const double b : values) me.consider(b);
     }
-    std::vector<Ranked> all;
+    TopList seeds(top);
+    for (const std::size_t i : lowest.sorted()) {
+        if constexpr (kTwo) assessor.outer(values[i / n]);
+        const Score s = assessor.score(values[i % n], TopList::kAnyClass);
+        seeds.offer({assessor.values(), s.objective, s.span});
+    }
+    const std::uint64_t seed_class = seeds.stop_class();
+    TopList list(top);
+    for (std::size_t row = 0; row < rows; ++row) {
+        bool outer_set = false;
+        for (std::size_t col = 0; col < n; ++col) {
+            const double b = bound[row * n + col];
+            const std::uint64_t stop = std::min(seed_class, list.stop_class());
+            if (b == kOut || tie_class(b) > stop) continue;
+            if (kTwo && !outer_set) {
+                assessor.outer(values[row]);
+                outer_set = true;
+            }
+            const Score s = assessor.score(values[col], stop);
+            if (s.complete) list.offer({assessor.values(), s.objective, s.span});
+        }
+    }
     StandardSearch result;
-    for (const auto& flag : kFlags) result.removed.emplace_back(flag, 0);
-    for (const Worker<K>& me : w) {
-        all.insert(all.end(), me.top.items().begin(), me.top.items().end());
-        result.examined += me.examined;
-        for (std::size_t f = 0; f < kFlags.size(); ++f) result.removed[f].second += me.assessor.removed()[f];
-    }
-    std::sort(all.begin(), all.end(), better);
-    if (all.size() > ctx.spec.top) all.resize(ctx.spec.top);
-    for (const Ranked& r : all) {
+    result.examined = rows * n;
+    for (std::size_t f = 0; f < kFlags.size(); ++f) result.removed.emplace_back(kFlags[f], assessor.removed()[f]);
+    for (const Ranked& r : list.items()) {
         const Circuit c =
             sized_circuit(ctx.spec, ctx.model, std::vector<double>(r.values.begin(), r.values.begin() + K::kFree));
         result.best.push_back(evaluate(ctx.spec, ctx.grid, ctx.model, c));
@@ -230,8 +305,9 @@ std::vector<Candidate> tradeoff(const SizingSpec& spec, const Grid& grid, const 
         if constexpr (K::kFree == 1) {
             Assessor<K> a(ctx, k);
             for (const double v : values) {
-                const Quick q = a.assess(v);
-                if (q.feasible) all.push_back({a.values(), q.objective, q.span});
+                if (a.screen(v) == kOut) continue;
+                const Score s = a.score(v, TopList::kAnyClass);
+                all.push_back({a.values(), s.objective, s.span});
             }
         }
     });
