@@ -7,7 +7,8 @@
 (3, the Monte Carlo budget, is not part of this tree yet.)
 
 Each figure is the median wall time (and the median CPU time, all threads) of --runs whole runs of the built program (start-up, parsing, the
-continuous optimum, the search and the output included). For 1 and 2 the numpy search (bench/numpy_size.py)
+continuous optimum, the search and the output included). For 1 and 2 also with --threads 1 (on a machine whose
+cores are busy with other work, one thread can be the faster). For 1 and 2 the numpy search (bench/numpy_size.py)
 runs here too: both must give the same best pair, and the ratio numpy search time / rtline process time is
 printed (numpy's interpreter start-up and imports are not counted, which favours numpy).
 
@@ -86,14 +87,16 @@ def main():
             continue
         name, args, target, (circuit, n) = CASES[key]
         med, best, cpu, _ = median_time([a.rtline] + args, a.runs)
+        med1, best1, cpu1, _ = median_time([a.rtline] + args + ["--threads", "1"], a.runs)
         _, _, out = run([a.rtline] + args + ["--format", "json"])
         cand = json.loads(out)["candidates"][0]["resistors_ohm"]
         pair = (cand["rp"], cand.get("rs", cand.get("r1")))
-        line = (f"{key}  {name}: median {med * 1e3:.1f} ms (min {best * 1e3:.1f}, CPU {cpu * 1e3:.0f}) over {a.runs} runs,"
+        line = (f"{key}  {name}: median {med * 1e3:.1f} ms (min {best * 1e3:.1f}, CPU {cpu * 1e3:.1f}) over {a.runs} runs,"
                 f" target {target * 1e3:.0f} ms")
         if med > target:
             line += "  ABOVE TARGET"
         print(line + f"; best pair {pair[0]:g}, {pair[1]:g} ohm")
+        print(f"   --threads 1: median {med1 * 1e3:.1f} ms (min {best1 * 1e3:.1f}, CPU {cpu1 * 1e3:.1f})")
         if not a.no_numpy:
             ref = numpy_size.search(circuit, n)
             same = abs(ref["outer_ohm"] - pair[0]) < 1e-6 * pair[0] and abs(ref["inner_ohm"] - pair[1]) < 1e-6 * pair[1]

@@ -62,7 +62,7 @@ TEST_CASE("the scan grid holds every grid point once, the two ends first, padded
     std::sort(sorted.begin(), sorted.end());
     for (std::size_t i = 0; i < sorted.size(); ++i) CHECK(sorted[i] == i);
     CHECK(scan.size() % kernel::kBlock == 0);
-    CHECK(scan.size() == 416);  // 401 rounded up to whole blocks of 16
+    CHECK(scan.size() == 408);  // 401 rounded up to whole blocks of 8
     for (std::size_t i = 0; i < scan.size(); ++i) {
         const std::size_t g = i < 401 ? scan.index[i] : 0;
         CHECK(scan.t_k[i] == grid.t_k[g]);
@@ -70,7 +70,7 @@ TEST_CASE("the scan grid holds every grid point once, the two ends first, padded
     }
 }
 
-TEST_CASE("every kernel gives operate()'s output and power bit for bit, for every drive and load") {
+TEST_CASE("every kernel gives operate()'s output and power bit for bit, for every drive and load, pairs too") {
     const Thermistor model = beta_model(10e3, 3950);
     const Grid grid = make_grid(model, span_c(-20, 60), 1);
     const kernel::ScanGrid scan = kernel::scan_grid(grid);
@@ -99,6 +99,12 @@ TEST_CASE("every kernel gives operate()'s output and power bit for bit, for ever
                         CHECK(k.output(i) == op.output);
                         CHECK(same(k.power(i), op.power_w));
                         ++compared;
+                    }
+                    // Two points at once: the same bits as one at a time.
+                    for (std::size_t i = 0; i < scan.size(); i += 2) {
+                        const kernel::Pair p = k.template output<kernel::Pair>(i);
+                        CHECK(p[0] == k.output(i));
+                        CHECK(p[1] == k.output(i + 1));
                     }
                 }
             });

@@ -6,8 +6,11 @@
 #pragma once
 
 #include <algorithm>
+#include <bit>
 #include <cmath>
 #include <cstddef>
+#include <cstdint>
+#include <cstring>
 #include <span>
 #include <vector>
 
@@ -16,7 +19,7 @@
 
 namespace rtline::kernel {
 
-inline constexpr std::size_t kBlock = 16;  // points between the checks of a scan that may stop early
+inline constexpr std::size_t kBlock = 8;  // points a scan takes at a time: four pairs
 
 // The grid in scan order: the two ends first (they fix the endpoint line), then the interior coarse to
 // fine (the middle, the quarters, the eighths, …), so a poor candidate shows a deviation larger than the
@@ -30,18 +33,60 @@ struct ScanGrid {
 };
 [[nodiscard]] ScanGrid scan_grid(const Grid& grid);
 
-// parallel() as circuit.cpp defines it (an infinite resistance is an open circuit), written as selects
-// so that loops over points stay branch-free and vectorize.
+// ---- Two points at once. A Pair is two doubles in one SSE2 register (a GCC vector extension); its
+// arithmetic is IEEE per lane, so a pair of results has the bits of two scalar ones. The network code
+// below is written once for double and Pair.
+
+using Pair = double __attribute__((vector_size(16)));
+using PairBits = std::int64_t __attribute__((vector_size(16)));
+
+template <class T>
+T fetch(const double* p) {
+    T v;
+    std::memcpy(&v, p, sizeof v);
+    return v;
+}
+
+inline double abs_of(double x) {
+    return std::abs(x);
+}
+inline Pair abs_of(Pair x) {
+    return std::bit_cast<Pair>(std::bit_cast<PairBits>(x) & INT64_MAX);
+}  // the sign bit cleared, as fabs
+
+// std::max(a, b) by value: a < b ? b : a, NaN included.
+inline double max_of(double a, double b) {
+    return a < b ? b : a;
+}
+inline Pair max_of(Pair a, Pair b) {
+    return a < b ? b : a;
+}
+
+// parallel() as circuit.cpp defines it (an infinite resistance is an open circuit).
 inline double par(double a, double b) {
-    const double p = a * b / (a + b);
-    return std::isinf(a) ? b : (std::isinf(b) ? a : p);
+    if (std::isinf(a)) return b;
+    if (std::isinf(b)) return a;
+    return a * b / (a + b);
+}
+// a ∥ load for a finite a: what par(a, load) gives, with the test on the load alone (the same for every
+// point, so the loop keeps no data-dependent branch).
+template <class T>
+T par_load(T a, double load) {
+    if (std::isinf(load)) return a;
+    return a * load / (a + load);
+}
+// a ∥ b for finite a and b (the grid's R_T and every resistor value a search tries are finite).
+template <class T>
+T par_finite(T a, double b) {
+    return a * b / (a + b);
 }
 
 // The network per volt of excitation at one point: output, thermistor voltage, input resistance.
+template <class T>
 struct PerVolt {
-    double out;
-    double vt;
-    double rin;
+    T out;
+    T vt;
+    T rin;
 };
 
 // What every network knows: the thermistor resistance at each scan position and the load.
@@ -50,8 +95,9 @@ struct NetBase {
     double load = kNoLoad;
 };
 
-// ---- One network per topology. outer(a) takes the first free resistor (two-resistor topologies),
-// inner(b) the last; at(i) is per_volt() at scan position i. kResistance: the output is a resistance.
+// ---- One network per topology. outer(a) takes the first free resistor (two-resistor topologies) and
+// must come before inner(b), which takes the last; at<T>(i) is per_volt() at scan position i (and
+// i + 1 for a Pair). kResistance: the output is a resistance.
 
 struct DividerHigh : NetBase {  // free: rs
     static constexpr int kFree = 1;
@@ -59,9 +105,11 @@ struct DividerHigh : NetBase {  // free: rs
     double bottom = 0.0;
     void outer(double) {}
     void inner(double rs) { bottom = par(rs, load); }
-    [[nodiscard]] PerVolt at(std::size_t i) const {
-        const double total = r[i] + bottom;
-        return {bottom / total, r[i] / total, total};
+    template <class T>
+    [[nodiscard]] PerVolt<T> at(std::size_t i) const {
+        const T rt = fetch<T>(&r[i]);
+        const T total = rt + bottom;
+        return {bottom / total, rt / total, total};
     }
 };
 
@@ -76,9 +124,11 @@ struct DividerLow : NetBase {  // free: rs; the thermistor ∥ load does not dep
     }
     void outer(double) {}
     void inner(double v) { rs = v; }
-    [[nodiscard]] PerVolt at(std::size_t i) const {
-        const double total = rs + bottom[i];
-        return {bottom[i] / total, bottom[i] / total, total};
+    template <class T>
+    [[nodiscard]] PerVolt<T> at(std::size_t i) const {
+        const T b = fetch<T>(&bottom[i]);
+        const T total = rs + b;
+        return {b / total, b / total, total};
     }
 };
 
@@ -88,7 +138,11 @@ struct Shunt : NetBase {  // free: rp; the output is the network resistance
     double rp = 0.0;
     void outer(double) {}
     void inner(double v) { rp = v; }
-    [[nodiscard]] PerVolt at(std::size_t i) const { return {1.0, 1.0, par(par(r[i], rp), load)}; }
+    template <class T>
+    [[nodiscard]] PerVolt<T> at(std::size_t i) const {
+        const T x = par_load(par_finite(fetch<T>(&r[i]), rp), load);
+        return {T{} + 1.0, T{} + 1.0, x};
+    }
 };
 
 struct ShuntDivider : NetBase {  // free: rp (outer), rs (inner); R_T ∥ rp depends on rp alone
@@ -101,9 +155,11 @@ struct ShuntDivider : NetBase {  // free: rp (outer), rs (inner); R_T ∥ rp dep
         for (std::size_t i = 0; i < r.size(); ++i) top[i] = par(r[i], rp);
     }
     void inner(double rs) { bottom = par(rs, load); }
-    [[nodiscard]] PerVolt at(std::size_t i) const {
-        const double total = top[i] + bottom;
-        return {bottom / total, top[i] / total, total};
+    template <class T>
+    [[nodiscard]] PerVolt<T> at(std::size_t i) const {
+        const T t = fetch<T>(&top[i]);
+        const T total = t + bottom;
+        return {bottom / total, t / total, total};
     }
 };
 
@@ -121,19 +177,20 @@ struct BridgeArms : NetBase {
         r1 = v;
         r2 = r1;
         vb0 = r3 / (r2 + r3);
-        rb = par(r2, r3);
+        if constexpr (Loaded) rb = par(r2, r3);
     }
-    [[nodiscard]] PerVolt with_rx(double rx) const {
-        const double va0 = rx / (r1 + rx);
-        double va = va0;
-        double vb = vb0;
+    template <class T>
+    [[nodiscard]] PerVolt<T> with_rx(T rx) const {
+        const T va0 = rx / (r1 + rx);
+        T va = va0;
+        T vb = T{} + vb0;
         if constexpr (Loaded) {
-            const double ra = par(r1, rx);
-            const double il = (va0 - vb0) / (ra + rb + load);
+            const T ra = par_finite(rx, r1);  // parallel(r1, rx): a·b/(a + b) is symmetric
+            const T il = (va0 - vb0) / (ra + rb + load);
             va = va0 - il * ra;
             vb = vb0 + il * rb;
         }
-        const double drawn = (1.0 - va) / r1 + (1.0 - vb) / r2;
+        const T drawn = (1.0 - va) / r1 + (1.0 - vb) / r2;
         return {va - vb, va, 1.0 / drawn};
     }
 };
@@ -144,12 +201,14 @@ struct Bridge : BridgeArms<Loaded> {  // free: r1
     static constexpr bool kResistance = false;
     void outer(double) {}
     void inner(double v) { this->set_r1(v); }
-    [[nodiscard]] PerVolt at(std::size_t i) const { return this->with_rx(this->r[i]); }
+    template <class T>
+    [[nodiscard]] PerVolt<T> at(std::size_t i) const {
+        return this->with_rx(fetch<T>(&this->r[i]));
+    }
 };
 
-// free: rp (outer), r1 (inner); Rx = R_T ∥ rp and r3 depend on rp alone. outer() before inner().
 template <bool Loaded>
-struct ShuntBridge : BridgeArms<Loaded> {
+struct ShuntBridge : BridgeArms<Loaded> {  // free: rp (outer), r1 (inner); Rx and r3 depend on rp alone
     static constexpr int kFree = 2;
     static constexpr bool kResistance = false;
     double r_null = 0.0;  // R_T at the null temperature
@@ -160,7 +219,10 @@ struct ShuntBridge : BridgeArms<Loaded> {
         this->r3 = par(r_null, rp);
     }
     void inner(double v) { this->set_r1(v); }
-    [[nodiscard]] PerVolt at(std::size_t i) const { return this->with_rx(rx[i]); }
+    template <class T>
+    [[nodiscard]] PerVolt<T> at(std::size_t i) const {
+        return this->with_rx(fetch<T>(&rx[i]));
+    }
 };
 
 // ---- The drive on top of a network, as operate() applies it.
@@ -176,30 +238,32 @@ struct Kernel {
     void inner(double b) { net.inner(b); }
     [[nodiscard]] std::size_t size() const { return net.r.size(); }
 
-    // operate(c, R_T).output at scan position i.
-    [[nodiscard]] double output(std::size_t i) const {
-        const PerVolt pv = net.at(i);
+    // operate(c, R_T).output at scan position i (i and i + 1 for a Pair).
+    template <class T = double>
+    [[nodiscard]] T output(std::size_t i) const {
+        const PerVolt<T> pv = net.template at<T>(i);
         if constexpr (Net::kResistance && D == Drive::ratiometric) return pv.rin;
         return top_v(pv) * pv.out;
     }
     // operate(c, R_T).power_w at scan position i (NaN without a drive on a resistance output).
     [[nodiscard]] double power(std::size_t i) const {
-        const PerVolt pv = net.at(i);
         if constexpr (Net::kResistance && D == Drive::ratiometric) return NAN;
+        const PerVolt<double> pv = net.template at<double>(i);
         const double vt = top_v(pv) * pv.vt;
         return vt * vt / net.r[i];
     }
 
 private:
-    [[nodiscard]] double top_v(const PerVolt& pv) const {
-        if constexpr (D == Drive::ratiometric) return 1.0;
-        if constexpr (D == Drive::voltage) return drive;
+    template <class T>
+    [[nodiscard]] T top_v(const PerVolt<T>& pv) const {
+        if constexpr (D == Drive::ratiometric) return T{} + 1.0;
+        if constexpr (D == Drive::voltage) return T{} + drive;
         return drive * pv.rin;
     }
 };
 
-// Calls f(kernel) with the kernel for the spec's topology and drive, set up on `scan`; r_null_ohm is
-// R_T at a bridge's null temperature. Requires a topology with one or two free resistors.
+// Calls f(kernel) with the kernel for the base circuit's topology, drive and load, set up on `scan`;
+// r_null_ohm is R_T at a bridge's null temperature. Does nothing for the bare thermistor.
 template <class F>
 void with_kernel(const Circuit& base, double r_null_ohm, const ScanGrid& scan, F&& f) {
     auto drive = [&]<class Net>(Net net) {
@@ -257,36 +321,64 @@ struct Scan {
     bool complete = true;
 };
 
-// The largest of a block of values (a tree of pairwise maxima, which vectorizes; max is exact, so the
-// order does not change the result).
-inline double block_max(const double (&v)[kBlock]) {
-    double m[kBlock];
-    for (std::size_t j = 0; j < kBlock; ++j) m[j] = v[j];
-    for (std::size_t w = kBlock / 2; w >= 1; w /= 2) {
-        for (std::size_t j = 0; j < w; ++j) m[j] = std::max(m[j], m[j + w]);
-    }
-    return m[0];
-}
+// The endpoint line's largest deviation as it builds up block by block: the operations of
+// max_nonlinearity_pct_fsd (line from the ends, |y − line|, the maximum), so the same value.
+template <class K>
+class EndpointMax {
+public:
+    EndpointMax(const K& k, std::span<const double> t, const Ends& e)
+        : k_(k), t_(t), slope_((e.hi - e.lo) / (t[1] - t[0])), intercept_(e.lo - slope_ * t[0]) {}
 
-// max_nonlinearity_pct_fsd against the endpoint line, in scan order, with the same operations (so the same
-// value); stops after a block whose partial maximum gives a %FSD for which stop(pct) is true. stop must be
-// monotone (true for x, true for anything larger): the objective is never below the partial maximum.
+    // Takes the block at scan position s.
+    void add_block(std::size_t s) {
+        for (std::size_t j = 0; j < kBlock / 2; ++j) {
+            const std::size_t i = s + 2 * j;
+            const Pair line = slope_ * fetch<Pair>(&t_[i]) + intercept_;
+            worst_[j] = max_of(worst_[j], abs_of(k_.template output<Pair>(i) - line));
+        }
+    }
+    // The largest deviation so far (max is exact: the lane order does not change it).
+    [[nodiscard]] double worst() const {
+        const Pair m = max_of(max_of(worst_[0], worst_[1]), max_of(worst_[2], worst_[3]));
+        return max_of(m[0], m[1]);
+    }
+
+private:
+    static_assert(kBlock == 8, "add_block() and worst() take four pairs");
+    const K& k_;
+    std::span<const double> t_;
+    double slope_;
+    double intercept_;
+    Pair worst_[kBlock / 2] = {};
+};
+
+// max_nonlinearity_pct_fsd against the endpoint line, in scan order, with the same value. It checks
+// stop(pct) for the partial maximum after the first block, then after 2, 4, 8, … blocks (a poor
+// combination shows within the first block; one that does not is usually scanned to the end, where
+// fewer checks cost less) and stops when it is true. stop must be monotone (true for x, true for
+// anything larger): the objective is never below a partial maximum.
 template <class K, class Stop>
 [[nodiscard]] Scan endpoint_scan(const K& k, std::span<const double> t, const Ends& e, Stop&& stop) {
     const std::size_t n = k.size();
-    const double slope = (e.hi - e.lo) / (t[1] - t[0]);
-    const double intercept = e.lo - slope * t[0];
-    double worst[kBlock] = {};  // the largest deviation so far in each lane
+    EndpointMax<K> m(k, t, e);
+    std::size_t check = kBlock;
     for (std::size_t s = 0; s < n; s += kBlock) {
-        for (std::size_t j = 0; j < kBlock; ++j) {
-            worst[j] = std::max(worst[j], std::abs(k.output(s + j) - (slope * t[s + j] + intercept)));
-        }
-        if (s + kBlock < n) {
-            const double pct = block_max(worst) / e.full_scale * 100.0;
+        m.add_block(s);
+        if (s + kBlock == check && check < n) {
+            const double pct = m.worst() / e.full_scale * 100.0;
             if (stop(pct)) return {pct, false};
+            check *= 2;
         }
     }
-    return {block_max(worst) / e.full_scale * 100.0, true};
+    return {m.worst() / e.full_scale * 100.0, true};
+}
+
+// The same scan to the end, for values that are wanted exactly.
+template <class K>
+[[nodiscard]] double endpoint_pct_fsd(const K& k, std::span<const double> t, const Ends& e) {
+    EndpointMax<K> m(k, t, e);
+    for (std::size_t s = 0; s < k.size(); s += kBlock) m.add_block(s);
+    return m.worst() / e.full_scale * 100.0;
 }
 
 // The outputs in grid order (for the best-fit and minimax lines, which need every point at once).

@@ -1,10 +1,12 @@
 // The continuous optimum: a scan in log-resistance finds the local minima (the objective can have
 // several), golden section refines the best three; two resistors are nested (for each outer value the
 // best inner value, then the best outer value). Every evaluation runs on the topology's kernel, so the
-// outer resistor's share of the circuit is computed once per outer value.
+// outer resistor's share of the circuit is computed once per outer value, and the scan points and the
+// refinements, being independent, are spread over threads: the result is exactly that of one thread.
 #include <algorithm>
 #include <cmath>
 
+#include "parallel.hpp"
 #include "rtline/error.hpp"
 #include "rtline/sizing.hpp"
 #include "search_kernels.hpp"
@@ -46,13 +48,14 @@ double golden(F&& f, double a, double b, double tol, double& fbest) {
 }
 
 // Minimum of f over [lo, hi]: a scan of `n` points finds the local minima, the best three are refined
-// by golden section between their neighbours.
+// by golden section between their neighbours. f(worker, x) is called from `workers` threads at once,
+// each with its own worker index.
 template <class F>
-double minimize_1d(F&& f, double lo, double hi, int n, double tol, double& fbest) {
+double minimize_1d(F&& f, double lo, double hi, int n, double tol, double& fbest, std::size_t workers) {
     std::vector<double> x(static_cast<std::size_t>(n));
     std::vector<double> fx(static_cast<std::size_t>(n));
     for (int i = 0; i < n; ++i) x[static_cast<std::size_t>(i)] = lo + (hi - lo) * i / (n - 1);
-    for (std::size_t i = 0; i < x.size(); ++i) fx[i] = f(x[i]);
+    detail::parallel_for(x.size(), workers, [&](std::size_t w, std::size_t i) { fx[i] = f(w, x[i]); });
     std::vector<std::size_t> minima;
     for (std::size_t i = 0; i < x.size(); ++i) {
         const bool left = i == 0 || fx[i] <= fx[i - 1];
@@ -69,14 +72,18 @@ double minimize_1d(F&& f, double lo, double hi, int n, double tol, double& fbest
             best_x = x[i];
         }
     }
-    for (const std::size_t i : minima) {
+    std::vector<double> xv(minima.size());
+    std::vector<double> fv(minima.size(), INFINITY);
+    detail::parallel_for(minima.size(), workers, [&](std::size_t w, std::size_t j) {
+        const std::size_t i = minima[j];
         const double a = x[i == 0 ? 0 : i - 1];
         const double b = x[std::min(i + 1, x.size() - 1)];
-        double fv = INFINITY;
-        const double xv = golden(f, a, b, tol, fv);
-        if (fv < fbest) {
-            fbest = fv;
-            best_x = xv;
+        xv[j] = golden([&](double v) { return f(w, v); }, a, b, tol, fv[j]);
+    });
+    for (std::size_t j = 0; j < minima.size(); ++j) {
+        if (fv[j] < fbest) {
+            fbest = fv[j];
+            best_x = xv[j];
         }
     }
     return best_x;
@@ -94,8 +101,7 @@ public:
         k_.inner(b);
         const kernel::Ends e = kernel::ends(k_);
         if (e.unchanging) return INFINITY;
-        if (line_ == LineKind::endpoint)
-            return kernel::endpoint_scan(k_, scan_.t_k, e, [](double) { return false; }).pct_fsd;
+        if (line_ == LineKind::endpoint) return kernel::endpoint_pct_fsd(k_, scan_.t_k, e);
         kernel::outputs_in_grid_order(k_, scan_, y_);
         return max_nonlinearity_pct_fsd(grid_.t_k, y_, line_);
     }
@@ -108,6 +114,11 @@ private:
     std::vector<double> y_;
 };
 
+// Evaluations of a 1-D minimize_1d: the scan and about three golden sections of 45 steps.
+double evaluations(int n) {
+    return n + 3.0 * 45.0;
+}
+
 // The free resistor values of the continuous optimum on kernel K, and its objective in fbest.
 template <class K>
 std::vector<double> continuous_optimum(const SizingSpec& spec, const Grid& grid, const kernel::ScanGrid& scan,
@@ -115,24 +126,30 @@ std::vector<double> continuous_optimum(const SizingSpec& spec, const Grid& grid,
     const double lo = std::log(spec.range_lo_ohm);
     const double hi = std::log(spec.range_hi_ohm);
     const double tol = 1e-9;  // in ln R: 1e-9 relative in the resistor value
-    Objective<K> f(k, scan, grid, spec.line);
+    const auto points = static_cast<double>(scan.size());
     if constexpr (K::kFree == 1) {
-        const double u = minimize_1d([&](double x) { return f(std::exp(x)); }, lo, hi, 141, tol, fbest);
+        const std::size_t workers = detail::worker_count(spec.threads, 141, evaluations(141) * points);
+        std::vector<Objective<K>> f(workers, Objective<K>(k, scan, grid, spec.line));
+        const double u =
+            minimize_1d([&](std::size_t w, double x) { return f[w](std::exp(x)); }, lo, hi, 141, tol, fbest, workers);
         return {std::exp(u)};
     } else {
-        // For an outer value u, the best inner value.
-        auto inner = [&](double u, double& fv) {
-            f.outer(std::exp(u));
-            return minimize_1d([&](double v) { return f(std::exp(v)); }, lo, hi, 57, tol, fv);
+        const double work = evaluations(57) * evaluations(57) * points;
+        const std::size_t workers = detail::worker_count(spec.threads, 57, work);
+        std::vector<Objective<K>> f(workers, Objective<K>(k, scan, grid, spec.line));
+        // For an outer value u, the best inner value, on worker w's kernel (the inner scan stays on it).
+        auto inner = [&](std::size_t w, double u, double& fv) {
+            f[w].outer(std::exp(u));
+            return minimize_1d([&](std::size_t, double v) { return f[w](std::exp(v)); }, lo, hi, 57, tol, fv, 1);
         };
-        auto outer = [&](double u) {
+        auto outer = [&](std::size_t w, double u) {
             double fv = INFINITY;
-            (void)inner(u, fv);
+            (void)inner(w, u, fv);
             return fv;
         };
-        const double u = minimize_1d(outer, lo, hi, 57, tol, fbest);
+        const double u = minimize_1d(outer, lo, hi, 57, tol, fbest, workers);
         double fv = INFINITY;
-        const double v = inner(u, fv);
+        const double v = inner(0, u, fv);
         return {std::exp(u), std::exp(v)};
     }
 }

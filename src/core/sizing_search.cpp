@@ -1,12 +1,15 @@
 // The standard-value searches: every combination of series values, assessed by the topology's kernel
-// (search_kernels.hpp), constraints counted for every combination, the best N kept under a total order.
+// (search_kernels.hpp), constraints counted for every combination, the best N kept under a total order
+// so that pruning and the split over threads cannot change which N they are.
 #include <algorithm>
 #include <array>
 #include <bit>
 #include <cmath>
 #include <cstdint>
 #include <limits>
+#include <ranges>
 
+#include "parallel.hpp"
 #include "rtline/sizing.hpp"
 #include "search_kernels.hpp"
 
@@ -123,7 +126,7 @@ public:
         const kernel::Ends e = kernel::ends(k_);
         if (e.unchanging || !meets_constraints(e.full_scale)) return kOut;
         if (ctx_.spec.line != LineKind::endpoint) return 0.0;
-        return kernel::endpoint_scan(k_, ctx_.scan.t_k, e, [](double) { return true; }).pct_fsd;
+        return kernel::endpoint_scan(k_, ctx_.scan.t_k, e, [](double) { return true; }).pct_fsd;  // first block
     }
 
     // The objective of a combination that screen() let through; stops (complete = false) once it is
@@ -195,32 +198,32 @@ private:
     std::vector<double> y_;
 };
 
-// The `size` lowest (bound, combination) pairs seen, for seeding; the pairs are totally ordered.
+// The `size` lowest (bound, combination) pairs seen, lowest first; the pairs are totally ordered.
 class Lowest {
 public:
     explicit Lowest(std::size_t size) : size_(size) {}
     void offer(double bound, std::size_t index) {
-        const std::pair<double, std::size_t> p{bound, index};
-        if (heap_.size() < size_) {
-            heap_.push_back(p);
-            std::push_heap(heap_.begin(), heap_.end());
-        } else if (size_ > 0 && p < heap_.front()) {
-            std::pop_heap(heap_.begin(), heap_.end());
-            heap_.back() = p;
-            std::push_heap(heap_.begin(), heap_.end());
-        }
+        if (items_.size() == size_ && (size_ == 0 || !(std::pair(bound, index) < items_.back()))) return;  // usually
+        insert({bound, index});
     }
-    [[nodiscard]] std::vector<std::size_t> sorted() const {
-        std::vector<std::pair<double, std::size_t>> v = heap_;
-        std::sort(v.begin(), v.end());
-        std::vector<std::size_t> out;
-        for (const auto& p : v) out.push_back(p.second);
-        return out;
-    }
+    [[nodiscard]] const std::vector<std::pair<double, std::size_t>>& items() const { return items_; }
 
 private:
+    void insert(const std::pair<double, std::size_t>& p) {
+        items_.insert(std::upper_bound(items_.begin(), items_.end(), p), p);
+        if (items_.size() > size_) items_.pop_back();
+    }
+
     std::size_t size_;
-    std::vector<std::pair<double, std::size_t>> heap_;
+    std::vector<std::pair<double, std::size_t>> items_;
+};
+
+// One thread's share of a search: its assessor (with its counts), its lowest bounds, its best N.
+template <class K>
+struct Worker {
+    Assessor<K> assessor;
+    Lowest lowest;
+    TopList top;
 };
 
 // Combinations are numbered row by row: row = the outer value's index (0 for one-resistor topologies),
@@ -234,50 +237,66 @@ private:
 // 3. score every combination whose bound is not above the N-th best known (the seeds' at first, then
 //    the list's), each scan stopping as soon as its partial maximum is above it.
 // Pass 3 scores the seeds again; they are seen once there, as every other combination, so the result
-// is exactly the best N of full scans of every combination.
+// is exactly the best N of full scans of every combination. Passes 1 and 3 split the rows over threads.
 template <class K>
 StandardSearch run_search(const Context& ctx, const std::vector<double>& values, const K& k) {
     constexpr bool kTwo = K::kFree == 2;
     const std::size_t n = values.size();
     const std::size_t rows = kTwo ? n : 1;
     const std::size_t top = ctx.spec.top;
-    Assessor<K> assessor(ctx, k);
+    const double work = static_cast<double>(rows * n) * static_cast<double>(ctx.scan.size());
+    const std::size_t workers = detail::worker_count(ctx.spec.threads, rows, work);
+    std::vector<Worker<K>> w(workers, Worker<K>{Assessor<K>(ctx, k), Lowest(top == 0 ? 0 : top + 8), TopList(top)});
     std::vector<double> bound(rows * n, kOut);
-    Lowest lowest(top == 0 ? 0 : top + 8);
-    for (std::size_t row = 0; row < rows; ++row) {
-        if constexpr (kTwo) assessor.outer(values[row]);
+    detail::parallel_for(rows, workers, [&](std::size_t id, std::size_t row) {
+        Worker<K>& me = w[id];
+        if constexpr (kTwo) me.assessor.outer(values[row]);
         for (std::size_t col = 0; col < n; ++col) {
-            const double b = assessor.screen(values[col]);
+            const double b = me.assessor.screen(values[col]);
             bound[row * n + col] = b;
-            if (b != kOut) lowest.offer(b, row * n + col);
+            if (b != kOut) me.lowest.offer(b, row * n + col);
         }
+    });
+    Lowest lowest(top == 0 ? 0 : top + 8);
+    for (const Worker<K>& me : w) {
+        for (const auto& [b, i] : me.lowest.items()) lowest.offer(b, i);
     }
     TopList seeds(top);
-    for (const std::size_t i : lowest.sorted()) {
-        if constexpr (kTwo) assessor.outer(values[i / n]);
-        const Score s = assessor.score(values[i % n], TopList::kAnyClass);
-        seeds.offer({assessor.values(), s.objective, s.span});
+    Assessor<K>& a = w[0].assessor;
+    for (const std::size_t i : lowest.items() | std::views::values) {
+        if constexpr (kTwo) a.outer(values[i / n]);
+        const Score s = a.score(values[i % n], TopList::kAnyClass);
+        seeds.offer({a.values(), s.objective, s.span});
     }
     const std::uint64_t seed_class = seeds.stop_class();
-    TopList list(top);
-    for (std::size_t row = 0; row < rows; ++row) {
+    detail::parallel_for(rows, workers, [&](std::size_t id, std::size_t row) {
+        Worker<K>& me = w[id];
         bool outer_set = false;
         for (std::size_t col = 0; col < n; ++col) {
             const double b = bound[row * n + col];
-            const std::uint64_t stop = std::min(seed_class, list.stop_class());
+            const std::uint64_t stop = std::min(seed_class, me.top.stop_class());
             if (b == kOut || tie_class(b) > stop) continue;
             if (kTwo && !outer_set) {
-                assessor.outer(values[row]);
+                me.assessor.outer(values[row]);
                 outer_set = true;
             }
-            const Score s = assessor.score(values[col], stop);
-            if (s.complete) list.offer({assessor.values(), s.objective, s.span});
+            const Score s = me.assessor.score(values[col], stop);
+            if (s.complete) me.top.offer({me.assessor.values(), s.objective, s.span});
         }
-    }
+    });
+    // Each worker's list holds every combination of the best N it saw, and the order is total: the
+    // merge is the best N whatever the number of workers.
+    std::vector<Ranked> all;
     StandardSearch result;
     result.examined = rows * n;
-    for (std::size_t f = 0; f < kFlags.size(); ++f) result.removed.emplace_back(kFlags[f], assessor.removed()[f]);
-    for (const Ranked& r : list.items()) {
+    for (const auto& flag : kFlags) result.removed.emplace_back(flag, 0);
+    for (const Worker<K>& me : w) {
+        all.insert(all.end(), me.top.items().begin(), me.top.items().end());
+        for (std::size_t f = 0; f < kFlags.size(); ++f) result.removed[f].second += me.assessor.removed()[f];
+    }
+    std::sort(all.begin(), all.end(), better);
+    if (all.size() > top) all.resize(top);
+    for (const Ranked& r : all) {
         const Circuit c =
             sized_circuit(ctx.spec, ctx.model, std::vector<double>(r.values.begin(), r.values.begin() + K::kFree));
         result.best.push_back(evaluate(ctx.spec, ctx.grid, ctx.model, c));
