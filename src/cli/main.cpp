@@ -11,7 +11,10 @@
 
 namespace {
 
-void build_program(CLI::App& app) {
+// Declares the program and its commands; only the command `only` when it is not empty (a --jsonl batch
+// builds a fresh program for every line, and declaring every command's flags each time costs more than
+// the sizing itself).
+void build_program(CLI::App& app, const std::string& only = "") {
     app.description(
         "rtline designs NTC thermistor linearization circuits: thermistor models and fits, divider, shunt\n"
         "and bridge networks checked against a straight line, resistor sizing with standard values.");
@@ -25,11 +28,13 @@ void build_program(CLI::App& app) {
                            "Exit codes: 0 success, 1 no design meets the constraints, 2 bad input or usage, "
                            "3 internal error.\n\n") +
                rtline::cli::kSafetyNote);
-    rtline::cli::setup_model(app);
-    rtline::cli::setup_fit(app);
-    rtline::cli::setup_check(app);
-    rtline::cli::setup_size(app);
-    rtline::cli::setup_table(app);
+    const std::pair<const char*, void (*)(CLI::App&)> commands[] = {
+        {"model", rtline::cli::setup_model}, {"fit", rtline::cli::setup_fit},     {"check", rtline::cli::setup_check},
+        {"size", rtline::cli::setup_size},   {"table", rtline::cli::setup_table},
+    };
+    for (const auto& [name, setup] : commands) {
+        if (only.empty() || only == name) setup(app);
+    }
     for (CLI::App* sub : app.get_subcommands({})) {
         // Declared for --help; read_invocation() takes both out of the arguments before parsing.
         sub->add_option("--spec", "JSON spec: keys are the long flag names with _ for - ('-' reads stdin)")
@@ -84,7 +89,8 @@ int run(int argc, char** argv) {
         if (!inv.spec_path.empty()) throw rtline::InputError("--spec", inv.spec_path, "not with --jsonl (specs come on stdin)");
         const std::vector<std::string> extra(inv.args.begin() + 1, inv.args.end());
         std::string out;
-        const int code = rtline::cli::run_batch(inv.command, extra, rtline::cli::read_text("-", "--jsonl"), build_program, out);
+        const int code = rtline::cli::run_batch(inv.command, extra, rtline::cli::read_text("-", "--jsonl"),
+                                                [&](CLI::App& a) { build_program(a, inv.command); }, out);
         std::cout << out;
         return code;
     }
