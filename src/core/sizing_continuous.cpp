@@ -89,9 +89,10 @@ double minimize_1d(F&& f, double lo, double hi, int n, double tol, double& fbest
     return best_x;
 }
 
-// objective() for the kernel's circuit: +infinity when the output does not change.
+// objective() for the kernel's circuit: +infinity when the output does not change. One per thread, on
+// a cache line of its own (the kernel's values are written at every evaluation).
 template <class K>
-class Objective {
+class alignas(64) Objective {
 public:
     Objective(const K& k, const kernel::ScanGrid& scan, const Grid& grid, LineKind line)
         : k_(k), scan_(scan), grid_(grid), line_(line) {}

@@ -218,9 +218,11 @@ private:
     std::vector<std::pair<double, std::size_t>> items_;
 };
 
-// One thread's share of a search: its assessor (with its counts), its lowest bounds, its best N.
+// One thread's share of a search: its assessor (with its counts), its lowest bounds, its best N. On a
+// cache line of its own: the kernel's per-combination values are written for every combination, and
+// two threads writing one line would keep taking it from each other.
 template <class K>
-struct Worker {
+struct alignas(64) Worker {
     Assessor<K> assessor;
     Lowest lowest;
     TopList top;
