@@ -7,7 +7,6 @@
 #include <cmath>
 #include <cstdint>
 #include <limits>
-#include <ranges>
 
 #include "parallel.hpp"
 #include "rtline/sizing.hpp"
@@ -265,7 +264,8 @@ StandardSearch run_search(const Context& ctx, const std::vector<double>& values,
     }
     TopList seeds(top);
     Assessor<K>& a = w[0].assessor;
-    for (const std::size_t i : lowest.items() | std::views::values) {
+    for (const auto& entry : lowest.items()) {
+        const std::size_t i = entry.second;
         if constexpr (kTwo) a.outer(values[i / n]);
         const Score s = a.score(values[i % n], TopList::kAnyClass);
         seeds.offer({a.values(), s.objective, s.span});
