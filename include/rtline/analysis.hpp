@@ -50,5 +50,7 @@ struct Analysis {
 
 // |d output / dT| at temperature t_k: d output/dR_T (central difference) times dR_T/dT = alpha·R_T.
 [[nodiscard]] double sensitivity(const Circuit& circuit, const Thermistor& model, double t_k, double r_t);
+// The same with alpha = model.alpha(t_k) given (1/K), for loops that compute it once per point.
+[[nodiscard]] double sensitivity(const Circuit& circuit, double alpha_per_k, double r_t);
 
 }  // namespace rtline

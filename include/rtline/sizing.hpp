@@ -32,6 +32,7 @@ struct SizingSpec {
     std::size_t top = 5;               // how many standard combinations to keep
     Constraints constraints;
     double dissipation_w_per_k = 0.0;  // 0: unknown
+    std::size_t threads = 0;           // worker threads for large searches, 0: one per core (results do not depend on it)
 };
 
 // The resistors sizing chooses for a topology: rs; rp; rp, rs; r1; rp, r1 (bare: none).
@@ -103,7 +104,10 @@ struct StandardSearch {
 };
 
 // Every combination of series values in range for the free resistors, ranked by the objective;
-// ties broken by the larger output span. Exhaustive: no combination is skipped.
+// objectives equal in their leading 30 bits (within about 1e-9 relative) are a tie, broken by the larger
+// output span, then by the smaller resistor values. Exhaustive: every combination is examined and every
+// constraint failure counted; a combination whose endpoint-line scan already shows it cannot rank in the
+// top is not scanned to the end (the result is the same as with full scans).
 [[nodiscard]] StandardSearch search_standard(const SizingSpec& spec, const Grid& grid, const Thermistor& model);
 
 // For a one-resistor topology: the series values on the Pareto front of nonlinearity (lower is better)

@@ -21,6 +21,7 @@ struct SizeCommand {
     std::string series = "E24";
     std::string range = "1:10M";
     std::string top = "5";
+    std::string threads;  // empty: one per core
     std::string line = "endpoint";
     std::string max_power;         // W
     std::string max_self_heating;  // K
@@ -66,6 +67,13 @@ Setup build_setup(const SizeCommand& o) {
         throw InputError("--top", o.top, "expected a whole number from 1 to 1000");
     }
     spec.top = static_cast<std::size_t>(top);
+    if (!o.threads.empty()) {
+        const double threads = parse_number(o.threads, "--threads");
+        if (!(threads >= 1.0 && threads <= 256.0) || threads != std::floor(threads)) {
+            throw InputError("--threads", o.threads, "expected a whole number from 1 to 256");
+        }
+        spec.threads = static_cast<std::size_t>(threads);
+    }
     if (!o.dissipation.empty()) {
         spec.dissipation_w_per_k = 1e-3 * parse_number(o.dissipation, "--dissipation");
         if (!(spec.dissipation_w_per_k > 0.0)) {
@@ -511,6 +519,8 @@ void setup_size(CLI::App& app) {
     sub->add_option("--range", opt->range, "Resistor values LO:HI in ohm (default 1:10M)")->group("Search");
     sub->add_option("--top", opt->top, "How many standard combinations to list (default 5)")->group("Search");
     sub->add_option("--line", opt->line, "Reference line: endpoint (default), best-fit or minimax")->group("Search");
+    sub->add_option("--threads", opt->threads, "Worker threads for the search (default: one per core; same result)")
+        ->group("Search");
     sub->add_flag("--compare", opt->compare, "Size every topology and list the best of each")->group("Search");
     sub->add_flag("--tradeoff", opt->tradeoff, "One-resistor topology: nonlinearity against output span (Pareto front)")
         ->group("Search");

@@ -3,6 +3,7 @@
 #pragma once
 
 #include <CLI/CLI.hpp>
+#include <string>
 
 namespace rtline::cli {
 
@@ -14,6 +15,6 @@ void setup_table(CLI::App& app);
 void setup_budget(CLI::App& app);
 
 // The whole program on `app`: every command above, each with --spec and --jsonl declared for --help.
-void build_program(CLI::App& app);
+void build_program(CLI::App& app, const std::string& only = "");
 
 }  // namespace rtline::cli

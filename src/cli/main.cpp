@@ -56,7 +56,8 @@ int run(int argc, char** argv) {
         if (!inv.spec_path.empty()) throw rtline::InputError("--spec", inv.spec_path, "not with --jsonl (specs come on stdin)");
         const std::vector<std::string> extra(inv.args.begin() + 1, inv.args.end());
         std::string out;
-        const int code = rtline::cli::run_batch(inv.command, extra, rtline::cli::read_text("-", "--jsonl"), rtline::cli::build_program, out);
+        const int code = rtline::cli::run_batch(inv.command, extra, rtline::cli::read_text("-", "--jsonl"),
+                                                [&](CLI::App& a) { rtline::cli::build_program(a, inv.command); }, out);
         std::cout << out;
         return code;
     }

@@ -19,7 +19,7 @@ std::string exit_codes(const std::string& command) {
 
 }  // namespace
 
-void build_program(CLI::App& app) {
+void build_program(CLI::App& app, const std::string& only) {
     app.description(
         "rtline designs NTC thermistor linearization circuits: thermistor models and fits, divider, shunt\n"
         "and bridge networks checked against a straight line, resistor sizing with standard values.");
@@ -34,12 +34,15 @@ void build_program(CLI::App& app) {
                            "Exit codes: 0 success, 1 no design meets the constraints, 2 bad input or usage, "
                            "3 internal error;\nwith --jsonl the worst line's (3, else 2, else 1).\n\n") +
                kSafetyNote);
-    setup_model(app);
-    setup_fit(app);
-    setup_check(app);
-    setup_size(app);
-    setup_table(app);
-    setup_budget(app);
+    // Only the command `only` when it is given: a --jsonl batch builds a fresh program for every line,
+    // and declaring every command's flags each time would cost more than the sizing itself.
+    const std::pair<const char*, void (*)(CLI::App&)> commands[] = {
+        {"model", setup_model}, {"fit", setup_fit},     {"check", setup_check},
+        {"size", setup_size},   {"table", setup_table}, {"budget", setup_budget},
+    };
+    for (const auto& command : commands) {
+        if (only.empty() || only == command.first) command.second(app);
+    }
     for (CLI::App* sub : app.get_subcommands({})) {
         // The exit codes go before the safety caution, which closes the help.
         std::string footer = sub->get_footer();

@@ -7,10 +7,14 @@
 
 namespace rtline {
 
-double sensitivity(const Circuit& circuit, const Thermistor& model, double t_k, double r_t) {
+double sensitivity(const Circuit& circuit, double alpha_per_k, double r_t) {
     const double h = 1e-6 * r_t;
     const double dout_dr = (output(circuit, r_t + h) - output(circuit, r_t - h)) / (2.0 * h);
-    return std::abs(dout_dr * model.alpha(t_k) * r_t);
+    return std::abs(dout_dr * alpha_per_k * r_t);
+}
+
+double sensitivity(const Circuit& circuit, const Thermistor& model, double t_k, double r_t) {
+    return sensitivity(circuit, model.alpha(t_k), r_t);
 }
 
 Analysis analyze(const Grid& grid, const Thermistor& model, const Circuit& circuit, LineKind kind,
