@@ -3,6 +3,7 @@
 
   1  size, shunt-divider, E96 over 100 ohm..1 Mohm (148 225 pairs), 0..100 C at 0.25 C (401 points), --top 1
   2  the same for shunt-bridge with E192 (591 361 pairs)
+  3  budget, 10^6 Monte Carlo trials x 101 temperatures (divider-low)
   4  a JSON Lines batch of 1000 size specs (divider-low, E24, varied R25, B and span)
 (3, the Monte Carlo budget, is not part of this tree yet.)
 
@@ -76,7 +77,7 @@ def main():
     ap = argparse.ArgumentParser()
     ap.add_argument("rtline")
     ap.add_argument("--runs", type=int, default=11)
-    ap.add_argument("--only", default="1,2,4")
+    ap.add_argument("--only", default="1,2,3,4")
     ap.add_argument("--no-numpy", action="store_true")
     a = ap.parse_args()
     which = a.only.split(",")
@@ -103,6 +104,18 @@ def main():
             ok = ok and same
             print(f"   numpy search {ref['search_s'] * 1e3:.0f} ms, best pair {ref['outer_ohm']:g}, {ref['inner_ohm']:g} ohm"
                   f" ({'same' if same else 'DIFFERENT'}); numpy / rtline = {ref['search_s'] / med:.1f}x")
+    if "3" in which:
+        # rtline budget, 10^6 trials x 101 temperatures (0..100 C at 1 C), normal, model reading.
+        cmd = [a.rtline, "budget", "--r25", "10k", "--beta", "3950", "--span", "0:100", "--circuit", "divider-low",
+               "--rs", "10k", "--trials", "1000000", "--format", "json"]
+        runs = max(3, a.runs // 2)
+        med, best, cpu, out = median_time(cmd, runs)
+        trials = json.loads(out)["assumptions"]["trials"] if "assumptions" in out else 1000000
+        line = (f"3  budget, {trials} trials x 101 temperatures: median {med * 1e3:.0f} ms (min {best * 1e3:.0f},"
+                f" CPU {cpu * 1e3:.0f}) over {runs} runs, target 1000 ms")
+        if med > 1.0:
+            line += "  ABOVE TARGET"
+        print(line)
     if "4" in which:
         specs = batch_specs()
         med, best, cpu, out = median_time([a.rtline, "size", "--jsonl"], a.runs, stdin=specs)
