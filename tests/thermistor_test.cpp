@@ -63,6 +63,18 @@ TEST_CASE("the beta model's inverse gives the hand-calculated temperature at 5 k
     CHECK(th.temperature(th.resistance(250.0)) == doctest::Approx(250.0).epsilon(1e-14));
 }
 
+TEST_CASE("the beta model's inverse holds for a resistance 400 decades from R0") {
+    // R/R0 = 1e-200/1e200 = 1e-400 underflows a double, but ln(R/R0) = −400·ln 10 = −921.0340372 does not:
+    // 1/T = 1/300 − 921.0340372/1e12 (the defining equation, by hand) gives T = 300.0000829 K, not 0.
+    const BetaModel m{1e200, 300.0, 1e12};
+    const double want = 1.0 / (1.0 / 300.0 - 400.0 * std::log(10.0) / 1e12);
+    CHECK(want == doctest::Approx(300.0000829).epsilon(1e-9));
+    CHECK(beta_temperature(m, 1e-200) == doctest::Approx(want).epsilon(1e-12));
+    CHECK(Thermistor(m).temperature(1e-200) == doctest::Approx(want).epsilon(1e-12));
+    // An ordinary ratio keeps the one logarithm: the same number as the formula written out.
+    CHECK(beta_temperature(BetaModel{10e3, 298.15, 3500.0}, 5e3) == 1.0 / (1.0 / 298.15 + std::log(0.5) / 3500.0));
+}
+
 TEST_CASE("the B-value between two temperatures recovers B for the beta model") {
     // B = ln(R1/R2)/(1/T1 − 1/T2) (REFERENCES: B-value between two temperatures); for the beta model
     // ln(R1/R2) = B·(1/T1 − 1/T2), so the ratio is B itself for any pair.

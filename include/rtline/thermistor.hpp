@@ -83,6 +83,8 @@ void validate(const SteinhartHart& m);
 
 // R(T) of Steinhart–Hart by the closed-form (Cardano) solution of the cubic in ln R. Requires T > 0.
 [[nodiscard]] double sh_resistance(const SteinhartHart& m, double t_k);
+// T(R) of the beta model: 1/(1/T0 + ln(R/R0)/B).
+[[nodiscard]] double beta_temperature(const BetaModel& m, double r_ohm);
 // T(R) of Steinhart–Hart: 1/(a + b·ln R + c·ln³R).
 [[nodiscard]] double sh_temperature(const SteinhartHart& m, double r_ohm);
 

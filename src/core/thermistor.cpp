@@ -148,6 +148,16 @@ double TableModel::temperature(double r_ohm) const {
     return 1.0 / (0.5 * (lo + hi));
 }
 
+// ------------------------------------------------------------------------------------------ beta
+
+double beta_temperature(const BetaModel& m, double r_ohm) {
+    const double ratio = r_ohm / m.r0_ohm;
+    // ln R − ln R0 when the ratio leaves the doubles (R and R0 hundreds of decades apart); otherwise the
+    // ratio's one logarithm, which is the more accurate.
+    const double l = std::isnormal(ratio) && std::isfinite(ratio) ? std::log(ratio) : std::log(r_ohm) - std::log(m.r0_ohm);
+    return 1.0 / (1.0 / m.t0_k + l / m.b_k);
+}
+
 // ------------------------------------------------------------------------------ Steinhart–Hart
 
 double sh_temperature(const SteinhartHart& m, double r_ohm) {
@@ -267,7 +277,7 @@ double Thermistor::resistance(double t_k) const {
 
 double Thermistor::temperature(double r_ohm) const {
     return std::visit(Overloaded{
-                          [&](const BetaModel& m) { return 1.0 / (1.0 / m.t0_k + std::log(r_ohm / m.r0_ohm) / m.b_k); },
+                          [&](const BetaModel& m) { return beta_temperature(m, r_ohm); },
                           [&](const SteinhartHart& m) { return sh_temperature(m, r_ohm); },
                           [&](const TableModel& m) { return m.temperature(r_ohm); },
                       },
