@@ -49,6 +49,8 @@ const std::vector<std::string> kModel = {"model", "--r25", "10k", "--beta", "395
 const std::vector<std::string> kCheck = {"check", "--r25", "10k", "--beta", "3950", "--span", "0:50", "--circuit"};
 const std::vector<std::string> kTable = {"table", "--r25", "10k", "--beta", "3950", "--span", "0:45",
                                          "--circuit", "divider-low", "--rs", "10k"};
+const std::vector<std::string> kBudget = {"budget", "--r25", "10k", "--beta", "3950", "--span", "0:50",
+                                          "--circuit", "divider-low", "--rs", "10k"};
 const std::vector<std::string> kSize = {"size", "--r25", "10k", "--beta", "3950", "--span", "0:50", "--circuit",
                                         "divider-low"};
 
@@ -152,6 +154,30 @@ TEST_CASE("an unknown name, count or ADC width is refused by its flag and its te
     });
 }
 
+TEST_CASE("a mistyped trial count, tolerance or converter figure in a budget is refused") {
+    const std::string tolerance = "a tolerance must be at least 0 and below 100 (percent)";
+    check_refused({
+        {"a negative trial count", with(kBudget, {"--trials", "-5"}),
+         "--trials '-5': the number of trials must be a whole number from 0 to 100000000"},
+        {"a fractional trial count", with(kBudget, {"--trials", "1.5"}),
+         "--trials '1.5': the number of trials must be a whole number from 0 to 100000000"},
+        {"a trial count past the limit", with(kBudget, {"--trials", "1e9"}),
+         "--trials '1e9': the number of trials must be a whole number from 0 to 100000000"},
+        {"a negative tolerance", with(kBudget, {"--r25-tol", "-1"}), "--r25-tol '-1': " + tolerance},
+        {"a tolerance of 100 %", with(kBudget, {"--resistor-tol", "100"}), "--resistor-tol '100': " + tolerance},
+        {"NaN as a tolerance", with(kBudget, {"--beta-tol", "nan"}), "--beta-tol 'nan': expected a finite number"},
+        {"a negative seed", with(kBudget, {"--seed", "-1"}),
+         "--seed '-1': the seed must be a whole number from 0 to 18446744073709551615"},
+        {"zero threads", with(kBudget, {"--threads", "0"}), "--threads '0': give 1 to 256 threads"},
+        {"an unknown distribution", with(kBudget, {"--distribution", "gauss"}),
+         "--distribution 'gauss': unknown distribution; choose normal or uniform"},
+        {"a converter error without a converter", with(kBudget, {"--adc-error", "1"}),
+         "--adc-error '1': needs --adc-bits (an LSB needs a resolution)"},
+        {"a zero dissipation constant", with(kBudget, {"--dissipation", "0"}),
+         "--dissipation '0': the dissipation constant must be positive (mW/K)"},
+    });
+}
+
 TEST_CASE("a model that cannot describe the span, or a circuit whose output does not change, is refused") {
     check_refused({
         // R(-200 °C) = 10k·exp(1e6·(1/73.15 − 1/298.15)) = 10k·e^10317 (by hand): beyond a double's 1.8e308.
@@ -222,9 +248,16 @@ TEST_CASE("a broken R-T file is refused by its line, its column and the field's 
         // Through 1e300, 1e-300 and 1e-301 ohm the exact coefficients are B < 0 with a large C: the
         // curve turns back between the points (1/T against ln R is not monotonic).
         {"a Steinhart-Hart fit that is not monotonic", fit,
-         "stdin '3 points': the Steinhart-Hart fit does not give a resistance that falls monotonically from 0 to 50 "
-         "\xC2\xB0" "C; check the points, or fit --model beta",
+         "--points '3 points': the Steinhart-Hart fit does not give a resistance that falls monotonically from 0 to 50 "
+         "\xC2\xB0" "C; check the points, or use the beta model (--model beta)",
          "t_c,r_ohm\n0,1e300\n25,1e-300\n50,1e-301\n"},
+        // A temperature mistyped as 5.6e57 C: the exact coefficients through it give 1/T = a + b*L +
+        // c*L^3 = a at 1 ohm (L = 0), and a = 1/T3 ~ 1.8e-58 is lost to rounding next to the other points'
+        // 1/T ~ 3e-3 (by hand): the model's temperature there is infinite or meaningless, never a residual.
+        {"a Steinhart-Hart fit that cannot give back a point", fit,
+         "--points '3 points': the Steinhart-Hart fit cannot give back the temperature of the point at 5.55556e+57 "
+         "\xC2\xB0" "C (1 ohm); check the points' temperatures",
+         "t_c,r_ohm\n60,8k7\n46,10k\n5.555556e57,1\n"},
         {"a table model asked outside its points", {"model", "--points", "-", "--model", "table", "--span", "0:60"},
          "--span '0:60': outside the R-T table, which covers 0 to 50 \xC2\xB0" "C", "t_c,r_ohm\n0,32k\n25,10k\n50,3k6\n"},
         {"a folder instead of a file", {"fit", "--points", rtline::test::source_dir()},

@@ -204,3 +204,45 @@ TEST_CASE("a beta fit to a rising resistance is an InputError naming the points"
         CHECK(std::string(e.what()) == "--points '3 points': the beta fit gives no positive B-value");
     }
 }
+
+TEST_CASE("a fit that cannot give back one of its points is an InputError, not an infinite residual") {
+    // A temperature typed as 5.6e57 °C among ordinary points (a case the R-T fuzzer found): through the
+    // three points exactly, 1/T at 1 ohm (L = 0) is the coefficient a, which should be 1/T3 = 1.8e-58 but
+    // is rounding noise next to the other points' 1/T of 3e-3 (by hand): the model's temperature there
+    // is infinite.
+    const std::vector<RtPoint> typo = {{319.15, 10e3}, {333.15, 8.7e3}, {celsius_to_kelvin(5.555556e57), 1.0}};
+    try {
+        (void)fit_steinhart_hart(typo);
+        FAIL("accepted");
+    } catch (const InputError& e) {
+        CHECK(std::string(e.what()) ==
+              "--points '3 points': the Steinhart-Hart fit cannot give back the temperature of the point at "
+              "5.55556e+57 \xC2\xB0" "C (1 ohm); check the points' temperatures");
+    }
+}
+
+TEST_CASE("a Steinhart-Hart fit that turns back between its points is an InputError naming the span") {
+    // Through 1e300, 1e-300 and 1e-301 ohm at 0, 25 and 50 °C the exact coefficients have b < 0 and a
+    // large c (by the closed form): 1/T against ln R is not monotonic between the points.
+    try {
+        (void)fit_steinhart_hart({{273.15, 1e300}, {298.15, 1e-300}, {323.15, 1e-301}});
+        FAIL("accepted");
+    } catch (const InputError& e) {
+        CHECK(std::string(e.what()) ==
+              "--points '3 points': the Steinhart-Hart fit does not give a resistance that falls monotonically "
+              "from 0 to 50 \xC2\xB0" "C; check the points, or use the beta model (--model beta)");
+    }
+}
+
+TEST_CASE("a beta fit whose R0 at T0 overflows a double says so and how to avoid it") {
+    // Points 1e-5 K apart near 300 K whose R spans 200 decades: B = ln(1e200)/(1/300 − 1/300.00003)
+    // ≈ 1.4e12 K (by hand), and R0 at 25 °C = R·exp(B·(1/298.15 − 1/300)) = exp(2.9e7): not a double.
+    try {
+        (void)fit_beta({{300.0, 1e200}, {300.00001, 1e100}, {300.00003, 1.0}}, 298.15);
+        FAIL("accepted");
+    } catch (const InputError& e) {
+        CHECK(std::string(e.what()) ==
+              "--points '3 points': the beta fit's R0 at 25 \xC2\xB0" "C is beyond the range of a double; state R0 "
+              "at a temperature among the points (--t0)");
+    }
+}

@@ -277,6 +277,21 @@ TEST_CASE("rtline fit as text names the model and the largest residual") {
     CHECK(r.out.find("residual (mK)") != std::string::npos);
 }
 
+TEST_CASE("rtline fit still fits when the other model cannot be fitted for comparison") {
+    // Steinhart-Hart through three points is exact; the beta fit's R0 at 25 °C would be exp(2.9e7) ohm
+    // (see fit_test), so the comparison is left out and the text says why.
+    const std::string points = "t_k,r_ohm\n300,1e200\n300.00001,1e100\n300.00003,1\n";
+    const auto text = run_rtline({"fit", "--points", "-"}, points);
+    CHECK(text.code == 0);
+    CHECK(text.out.find("a beta fit to the same points is not possible: the beta fit's R0 at 25") != std::string::npos);
+    const auto r = run_rtline({"fit", "--points", "-", "--format", "json"}, points);
+    REQUIRE(r.code == 0);
+    const json doc = json::parse(r.out);
+    CHECK(doc["model"]["kind"] == "steinhart-hart");
+    CHECK_FALSE(doc.contains("alternative"));
+    CHECK(doc["max_residual_mk"].get<double>() < 1e-3);
+}
+
 TEST_CASE("-o writes the document to the file and nothing to stdout") {
     TempPath out(".json");
     const auto r = run_rtline({"model", "--r25", "10k", "--beta", "3500", "--span", "0:10", "--format", "json", "-o", out.str()});

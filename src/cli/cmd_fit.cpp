@@ -1,6 +1,8 @@
 // rtline fit: Steinhart–Hart or beta coefficients from R–T points, with the residual at each point.
 #include <cmath>
 #include <memory>
+#include <tuple>
+#include <utility>
 
 #include "commands.hpp"
 #include "common.hpp"
@@ -35,6 +37,21 @@ const Residual& worst(const std::vector<Residual>& rs) {
     return rs[k];
 }
 
+// The other model fitted to the same points, for comparison: its JSON and its line of text. The fit
+// asked for stands on its own, so when the points cannot give the other one it is only left out, and
+// the text says why.
+template <class MaxResidual>
+std::pair<Json, std::string> other_fit(const char* kind, const char* name, MaxResidual max_residual_k) {
+    try {
+        const double max_k = max_residual_k();
+        return {Json{{"kind", kind}, {"max_residual_mk", 1e3 * max_k}},
+                std::string("a ") + name + " fit to the same points: largest |residual| " + format_fixed(1e3 * max_k, 2) +
+                    " mK\n"};
+    } catch (const InputError& e) {
+        return {Json(), std::string("a ") + name + " fit to the same points is not possible: " + e.why() + "\n"};
+    }
+}
+
 void run_fit(const FitCommand& o) {
     const Format format = parse_format(o.out.format);
     if (o.model != "sh" && o.model != "beta") {
@@ -53,17 +70,6 @@ void run_fit(const FitCommand& o) {
     if (o.model == "sh") {
         const std::vector<RtPoint> pts = validate_points(raw, 3, source);
         const ShFit fit = fit_steinhart_hart(pts);
-        try {
-            // Coefficients that turn back between the points describe no thermistor: every other
-            // command would refuse them, so refuse them here, where the points can still be fixed.
-            Thermistor(fit.model).check_span(Span{pts.front().t_k, pts.back().t_k}, source);
-        } catch (const InputError&) {
-            throw InputError(source, std::to_string(pts.size()) + " points",
-                             "the Steinhart-Hart fit does not give a resistance that falls monotonically from " +
-                                 format_number(kelvin_to_celsius(pts.front().t_k)) + " to " +
-                                 format_number(kelvin_to_celsius(pts.back().t_k)) +
-                                 " \xC2\xB0" "C; check the points, or fit --model beta");
-        }
         residuals = fit.residuals;
         max_residual_k = fit.max_residual_k;
         model = model_json(Thermistor(fit.model));
@@ -71,10 +77,8 @@ void run_fit(const FitCommand& o) {
                   (pts.size() == 3 ? "exact through three points" : "least squares, weighted for temperature residuals") +
                   ")\n  A = " + format_number(fit.model.a, 10) + "\n  B = " + format_number(fit.model.b, 10) +
                   "\n  C = " + format_number(fit.model.c, 10) + "\n";
-        const BetaFit beta = fit_beta(pts, t0_k);
-        alternative = {{"kind", "beta"}, {"max_residual_mk", 1e3 * beta.max_residual_k}};
-        comparison = "a beta fit to the same points: largest |residual| " +
-                     format_fixed(1e3 * beta.max_residual_k, 2) + " mK\n";
+        std::tie(alternative, comparison) =
+            other_fit("beta", "beta", [&] { return fit_beta(pts, t0_k).max_residual_k; });
     } else {
         const std::vector<RtPoint> pts = validate_points(raw, 2, source);
         const BetaFit fit = fit_beta(pts, t0_k);
@@ -85,10 +89,8 @@ void run_fit(const FitCommand& o) {
                   "  R0 = " + format_resistance(fit.model.r0_ohm, 6) + " ohm at " + format_number(kelvin_to_celsius(t0_k)) +
                   " \xC2\xB0" "C\n  B = " + format_number(fit.model.b_k, 7) + " K\n";
         if (pts.size() >= 3) {
-            const ShFit sh = fit_steinhart_hart(pts);
-            alternative = {{"kind", "steinhart-hart"}, {"max_residual_mk", 1e3 * sh.max_residual_k}};
-            comparison = "a Steinhart-Hart fit to the same points: largest |residual| " +
-                         format_fixed(1e3 * sh.max_residual_k, 2) + " mK\n";
+            std::tie(alternative, comparison) = other_fit(
+                "steinhart-hart", "Steinhart-Hart", [&] { return fit_steinhart_hart(pts).max_residual_k; });
         }
     }
 

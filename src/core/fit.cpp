@@ -4,6 +4,7 @@
 #include <cmath>
 
 #include "rtline/error.hpp"
+#include "rtline/units.hpp"
 
 namespace rtline {
 
@@ -16,6 +17,22 @@ double max_abs(const std::vector<Residual>& rs) {
     double m = 0.0;
     for (const Residual& r : rs) m = std::max(m, std::abs(r.residual_k));
     return m;
+}
+
+// The residuals of a fitted model, refused when one is not a finite number: the model cannot give back
+// the temperature of a point (1/T reaches zero or below there in double precision, as with a point
+// typed at 1e50 °C), so nothing it would print could be trusted.
+std::vector<Residual> finite_residuals(const Thermistor& model, const std::vector<RtPoint>& points, const char* what) {
+    std::vector<Residual> rs = residuals_of(model, points);
+    for (const Residual& r : rs) {
+        if (!std::isfinite(r.residual_k)) {
+            throw InputError("--points", count_points(points.size()),
+                             std::string("the ") + what + " fit cannot give back the temperature of the point at " +
+                                 format_number(kelvin_to_celsius(r.t_k)) + " \xC2\xB0" "C (" + format_resistance(r.r_ohm) +
+                                 " ohm); check the points' temperatures");
+        }
+    }
+    return rs;
 }
 
 // Weighted least squares with the columns scaled to unit norm, solved by column-pivoting QR.
@@ -95,7 +112,20 @@ ShFit fit_steinhart_hart(const std::vector<RtPoint>& points) {
         // Three points: the closed form is exact; use it (the QR solution agrees to rounding).
         m = steinhart_hart_three_point(points[0], points[1], points[2]);
     }
-    ShFit fit{m, residuals_of(Thermistor(m), points), 0.0};
+    const Thermistor model(m);
+    const Span span{points.front().t_k, points.back().t_k};
+    try {
+        // Coefficients that turn back between the points describe no thermistor: every command would
+        // refuse them over this span, so refuse them here, where the points can still be fixed.
+        model.check_span(span, "--points");
+    } catch (const InputError&) {
+        throw InputError("--points", count_points(points.size()),
+                         "the Steinhart-Hart fit does not give a resistance that falls monotonically from " +
+                             format_number(kelvin_to_celsius(span.lo_k)) + " to " +
+                             format_number(kelvin_to_celsius(span.hi_k)) +
+                             " \xC2\xB0" "C; check the points, or use the beta model (--model beta)");
+    }
+    ShFit fit{m, finite_residuals(model, points, "Steinhart-Hart"), 0.0};
     fit.max_residual_k = max_abs(fit.residuals);
     return fit;
 }
@@ -123,11 +153,16 @@ BetaFit fit_beta(const std::vector<RtPoint>& points, double t0_k) {
     const double b_k = 1.0 / x(1);
     // 1/t0 = x0 + (ln R0 − l_ref)/B  ⇒  ln R0 = l_ref + B·(1/t0 − x0).
     const double r0 = std::exp(l_ref + b_k * (1.0 / t0_k - x(0)));
-    if (!(b_k > 0.0) || !std::isfinite(r0)) {
+    if (!(b_k > 0.0) || !std::isfinite(b_k)) {
         throw InputError("--points", count_points(static_cast<std::size_t>(n)), "the beta fit gives no positive B-value");
     }
+    if (!std::isnormal(r0) || !std::isfinite(r0)) {
+        throw InputError("--points", count_points(static_cast<std::size_t>(n)),
+                         "the beta fit's R0 at " + format_number(kelvin_to_celsius(t0_k)) +
+                             " \xC2\xB0" "C is beyond the range of a double; state R0 at a temperature among the points (--t0)");
+    }
     BetaModel m{r0, t0_k, b_k};
-    BetaFit fit{m, residuals_of(Thermistor(m), points), 0.0};
+    BetaFit fit{m, finite_residuals(Thermistor(m), points, "beta"), 0.0};
     fit.max_residual_k = max_abs(fit.residuals);
     return fit;
 }
