@@ -5,10 +5,14 @@
 # it is kept as build-fuzz/<target>-crash-* (or -leak-*, -timeout-*).
 #   bash fuzz/run.sh                         # 60 s per target
 #   RTLINE_FUZZ_SECONDS=600 bash fuzz/run.sh  # longer
+#   RTLINE_FUZZ_SEED=0 bash fuzz/run.sh        # a new random seed each run (libFuzzer's -seed=0)
+# The default seed is fixed (1), so that CI walks the same inputs each time and a red run can be
+# replayed; fuzz with other seeds by hand to explore further.
 # The seed corpus is left as it is: new inputs a run finds go to a scratch folder and are discarded.
 set -euo pipefail
 cd "$(dirname "$0")/.."
 seconds=${RTLINE_FUZZ_SECONDS:-60}
+seed=${RTLINE_FUZZ_SEED:-1}
 build=build-fuzz
 targets=(values rtcsv spec)
 jobs=$(nproc 2>/dev/null || echo 2)
@@ -25,7 +29,7 @@ for t in "${targets[@]}"; do
   log="$build/fuzz-$t.log"
   mkdir -p "$scratch/$t"
   status=0
-  ASAN_OPTIONS=detect_leaks=1 "$build/fuzz/fuzz_$t" -max_total_time="$seconds" -timeout=10 -rss_limit_mb=2048 \
+  ASAN_OPTIONS=detect_leaks=1 "$build/fuzz/fuzz_$t" -max_total_time="$seconds" -seed="$seed" -timeout=10 -rss_limit_mb=2048 \
       -print_final_stats=1 -dict="fuzz/$t.dict" -artifact_prefix="$build/$t-" \
       "$scratch/$t" "fuzz/corpus/$t" >"$log" 2>&1 || status=$?
   # A sanitizer report is a failure even if the process somehow exited 0.
@@ -34,7 +38,7 @@ for t in "${targets[@]}"; do
   fi
   execs=$(sed -n 's/^stat::number_of_executed_units: *//p' "$log" | tail -1)
   if [ "$status" -eq 0 ]; then
-    echo "fuzz: $t: ${execs:-?} executions in $seconds s; no crash, leak or sanitizer report"
+    echo "fuzz: $t: ${execs:-?} executions in $seconds s (seed $seed); no crash, leak or sanitizer report"
   else
     echo "fuzz: $t: FAILED (exit $status) after ${execs:-?} executions; the end of $log:"
     tail -n 40 "$log"
