@@ -48,15 +48,24 @@ double golden(F&& f, double a, double b, double tol, double& fbest) {
     return x2;
 }
 
-// Minimum of f over [lo, hi]: a scan of `n` points finds the local minima, the best three are refined
-// by golden section between their neighbours. f(worker, x) is called from `workers` threads at once,
-// each with its own worker index.
-template <class F>
-double minimize_1d(F&& f, double lo, double hi, int n, double tol, double& fbest, std::size_t workers) {
+// The scan of minimize_1d: n points evenly spaced over [lo, hi] and f at each.
+struct Scan1d {
+    std::vector<double> x;
+    std::vector<double> fx;
+};
+
+[[nodiscard]] std::vector<double> scan_points(double lo, double hi, int n) {
     std::vector<double> x(static_cast<std::size_t>(n));
-    std::vector<double> fx(static_cast<std::size_t>(n));
     for (int i = 0; i < n; ++i) x[static_cast<std::size_t>(i)] = lo + (hi - lo) * i / (n - 1);
-    detail::parallel_for(x.size(), workers, [&](std::size_t w, std::size_t i) { fx[i] = f(w, x[i]); });
+    return x;
+}
+
+// The minimum from a scan: its local minima found, the best three refined by golden section between
+// their neighbours. f(worker, x) is called from `workers` threads at once, each with its own index.
+template <class F>
+double refine_1d(F&& f, const Scan1d& scan, double tol, double& fbest, std::size_t workers) {
+    const std::vector<double>& x = scan.x;
+    const std::vector<double>& fx = scan.fx;
     std::vector<std::size_t> minima;
     for (std::size_t i = 0; i < x.size(); ++i) {
         const bool left = i == 0 || fx[i] <= fx[i - 1];
@@ -88,6 +97,14 @@ double minimize_1d(F&& f, double lo, double hi, int n, double tol, double& fbest
         }
     }
     return best_x;
+}
+
+// Minimum of f over [lo, hi]: a scan of `n` points, then refine_1d.
+template <class F>
+double minimize_1d(F&& f, double lo, double hi, int n, double tol, double& fbest, std::size_t workers) {
+    Scan1d scan{scan_points(lo, hi, n), std::vector<double>(static_cast<std::size_t>(n))};
+    detail::parallel_for(scan.x.size(), workers, [&](std::size_t w, std::size_t i) { scan.fx[i] = f(w, scan.x[i]); });
+    return refine_1d(f, scan, tol, fbest, workers);
 }
 
 // objective() for the kernel's circuit: +infinity when the output does not change. One per thread, on
@@ -149,19 +166,27 @@ std::vector<double> continuous_optimum(const SizingSpec& spec, const Grid& grid,
             (void)inner(w, u, fv);
             return fv;
         };
-        const double u = minimize_1d(outer, lo, hi, 57, tol, fbest, workers);
+        // The outer scan, keeping each point's best inner value as well (the ridge scan reuses them).
+        constexpr int kOuterScan = 57;
+        Scan1d outer_scan{scan_points(lo, hi, kOuterScan), std::vector<double>(kOuterScan)};
+        std::vector<double> scan_v(kOuterScan);
+        detail::parallel_for(outer_scan.x.size(), workers, [&](std::size_t w, std::size_t i) {
+            scan_v[i] = inner(w, outer_scan.x[i], outer_scan.fx[i]);
+        });
+        const double u = refine_1d(outer, outer_scan, tol, fbest, workers);
         double fv = INFINITY;
         const double v = inner(0, u, fv);
         // A single thermistor in any of these networks gives an output (a + b·R_T)/(c + d·R_T), whose
         // linearity depends on one equivalent resistance (rp∥rs for the shunt-divider): the optimum is a
         // ridge of pairs, not a point. The pairs of an outer scan that lie on it go to `ridge`, so the
-        // caller can report the one with the largest output span.
+        // caller can report the one with the largest output span. The ridge scan's 29 points are every
+        // other point of the outer scan: lo + (hi − lo)·2i/56 is lo + (hi − lo)·i/28 to the last bit
+        // (doubling and halving are exact), so their inner optima are those already found.
         constexpr int kRidgeScan = 29;
+        static_assert(kOuterScan == 2 * kRidgeScan - 1);
         for (int i = 0; i < kRidgeScan; ++i) {
-            const double ui = lo + (hi - lo) * i / (kRidgeScan - 1);
-            double fi = INFINITY;
-            const double vi = inner(0, ui, fi);
-            if (fi <= fbest * (1.0 + 1e-6)) ridge.push_back({std::exp(ui), std::exp(vi)});
+            const auto k = static_cast<std::size_t>(2 * i);
+            if (outer_scan.fx[k] <= fbest * (1.0 + 1e-6)) ridge.push_back({std::exp(outer_scan.x[k]), std::exp(scan_v[k])});
         }
         return {std::exp(u), std::exp(v)};
     }
