@@ -136,6 +136,11 @@ TEST_CASE("an unknown name, count or ADC width is refused by its flag and its te
          "The following argument was not expected: --colour (see rtline --help)"},
         {"a flag without its value", with(kModel, {"--span", "0:50", "--step"}),
          "--step: 1 required TEXT missing (see rtline --help)"},
+        // An empty name once read as "no file": the run printed its report and drew nothing, silently.
+        {"an empty picture file name", with(kCheck, {"divider-low", "--rs", "10k", "--svg", ""}),
+         "--svg: give a file name (an empty one would write nothing) (see rtline --help)"},
+        {"an empty output file name", with(kCheck, {"divider-low", "--rs", "10k", "-o", ""}),
+         "--output: give a file name (an empty one would write nothing) (see rtline --help)"},
         {"an ADC of zero bits", with(kTable, {"--adc-bits", "0"}), "--adc-bits '0': an ADC has 1 to 24 bits"},
         {"an ADC wider than 24 bits", with(kTable, {"--adc-bits", "25"}), "--adc-bits '25': an ADC has 1 to 24 bits"},
         {"a fractional ADC width", with(kTable, {"--adc-bits", "12.5"}),

@@ -305,9 +305,16 @@ std::string describe_circuit(const Circuit& c) {
 
 // ------------------------------------------------------------------------------------- output
 
+std::string non_empty_file_name(const std::string& path) {
+    // An empty name reads as "not given" later on: say so now instead of writing nothing.
+    return path.empty() ? std::string("give a file name (an empty one would write nothing)") : std::string();
+}
+
 void add_output_options(CLI::App& app, OutputOptions& o) {
     app.add_option("--format", o.format, "text (default), json or csv")->group("Output");
-    app.add_option("-o,--output", o.output, "Write to FILE (replaced only when the run succeeds)")->group("Output");
+    app.add_option("-o,--output", o.output, "Write to FILE (replaced only when the run succeeds)")
+        ->check(non_empty_file_name)
+        ->group("Output");
 }
 
 }  // namespace rtline::cli

@@ -67,6 +67,8 @@ struct OutputOptions {
     std::string output;  // -o FILE
 };
 void add_output_options(CLI::App& app, OutputOptions& o);
+// A CLI11 check for a FILE flag: an empty name is refused (it would read as "not given").
+[[nodiscard]] std::string non_empty_file_name(const std::string& path);
 
 // Reads a whole file ("-" = stdin); throws InputError naming `field` when it cannot be read.
 [[nodiscard]] std::string read_text(const std::string& path, const std::string& field);

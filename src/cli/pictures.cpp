@@ -41,6 +41,7 @@ std::string provenance(const std::string& command) {
 void add_svg_option(CLI::App& app, std::string& path) {
     app.add_option("--svg", path,
                    "Also draw the result as an SVG picture into FILE (written only when the run succeeds)")
+        ->check(non_empty_file_name)
         ->group("Output");
 }
 
