@@ -88,7 +88,12 @@ TEST_CASE("a mistyped resistance, B-value, temperature or step is refused by its
          "--step '-1': the step must be a positive number of kelvin"},
         // 50 K / 1e-6 K = 5e7 points, past the grid's limit of 1e6 (kMaxGridPoints).
         {"a step count past the limit", with(kModel, {"--span", "0:50", "--step", "1e-6"}),
-         "--step '1e-6': gives more than 1000000 points over the span"},
+         "--step '1e-6': gives more than 1000000 points over the span (50 K wide); use a larger step or a narrower "
+         "--span"},
+        // 1e300 °C: the default step of 1 K would need 1e300 points (by hand).
+        {"a span too wide for any grid", with(kModel, {"--span", "0:1e300"}),
+         "--step '1': gives more than 1000000 points over the span (1e+300 K wide); use a larger step or a narrower "
+         "--span"},
         {"NaN as a resistance", with(kCheck, {"divider-low", "--rs", "nan"}), "--rs 'nan': " + kResistance},
         {"NaN as a B-value", {"model", "--r25", "10k", "--beta", "NaN", "--span", "0:50"},
          "--beta 'NaN': expected a finite number"},

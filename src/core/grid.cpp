@@ -17,7 +17,8 @@ std::vector<double> span_temperatures(const Span& span, double step_k) {
         !(std::floor(intervals + 1e-9) + 1.0 <= static_cast<double>(kMaxGridPoints) &&
           width - std::floor(intervals + 1e-9) * step_k <= 1e-9 * step_k)) {
         throw InputError("--step", format_number(step_k),
-                         "gives more than " + std::to_string(kMaxGridPoints) + " points over the span");
+                         "gives more than " + std::to_string(kMaxGridPoints) + " points over the span (" +
+                             format_number(width) + " K wide); use a larger step or a narrower --span");
     }
     // A step that divides the span to rounding gives exactly the end, not a sliver before it.
     const auto whole = static_cast<std::size_t>(std::floor(intervals + 1e-9));
