@@ -36,7 +36,8 @@ void analyse(const rtline::Thermistor& t, const std::vector<rtline::RtPoint>& po
         const rtline::Analysis a = rtline::analyze(grid, t, c, rtline::LineKind::minimax, 1e-3);
         for (const rtline::PointResult& p : a.points) {
             FUZZ_CHECK(std::isfinite(p.output) && std::isfinite(p.nonlinearity_pct_fsd) && std::isfinite(p.error_k));
-            FUZZ_CHECK(std::isfinite(p.sensitivity_per_k) && std::isfinite(p.power_w) && std::isfinite(p.self_heating_k));
+            FUZZ_CHECK(std::isfinite(p.sensitivity_per_k) && std::isfinite(p.power_w) &&
+                       std::isfinite(p.self_heating_k));
         }
         FUZZ_CHECK(std::isfinite(a.summary.max_nonlinearity_pct_fsd) && std::isfinite(a.summary.max_error_k));
     } catch (const rtline::InputError&) {

@@ -47,16 +47,20 @@ std::vector<std::string> with(std::vector<std::string> base, const std::vector<s
 
 const std::vector<std::string> kModel = {"model", "--r25", "10k", "--beta", "3950"};
 const std::vector<std::string> kCheck = {"check", "--r25", "10k", "--beta", "3950", "--span", "0:50", "--circuit"};
-const std::vector<std::string> kTable = {"table", "--r25", "10k", "--beta", "3950", "--span", "0:45",
-                                         "--circuit", "divider-low", "--rs", "10k"};
-const std::vector<std::string> kBudget = {"budget", "--r25", "10k", "--beta", "3950", "--span", "0:50",
-                                          "--circuit", "divider-low", "--rs", "10k"};
-const std::vector<std::string> kSize = {"size", "--r25", "10k", "--beta", "3950", "--span", "0:50", "--circuit",
-                                        "divider-low"};
+const std::vector<std::string> kTable = {"table", "--r25",     "10k",         "--beta", "3950", "--span",
+                                         "0:45",  "--circuit", "divider-low", "--rs",   "10k"};
+const std::vector<std::string> kBudget = {"budget", "--r25",     "10k",         "--beta", "3950", "--span",
+                                          "0:50",   "--circuit", "divider-low", "--rs",   "10k"};
+const std::vector<std::string> kSize = {"size",   "--r25", "10k",       "--beta",     "3950",
+                                        "--span", "0:50",  "--circuit", "divider-low"};
 
 const std::string kResistance = "expected a resistance such as 470, 4k7, 10k or 1M5";
-const std::string kTemperature = "expected a temperature in \xC2\xB0" "C (e.g. -40 or 25) or in kelvin (e.g. 298.15K)";
-const std::string kBelowZero = "is at or below absolute zero (-273.15 \xC2\xB0" "C)";
+const std::string kTemperature =
+    "expected a temperature in \xC2\xB0"
+    "C (e.g. -40 or 25) or in kelvin (e.g. 298.15K)";
+const std::string kBelowZero =
+    "is at or below absolute zero (-273.15 \xC2\xB0"
+    "C)";
 const std::string kKeys = "(keys are the long flag names with _ for -)";
 
 }  // namespace
@@ -68,14 +72,18 @@ TEST_CASE("a mistyped resistance, B-value, temperature or step is refused by its
         {"a zero resistance", with(kCheck, {"divider-low", "--rs", "0"}), "--rs '0': a resistance must be positive"},
         {"a zero load", with(kCheck, {"divider-low", "--rs", "10k", "--load", "0"}),
          "--load '0': a resistance must be positive"},
-        {"a negative B-value", {"model", "--r25", "10k", "--beta", "-3950", "--span", "0:50"},
+        {"a negative B-value",
+         {"model", "--r25", "10k", "--beta", "-3950", "--span", "0:50"},
          "--beta '-3950': the B-value of an NTC must be positive (kelvin)"},
-        {"a zero B-value", {"model", "--r25", "10k", "--beta", "0", "--span", "0:50"},
+        {"a zero B-value",
+         {"model", "--r25", "10k", "--beta", "0", "--span", "0:50"},
          "--beta '0': the B-value of an NTC must be positive (kelvin)"},
         {"a reversed span", with(kModel, {"--span", "50:0"}), "--span '50:0': the low end must be below the high end"},
         {"a span with equal ends", with(kModel, {"--span", "25:25"}),
          "--span '25:25': the low end must be below the high end"},
-        {"an empty span", with(kModel, {"--span", ""}), "--span: expected LO:HI in \xC2\xB0" "C, e.g. -30:5 or 0:100"},
+        {"an empty span", with(kModel, {"--span", ""}),
+         "--span: expected LO:HI in \xC2\xB0"
+         "C, e.g. -30:5 or 0:100"},
         {"a span below absolute zero", with(kModel, {"--span", "-300:0"}), "--span '-300:0': " + kBelowZero},
         {"a negative kelvin temperature", with(kModel, {"--span", "-5K:300K"}), "--span '-5K:300K': " + kBelowZero},
         {"a reference temperature below absolute zero", with(kModel, {"--span", "0:50", "--t0", "-274"}),
@@ -95,13 +103,16 @@ TEST_CASE("a mistyped resistance, B-value, temperature or step is refused by its
          "--step '1': gives more than 1000000 points over the span (1e+300 K wide); use a larger step or a narrower "
          "--span"},
         {"NaN as a resistance", with(kCheck, {"divider-low", "--rs", "nan"}), "--rs 'nan': " + kResistance},
-        {"NaN as a B-value", {"model", "--r25", "10k", "--beta", "NaN", "--span", "0:50"},
+        {"NaN as a B-value",
+         {"model", "--r25", "10k", "--beta", "NaN", "--span", "0:50"},
          "--beta 'NaN': expected a finite number"},
-        {"infinity as a step", with(kModel, {"--span", "0:50", "--step", "inf"}), "--step 'inf': expected a finite number"},
+        {"infinity as a step", with(kModel, {"--span", "0:50", "--step", "inf"}),
+         "--step 'inf': expected a finite number"},
         {"infinity as a span end", with(kModel, {"--span", "-inf:5"}), "--span '-inf:5': " + kTemperature},
         {"infinity as a voltage", with(kCheck, {"divider-low", "--rs", "10k", "--excitation", "inf"}),
          "--excitation 'inf': expected a number with an optional SI prefix, e.g. 100uV or 0.5"},
-        {"a value that overflows after its prefix", with(kCheck, {"divider-low", "--rs", "10k", "--excitation", "1e308G"}),
+        {"a value that overflows after its prefix",
+         with(kCheck, {"divider-low", "--rs", "10k", "--excitation", "1e308G"}),
          "--excitation '1e308G': is too large for a double"},
         {"a subnormal resistance", with(kModel, {"--r25", "1e-320", "--span", "0:50"}),
          "--r25 '1e-320': is too close to zero for a double (the smallest is about 2.2e-308)"},
@@ -113,7 +124,8 @@ TEST_CASE("a mistyped resistance, B-value, temperature or step is refused by its
          "--rs '10m': 'm' would mean milli; resistances take R, k, M or G"},
         {"a zero excitation", with(kCheck, {"divider-low", "--rs", "10k", "--excitation", "0"}),
          "--excitation '0': must be a positive value"},
-        {"Steinhart-Hart with two coefficients", {"model", "--sh", "1e-3,2e-4", "--span", "0:50"},
+        {"Steinhart-Hart with two coefficients",
+         {"model", "--sh", "1e-3,2e-4", "--span", "0:50"},
          "--sh '1e-3,2e-4': expected three numbers A,B,C, e.g. 1.1e-3,2.4e-4,7.5e-8"},
         {"a negative dissipation constant", with(kCheck, {"divider-low", "--rs", "10k", "--dissipation", "-1"}),
          "--dissipation '-1': the dissipation constant must be positive (mW/K)"},
@@ -135,8 +147,10 @@ TEST_CASE("an unknown name, count or ADC width is refused by its flag and its te
          "--spacing 'log': unknown spacing; choose code (evenly spaced codes) or error (equal error per segment)"},
         {"an unknown polynomial fit", with(kTable, {"--degree", "3", "--fit", "spline"}),
          "--fit 'spline': unknown fit; choose least-squares or minimax"},
-        {"an unknown fit model", {"fit", "--points", "-", "--model", "table"},
-         "--model 'table': fit takes sh (Steinhart-Hart) or beta", "t_c,r_ohm\n0,32k\n25,10k\n50,3k6\n"},
+        {"an unknown fit model",
+         {"fit", "--points", "-", "--model", "table"},
+         "--model 'table': fit takes sh (Steinhart-Hart) or beta",
+         "t_c,r_ohm\n0,32k\n25,10k\n50,3k6\n"},
         {"an unknown flag", with(kModel, {"--span", "0:50", "--colour"}),
          "The following argument was not expected: --colour (see rtline --help)"},
         {"a flag without its value", with(kModel, {"--span", "0:50", "--step"}),
@@ -154,11 +168,14 @@ TEST_CASE("an unknown name, count or ADC width is refused by its flag and its te
          "--top '-1': expected a whole number from 1 to 1000"},
         {"a negative count of table entries", with(kTable, {"--entries", "-5"}),
          "--entries '-5': a table needs at least 2 entries"},
-        {"a negative polynomial degree", with(kTable, {"--degree", "-1"}), "--degree '-1': choose a degree from 1 to 12"},
+        {"a negative polynomial degree", with(kTable, {"--degree", "-1"}),
+         "--degree '-1': choose a degree from 1 to 12"},
         {"a negative error target", with(kTable, {"--max-error", "-0.1"}),
-         "--max-error '-0.1': the largest error must be positive (\xC2\xB0" "C)"},
+         "--max-error '-0.1': the largest error must be positive (\xC2\xB0"
+         "C)"},
         {"a fixed-point unit that is neither 0.1 nor 0.01", with(kTable, {"--unit", "0.5"}),
-         "--unit '0.5': choose 0.1 or 0.01 (\xC2\xB0" "C per count of the fixed-point table)"},
+         "--unit '0.5': choose 0.1 or 0.01 (\xC2\xB0"
+         "C per count of the fixed-point table)"},
         {"a reversed resistor range", with(kSize, {"--range", "10M:1"}),
          "--range '10M:1': the low end must be below the high end"},
     });
@@ -191,7 +208,8 @@ TEST_CASE("a mistyped trial count, tolerance or converter figure in a budget is 
 TEST_CASE("a model that cannot describe the span, or a circuit whose output does not change, is refused") {
     check_refused({
         // R(-200 °C) = 10k·exp(1e6·(1/73.15 − 1/298.15)) = 10k·e^10317 (by hand): beyond a double's 1.8e308.
-        {"a model that overflows a double", {"model", "--r25", "10k", "--beta", "1e6", "--span", "-200:50"},
+        {"a model that overflows a double",
+         {"model", "--r25", "10k", "--beta", "1e6", "--span", "-200:50"},
          "--span '-200:50': the model's resistance overflows a double over this span"},
         // d(1/T)/d ln R = B + 3C·ln²R = 2e-4 − 3e-5·ln²R is positive only for |ln R| < 2.58; there
         // 1/T reaches at most 1e-3 + 2e-4·2.58 − 1e-5·2.58³ = 1.34e-3, i.e. T ≥ 745 K (by hand), so no
@@ -200,11 +218,12 @@ TEST_CASE("a model that cannot describe the span, or a circuit whose output does
          {"model", "--sh", "1e-3,2e-4,-1e-5", "--span", "-50:150"},
          "--span '-50:150': the Steinhart-Hart coefficients do not give a resistance that falls monotonically with "
          "temperature over this span"},
-        {"the same coefficients in check", with({"check", "--sh", "1e-3,2e-4,-1e-5", "--span", "-50:150", "--circuit"},
-                                                {"divider-low", "--rs", "10k"}),
+        {"the same coefficients in check",
+         with({"check", "--sh", "1e-3,2e-4,-1e-5", "--span", "-50:150", "--circuit"}, {"divider-low", "--rs", "10k"}),
          "--span '-50:150': the Steinhart-Hart coefficients do not give a resistance that falls monotonically with "
          "temperature over this span"},
-        {"the same coefficients in size", {"size", "--sh", "1e-3,2e-4,-1e-5", "--span", "-50:150", "--circuit", "shunt"},
+        {"the same coefficients in size",
+         {"size", "--sh", "1e-3,2e-4,-1e-5", "--span", "-50:150", "--circuit", "shunt"},
          "--span '-50:150': the Steinhart-Hart coefficients do not give a resistance that falls monotonically with "
          "temperature over this span"},
         {"the same coefficients in table",
@@ -235,14 +254,15 @@ TEST_CASE("a broken R-T file is refused by its line, its column and the field's 
         {"a file of comments only", fit, "stdin: contains no R-T points", "# freezer room sensor\n\n"},
         {"a binary file", fit, "stdin:1: is not a text file (a NUL byte at byte 3 of the line)",
          std::string("PK\0\x03\x04", 5)},
-        {"a negative resistance", fit, "stdin:3:2 '-10k': a resistance must be positive", "t_c,r_ohm\n0,32k\n25,-10k\n"},
+        {"a negative resistance", fit, "stdin:3:2 '-10k': a resistance must be positive",
+         "t_c,r_ohm\n0,32k\n25,-10k\n"},
         {"a temperature below absolute zero", fit, "stdin:3:1 '-300': is at or below absolute zero (-273.15 C)",
          "t_c,r_ohm\n0,32k\n-300,10k\n"},
         {"NaN as a resistance", fit, "stdin:3:2 'nan': " + kResistance, "t_c,r_ohm\n0,32k\n25,nan\n"},
         {"infinity as a temperature", fit, "stdin:3:1 'inf': expected a temperature (a plain number)",
          "t_c,r_ohm\n0,32k\ninf,10k\n"},
-        {"an unknown column", fit,
-         "stdin:1:3 'ohms': unknown column; the header names t_c or t_k and r_ohm or r_kohm", "t_c,r_ohm,ohms\n"},
+        {"an unknown column", fit, "stdin:1:3 'ohms': unknown column; the header names t_c or t_k and r_ohm or r_kohm",
+         "t_c,r_ohm,ohms\n"},
         {"a row with an extra field", fit, "stdin:3:3 '25,10k,9': expected 2 fields, found 3",
          "t_c,r_ohm\n0,32k\n25,10k,9\n"},
         {"too few points for Steinhart-Hart", fit, "stdin '2 points': this model needs at least 3 R-T points",
@@ -259,18 +279,24 @@ TEST_CASE("a broken R-T file is refused by its line, its column and the field's 
         // curve turns back between the points (1/T against ln R is not monotonic).
         {"a Steinhart-Hart fit that is not monotonic", fit,
          "--points '3 points': the Steinhart-Hart fit does not give a resistance that falls monotonically from 0 to 50 "
-         "\xC2\xB0" "C; check the points, or use the beta model (--model beta)",
+         "\xC2\xB0"
+         "C; check the points, or use the beta model (--model beta)",
          "t_c,r_ohm\n0,1e300\n25,1e-300\n50,1e-301\n"},
         // A temperature mistyped as 5.6e57 C: the exact coefficients through it give 1/T = a + b*L +
         // c*L^3 = a at 1 ohm (L = 0), and a = 1/T3 ~ 1.8e-58 is lost to rounding next to the other points'
         // 1/T ~ 3e-3 (by hand): the model's temperature there is infinite or meaningless, never a residual.
         {"a Steinhart-Hart fit that cannot give back a point", fit,
          "--points '3 points': the Steinhart-Hart fit cannot give back the temperature of the point at 5.55556e+57 "
-         "\xC2\xB0" "C (1 ohm); check the points' temperatures",
+         "\xC2\xB0"
+         "C (1 ohm); check the points' temperatures",
          "t_c,r_ohm\n60,8k7\n46,10k\n5.555556e57,1\n"},
-        {"a table model asked outside its points", {"model", "--points", "-", "--model", "table", "--span", "0:60"},
-         "--span '0:60': outside the R-T table, which covers 0 to 50 \xC2\xB0" "C", "t_c,r_ohm\n0,32k\n25,10k\n50,3k6\n"},
-        {"a folder instead of a file", {"fit", "--points", rtline::test::source_dir()},
+        {"a table model asked outside its points",
+         {"model", "--points", "-", "--model", "table", "--span", "0:60"},
+         "--span '0:60': outside the R-T table, which covers 0 to 50 \xC2\xB0"
+         "C",
+         "t_c,r_ohm\n0,32k\n25,10k\n50,3k6\n"},
+        {"a folder instead of a file",
+         {"fit", "--points", rtline::test::source_dir()},
          "--points '" + rtline::test::source_dir() + "': is a folder, not a file"},
     });
 }
@@ -284,10 +310,13 @@ TEST_CASE("a broken spec file is refused by its key or its position") {
          R"({"null-at": 10})"},
         {"a list where a value goes", model, "spec key 'r25' '[\"10k\"]': expected a number or a string",
          R"({"r25": ["10k"]})"},
-        {"null where a value goes", model, "spec key 'step' 'null': expected a number or a string", R"({"step": null})"},
+        {"null where a value goes", model, "spec key 'step' 'null': expected a number or a string",
+         R"({"step": null})"},
         {"a boolean where a value goes", model, "spec key 'format' 'true': expected a number or a string",
          R"({"format": true})"},
-        {"a string where a switch goes", {"size", "--spec", "-"}, "spec key 'compare' '\"yes\"': expected true or false",
+        {"a string where a switch goes",
+         {"size", "--spec", "-"},
+         "spec key 'compare' '\"yes\"': expected true or false",
          R"({"compare": "yes"})"},
         // The text is 36 bytes long (counted by hand); nlohmann's parser reports the end of the input
         // inside the string as byte 37.
@@ -312,13 +341,17 @@ TEST_CASE("a broken spec file is refused by its key or its position") {
 
 TEST_CASE("a JSON Lines batch reports each bad line on stdout and goes on, exit code 2") {
     const std::string good = R"({"r25": "10k", "beta": 3950, "span": "0:50", "step": 25})";
-    const std::string input = good + "\n" +                                  // line 1
-                              R"({"r25": "10k", "beta": -1, "span": "0:50"})" "\n"  // line 2: a bad value
-                              R"({"r25": "10k", "beta)" "\n"                       // line 3: truncated
-                              "\n"                                                 // line 4: blank, skipped
-                              R"({"r25": 1e999})" "\n"                             // line 5: beyond a double
-                              "[1]\n" +                                            // line 6: not an object
-                              good + "\n";                                         // line 7
+    const std::string input = good + "\n" +  // line 1
+                              R"({"r25": "10k", "beta": -1, "span": "0:50"})"
+                              "\n"  // line 2: a bad value
+                              R"({"r25": "10k", "beta)"
+                              "\n"  // line 3: truncated
+                              "\n"  // line 4: blank, skipped
+                              R"({"r25": 1e999})"
+                              "\n"       // line 5: beyond a double
+                              "[1]\n" +  // line 6: not an object
+                              good +
+                              "\n";  // line 7
     const auto r = run_rtline({"model", "--jsonl"}, input);
     INFO("stdout: " << r.out << "stderr: " << r.err);
     CHECK(r.code == 2);
@@ -341,12 +374,14 @@ TEST_CASE("a JSON Lines batch reports each bad line on stdout and goes on, exit 
 
 TEST_CASE("a JSON Lines batch exits 1 when a line has no feasible design, and 2 when a line is also bad") {
     // --min-span 2 V/V cannot be met: a ratiometric output spans at most 1 V/V.
-    const std::string infeasible = R"({"r25": "10k", "beta": 3950, "span": "0:50", "circuit": "divider-low", "min_span": 2})";
+    const std::string infeasible =
+        R"({"r25": "10k", "beta": 3950, "span": "0:50", "circuit": "divider-low", "min_span": 2})";
     const std::string bad = R"({"r25": "10k", "beta": 3950, "span": "0:50", "circuit": "divider-low", "top": -1})";
     const auto only_infeasible = run_rtline({"size", "--jsonl"}, infeasible + "\n");
     CHECK(only_infeasible.code == 1);
     CHECK(json::parse(only_infeasible.out)["infeasible"] == true);
     const auto both = run_rtline({"size", "--jsonl"}, infeasible + "\n" + bad + "\n");
     CHECK(both.code == 2);
-    CHECK(both.out.find(R"({"line":2,"error":"--top '-1': expected a whole number from 1 to 1000"})") != std::string::npos);
+    CHECK(both.out.find(R"({"line":2,"error":"--top '-1': expected a whole number from 1 to 1000"})") !=
+          std::string::npos);
 }

@@ -13,9 +13,9 @@
 #include "rtline/error.hpp"
 #include "support.hpp"
 
+using nlohmann::json;
 using rtline::test::python_ref;
 using rtline::test::run_rtline;
-using nlohmann::json;
 
 namespace {
 
@@ -49,8 +49,8 @@ rtline::Budget budget_of(const rtline::BudgetSpec& spec, double lo_c = -20.0, do
 
 // A divider-low design over −20..60 °C for the command line.
 std::vector<std::string> design(const std::string& step = "10", const std::string& rs = "10k") {
-    return {"budget", "--r25", "10k", "--beta", "3950", "--span", "-20:60", "--step", step, "--circuit", "divider-low",
-            "--rs", rs};
+    return {"budget", "--r25", "10k",       "--beta",      "3950", "--span", "-20:60",
+            "--step", step,    "--circuit", "divider-low", "--rs", rs};
 }
 
 std::vector<std::string> with(std::vector<std::string> args, const std::vector<std::string>& more) {
@@ -183,9 +183,9 @@ TEST_CASE("self-heating agrees with an exact root of T_b = T + P(R(T_b))/delta (
                                                            {"dissipation_w_per_k", 1.5e-3},
                                                            {"t_c", {-20, 0, 20, 40, 60}}});
     for (const char* reading : {"model", "line"}) {
-        const json out = run_json(with(design("20"), {"--excitation", "3.3", "--adc-ref", "excitation",
-                                                  "--dissipation", "1.5", "--r25-tol", "0", "--beta-tol", "0",
-                                                  "--resistor-tol", "0", "--trials", "0", "--reading", reading}));
+        const json out = run_json(
+            with(design("20"), {"--excitation", "3.3", "--adc-ref", "excitation", "--dissipation", "1.5", "--r25-tol",
+                                "0", "--beta-tol", "0", "--resistor-tol", "0", "--trials", "0", "--reading", reading}));
         REQUIRE(out["points"].size() == 5);
         for (std::size_t i = 0; i < 5; ++i) {
             const json& p = out["points"][i];
@@ -211,8 +211,8 @@ TEST_CASE("the line reading with zero tolerances equals rtline check's endpoint-
         common.insert(common.end(), circuit.begin(), circuit.end());
         CAPTURE(circuit[1]);
         const json check = run_json(with({"check"}, common));
-        std::vector<std::string> b = {"budget", "--reading", "line", "--r25-tol", "0", "--beta-tol", "0",
-                                      "--resistor-tol", "0", "--trials", "50"};
+        std::vector<std::string> b = {"budget", "--reading",      "line", "--r25-tol", "0", "--beta-tol",
+                                      "0",      "--resistor-tol", "0",    "--trials",  "50"};
         b.insert(b.end(), common.begin(), common.end());
         if (circuit[1] == "bridge") b = with(b, {"--adc-ref", "excitation"});
         if (circuit[1] == "shunt") b = with(b, {"--excitation-tol", "0"});
@@ -370,9 +370,18 @@ TEST_CASE("the JSON carries the issue's keys, the assumptions, and null where a 
 TEST_CASE("the text output has a table per temperature with units, then the summary") {
     const auto r = run_rtline(with(design(), {"--trials", "2000", "--adc-bits", "12"}));
     REQUIRE(r.code == 0);
-    for (const char* header : {"T (\xC2\xB0" "C)", "worst case (\xC2\xB0" "C)", "99.7 % bound (\xC2\xB0" "C)",
-                               "B-value (\xC2\xB0" "C)", "resolution (\xC2\xB0" "C/LSB)", "normal, tolerance = 3 sigma",
-                               "2000 trials, seed 20250101", "worst case over the span", "largest cause there"}) {
+    for (const char* header : {"T (\xC2\xB0"
+                               "C)",
+                               "worst case (\xC2\xB0"
+                               "C)",
+                               "99.7 % bound (\xC2\xB0"
+                               "C)",
+                               "B-value (\xC2\xB0"
+                               "C)",
+                               "resolution (\xC2\xB0"
+                               "C/LSB)",
+                               "normal, tolerance = 3 sigma", "2000 trials, seed 20250101", "worst case over the span",
+                               "largest cause there"}) {
         CHECK(r.out.find(header) != std::string::npos);
     }
 }

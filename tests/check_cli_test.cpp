@@ -67,13 +67,14 @@ TEST_CASE("check --format json carries exactly the keys issue 3 lists") {
     CHECK(keys(d["circuit"]["resistors_ohm"]) == std::set<std::string>{"rs"});
     CHECK(d["circuit"]["resistors_ohm"]["rs"] == 10000.0);
     CHECK(d["line"] == "endpoint");
-    CHECK(keys(d["summary"]) == std::set<std::string>{"max_nonlinearity_pct_fsd", "at_t_c", "max_error_c", "output_span",
-                                                      "sensitivity_per_k", "max_power_w", "max_self_heating_k"});
+    CHECK(keys(d["summary"]) == std::set<std::string>{"max_nonlinearity_pct_fsd", "at_t_c", "max_error_c",
+                                                      "output_span", "sensitivity_per_k", "max_power_w",
+                                                      "max_self_heating_k"});
     CHECK(keys(d["summary"]["sensitivity_per_k"]) == std::set<std::string>{"min", "max"});
     REQUIRE(d["points"].size() == 5);  // 0, 10, 20, 30, 40 °C
     for (const json& p : d["points"]) {
-        for (const char* k : {"t_c", "r_t_ohm", "output", "ideal", "deviation", "nonlinearity_pct_fsd", "error_c",
-                              "power_w"}) {
+        for (const char* k :
+             {"t_c", "r_t_ohm", "output", "ideal", "deviation", "nonlinearity_pct_fsd", "error_c", "power_w"}) {
             CAPTURE(k);
             CHECK(p[k].is_number());
         }
@@ -126,13 +127,14 @@ TEST_CASE("the reference line is named in text, JSON and CSV output") {
 }
 
 TEST_CASE("check --format csv has a header row and one row per point") {
-    const auto r = run_rtline(check({"--span", "-10:35", "--step", "5", "--circuit", "divider-low", "--rs", "4k7",
-                                     "--format", "csv"}));
+    const auto r = run_rtline(
+        check({"--span", "-10:35", "--step", "5", "--circuit", "divider-low", "--rs", "4k7", "--format", "csv"}));
     REQUIRE(r.code == 0);
     const auto rows = lines_of(r.out);
     REQUIRE(rows.size() == 1 + 10);  // −10, −5, …, 35 °C
     const std::vector<std::string> header = fields(rows[0]);
-    for (const char* k : {"t_c", "r_t_ohm", "output", "ideal", "deviation", "nonlinearity_pct_fsd", "error_c", "power_w"}) {
+    for (const char* k :
+         {"t_c", "r_t_ohm", "output", "ideal", "deviation", "nonlinearity_pct_fsd", "error_c", "power_w"}) {
         CAPTURE(k);
         CHECK(std::find(header.begin(), header.end(), k) != header.end());
     }
@@ -144,7 +146,11 @@ TEST_CASE("check --format csv has a header row and one row per point") {
 TEST_CASE("check's text table carries units in its headers and is aligned") {
     const auto r = run_rtline(check({"--span", "0:30", "--step", "10", "--circuit", "divider-low", "--rs", "10k"}));
     REQUIRE(r.code == 0);
-    for (const char* h : {"T (\xC2\xB0" "C)", "R_T (ohm)", "output (V/V)", "nonlinearity (%FSD)", "error (\xC2\xB0" "C)"}) {
+    for (const char* h : {"T (\xC2\xB0"
+                          "C)",
+                          "R_T (ohm)", "output (V/V)", "nonlinearity (%FSD)",
+                          "error (\xC2\xB0"
+                          "C)"}) {
         CAPTURE(h);
         CHECK(r.out.find(h) != std::string::npos);
     }
@@ -153,7 +159,8 @@ TEST_CASE("check's text table carries units in its headers and is aligned") {
         return std::count_if(s.begin(), s.end(), [](char c) { return (static_cast<unsigned char>(c) & 0xC0) != 0x80; });
     };
     const auto ls = lines_of(r.out);
-    const auto head = std::find_if(ls.begin(), ls.end(), [](const std::string& l) { return l.find("R_T (ohm)") != std::string::npos; });
+    const auto head = std::find_if(ls.begin(), ls.end(),
+                                   [](const std::string& l) { return l.find("R_T (ohm)") != std::string::npos; });
     REQUIRE(head != ls.end());
     int rows = 0;
     for (auto it = head; it != ls.end() && !it->empty(); ++it, ++rows) CHECK(width(*it) == width(*head));
@@ -226,11 +233,15 @@ TEST_CASE("bad input to check is one line on stderr naming the flag and the valu
         {"zero output span", {"--circuit", "divider-high", "--rs", "1e30"}, "--circuit", "'divider-high'"},
         {"unknown circuit", {"--circuit", "wheatstone"}, "--circuit", "'wheatstone'"},
         {"unknown line", {"--circuit", "divider-low", "--rs", "10k", "--line", "straight"}, "--line", "'straight'"},
-        {"voltage and current", {"--circuit", "divider-low", "--rs", "10k", "--excitation", "3.3", "--current", "1m"},
-         "--current", "'1m'"},
+        {"voltage and current",
+         {"--circuit", "divider-low", "--rs", "10k", "--excitation", "3.3", "--current", "1m"},
+         "--current",
+         "'1m'"},
         {"voltage on bare", {"--circuit", "bare", "--excitation", "5"}, "--excitation", "'5'"},
         {"voltage on shunt", {"--circuit", "shunt", "--rp", "10k", "--excitation", "5"}, "--excitation", "'5'"},
-        {"null with r3 given", {"--circuit", "bridge", "--r1", "10k", "--r3", "15k", "--null-at", "20"}, "--null-at",
+        {"null with r3 given",
+         {"--circuit", "bridge", "--r1", "10k", "--r3", "15k", "--null-at", "20"},
+         "--null-at",
          "'20'"},
         {"null on a divider", {"--circuit", "divider-low", "--rs", "10k", "--null-at", "10"}, "--null-at", "'10'"},
         {"zero load", {"--circuit", "divider-low", "--rs", "10k", "--load", "0"}, "--load", "'0'"},
@@ -273,7 +284,8 @@ TEST_CASE("bad input to check is one line on stderr naming the flag and the valu
         CHECK(r.err.find(c.value) != std::string::npos);
         CHECK(r.err.find("0 to 60") != std::string::npos);  // and says what the table covers
     }
-    const auto many = run_rtline(check({"--span", "0:40", "--step", "2e-5", "--circuit", "divider-low", "--rs", "10k"}));
+    const auto many =
+        run_rtline(check({"--span", "0:40", "--step", "2e-5", "--circuit", "divider-low", "--rs", "10k"}));
     CAPTURE(many.err);
     CHECK(many.code == 2);
     CHECK(many.out.empty());

@@ -153,8 +153,8 @@ void check_against_ngspice(const Circuit& c) {
     const std::vector<Spice> spice = ngspice_op(c, r_t);
     for (std::size_t k = 0; k < r_t.size(); ++k) {
         const rtline::OperatingPoint op = rtline::operate(c, r_t[k]);
-        const double v_scale = c.excitation.drive == Drive::current ? std::abs(spice[k].thermistor_v)
-                                                                    : c.excitation.value;
+        const double v_scale =
+            c.excitation.drive == Drive::current ? std::abs(spice[k].thermistor_v) : c.excitation.value;
         const double p_scale = v_scale * v_scale / r_t[k];
         CAPTURE(r_t[k]);
         CAPTURE(op.output);

@@ -30,10 +30,12 @@ TEST_CASE("the top-level help lists the exit codes and carries the safety cautio
 
 TEST_CASE("each command's help states the exit codes that command can give") {
     // model, fit and check analyse what they are given and never search, so they never exit 1.
-    const std::string searching = "Exit codes: 0 success, 1 no design meets the constraints, 2 bad input or usage, "
-                                  "3 internal error (with --jsonl: the worst line's).";
-    const std::string analysing = "Exit codes: 0 success, 2 bad input or usage, 3 internal error (with --jsonl: the "
-                                  "worst line's).";
+    const std::string searching =
+        "Exit codes: 0 success, 1 no design meets the constraints, 2 bad input or usage, "
+        "3 internal error (with --jsonl: the worst line's).";
+    const std::string analysing =
+        "Exit codes: 0 success, 2 bad input or usage, 3 internal error (with --jsonl: the "
+        "worst line's).";
     for (const char* command : {"model", "fit", "check", "size", "table"}) {
         const std::string name = command;
         INFO("rtline " << name << " --help");
@@ -58,8 +60,8 @@ TEST_CASE("model, fit and check give exit code 0 on success, and size and table 
     // 1e-9 °C is out of reach of the largest table the search tries (1024 entries): the span's ~2000
     // codes leave segments about 2 codes long, whose interpolation error is about h²/8·|T''| with
     // |T''| ≈ (50 °C / 2000 codes) / 2000 codes ≈ 1e-5 °C per code², i.e. about 5e-6 °C (by hand).
-    const auto table = run_rtline({"table", "--r25", "10k", "--beta", "3950", "--span", "0:50", "--circuit", "divider-low",
-                                   "--rs", "10k", "--max-error", "1e-9"});
+    const auto table = run_rtline({"table", "--r25", "10k", "--beta", "3950", "--span", "0:50", "--circuit",
+                                   "divider-low", "--rs", "10k", "--max-error", "1e-9"});
     CHECK(table.code == 1);
     CHECK(table.out.empty());
 }

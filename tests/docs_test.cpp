@@ -49,7 +49,8 @@ TEST_CASE("every command shown in README.md and docs/ prints what the page shows
     int checked = 0;
     for (const std::string& page : pages) {
         for (const Block& b : blocks_of(rtline::test::read_file(page))) {
-            const auto r = rtline::test::run_shell("cd '" + root + "' && PATH='" + exe_dir() + "':\"$PATH\" && " + b.command);
+            const auto r =
+                rtline::test::run_shell("cd '" + root + "' && PATH='" + exe_dir() + "':\"$PATH\" && " + b.command);
             std::string got = r.out;
             if (r.code != 0) got += r.err;
             while (!got.empty() && got.back() == '\n') got.pop_back();

@@ -16,7 +16,9 @@ namespace {
 
 // The IEC 60063 rule for E48–E192, computed here independently of rtline: 10^(i/n) to three figures,
 // in hundredths (long double, so a value near a rounding boundary is not decided by double noise).
-int rule_hundredths(int i, int n) { return static_cast<int>(std::lround(100.0L * std::pow(10.0L, i / static_cast<long double>(n)))); }
+int rule_hundredths(int i, int n) {
+    return static_cast<int>(std::lround(100.0L * std::pow(10.0L, i / static_cast<long double>(n))));
+}
 
 std::vector<int> hundredths(const std::vector<double>& mantissas) {
     std::vector<int> h;
@@ -32,9 +34,9 @@ TEST_CASE("E3, E6, E12 and E24 are exactly the IEC 60063 lists") {
     CHECK(hundredths(series_mantissas(Series::e6)) == std::vector<int>{100, 150, 220, 330, 470, 680});
     CHECK(hundredths(series_mantissas(Series::e12)) ==
           std::vector<int>{100, 120, 150, 180, 220, 270, 330, 390, 470, 560, 680, 820});
-    CHECK(hundredths(series_mantissas(Series::e24)) ==
-          std::vector<int>{100, 110, 120, 130, 150, 160, 180, 200, 220, 240, 270, 300,
-                           330, 360, 390, 430, 470, 510, 560, 620, 680, 750, 820, 910});
+    CHECK(hundredths(series_mantissas(Series::e24)) == std::vector<int>{100, 110, 120, 130, 150, 160, 180, 200,
+                                                                        220, 240, 270, 300, 330, 360, 390, 430,
+                                                                        470, 510, 560, 620, 680, 750, 820, 910});
     // Each mantissa is the double nearest its two-figure value (h/100), not an approximation of it.
     for (const double m : series_mantissas(Series::e24)) CHECK(m == std::round(m * 100.0) / 100.0);
 }
@@ -81,8 +83,7 @@ TEST_CASE("E192 follows 10^(i/192) to three figures except i = 185, which is 9.2
         CHECK(e192[static_cast<std::size_t>(i)] == rule_hundredths(i, 192));
     }
     // From memory (the top of the E192 decade), and equal to the rule above except 9.20.
-    CHECK(std::vector<int>(e192.begin() + 184, e192.end()) ==
-          std::vector<int>{909, 920, 931, 942, 953, 965, 976, 988});
+    CHECK(std::vector<int>(e192.begin() + 184, e192.end()) == std::vector<int>{909, 920, 931, 942, 953, 965, 976, 988});
     // From memory: the first values.
     CHECK(std::vector<int>(e192.begin(), e192.begin() + 8) == std::vector<int>{100, 101, 102, 104, 105, 106, 107, 109});
 }
@@ -97,8 +98,10 @@ TEST_CASE("E96 is every second E192 value and E48 every fourth") {
     for (std::size_t i = 0; i < 96; ++i) CHECK(e96[i] == e192[2 * i]);
     for (std::size_t i = 0; i < 48; ++i) CHECK(e48[i] == e192[4 * i]);
     // And each equals the rule for its own n (10^(j/96) = 10^(2j/192)).
-    for (int j = 0; j < 96; ++j) CHECK(static_cast<int>(std::lround(e96[static_cast<std::size_t>(j)] * 100)) == rule_hundredths(j, 96));
-    for (int j = 0; j < 48; ++j) CHECK(static_cast<int>(std::lround(e48[static_cast<std::size_t>(j)] * 100)) == rule_hundredths(j, 48));
+    for (int j = 0; j < 96; ++j)
+        CHECK(static_cast<int>(std::lround(e96[static_cast<std::size_t>(j)] * 100)) == rule_hundredths(j, 96));
+    for (int j = 0; j < 48; ++j)
+        CHECK(static_cast<int>(std::lround(e48[static_cast<std::size_t>(j)] * 100)) == rule_hundredths(j, 48));
 }
 
 TEST_CASE("the whole E96 decade matches the list from memory and the rounding rule") {
@@ -150,7 +153,8 @@ TEST_CASE("series values are exact: 4k7 is 4700, 1M5 is 1500000, 2R2 is 2.2") {
 
 TEST_CASE("a range keeps the values inside it, its ends included when they are series values") {
     // Hand lists from the E12 decade (IEC 60063).
-    CHECK(series_values(Series::e12, 1e3, 4.7e3) == std::vector<double>{1000, 1200, 1500, 1800, 2200, 2700, 3300, 3900, 4700});
+    CHECK(series_values(Series::e12, 1e3, 4.7e3) ==
+          std::vector<double>{1000, 1200, 1500, 1800, 2200, 2700, 3300, 3900, 4700});
     CHECK(series_values(Series::e12, 1.1e3, 4.6e3) == std::vector<double>{1200, 1500, 1800, 2200, 2700, 3300, 3900});
     CHECK(series_values(Series::e6, 9e3, 16e3) == std::vector<double>{10000, 15000});
     CHECK(series_values(Series::e3, 5e3, 9e3).empty());
@@ -161,9 +165,9 @@ TEST_CASE("parse_series accepts E3 to E192 in either case and names the field wh
         const char* text;
         Series s;
         const char* name;
-    } good[] = {{"E3", Series::e3, "E3"},       {"E6", Series::e6, "E6"},       {"E12", Series::e12, "E12"},
-                {"E24", Series::e24, "E24"},    {"E48", Series::e48, "E48"},    {"E96", Series::e96, "E96"},
-                {"E192", Series::e192, "E192"}, {"e24", Series::e24, "E24"},    {"e96", Series::e96, "E96"},
+    } good[] = {{"E3", Series::e3, "E3"},       {"E6", Series::e6, "E6"},    {"E12", Series::e12, "E12"},
+                {"E24", Series::e24, "E24"},    {"E48", Series::e48, "E48"}, {"E96", Series::e96, "E96"},
+                {"E192", Series::e192, "E192"}, {"e24", Series::e24, "E24"}, {"e96", Series::e96, "E96"},
                 {"e192", Series::e192, "E192"}};
     for (const auto& g : good) {
         CAPTURE(g.text);

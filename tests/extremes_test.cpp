@@ -48,8 +48,14 @@ const std::vector<Design> kDesigns = {
     {"a 1 Gohm thermistor with a steep B", {"--r25", "1G", "--beta", "6000", "--span", "-80:300", "--step", "5"}, "1G"},
     {"a 0.1 ohm thermistor", {"--r25", "0R1", "--beta", "2000", "--span", "-150:400", "--step", "5"}, "0R1"},
     {"Steinhart-Hart over 600 K", {"--sh", "1.1e-3,2.4e-4,1e-7", "--span", "-200:400", "--step", "5"}, "10k"},
-    {"a 1e-200 ohm thermistor", {"--r25", "1e-200", "--beta", "3950", "--span", "-250:500", "--step", "5"}, "1e-200", false},
-    {"a 1e200 ohm thermistor", {"--r25", "1e200", "--beta", "20000", "--span", "-150:300", "--step", "5"}, "1e200", false},
+    {"a 1e-200 ohm thermistor",
+     {"--r25", "1e-200", "--beta", "3950", "--span", "-250:500", "--step", "5"},
+     "1e-200",
+     false},
+    {"a 1e200 ohm thermistor",
+     {"--r25", "1e200", "--beta", "20000", "--span", "-150:300", "--step", "5"},
+     "1e200",
+     false},
     {"B = 20000 K over 1200 K", {"--r25", "10k", "--beta", "20000", "--span", "-200:1000", "--step", "10"}, "10k"},
 };
 
@@ -60,27 +66,26 @@ std::vector<std::vector<std::string>> runs_of(const Design& d) {
     for (const char* f : {"text", "csv", "json"}) {
         runs.push_back(with(with({"model"}, d.model), {"--format", f}));
         runs.push_back(with(with({"check"}, d.model), {"--circuit", "divider-low", "--rs", d.r, "--format", f}));
+        runs.push_back(with(with({"check"}, d.model), {"--circuit", "bridge", "--r1", d.r, "--line", "minimax",
+                                                       "--excitation", "5", "--dissipation", "1", "--format", f}));
         runs.push_back(with(with({"check"}, d.model),
-                            {"--circuit", "bridge", "--r1", d.r, "--line", "minimax", "--excitation", "5",
-                             "--dissipation", "1", "--format", f}));
-        runs.push_back(with(with({"check"}, d.model), {"--circuit", "bare", "--current", "1u", "--line", "best-fit",
-                                                       "--format", f}));
+                            {"--circuit", "bare", "--current", "1u", "--line", "best-fit", "--format", f}));
         if (d.standard_values) {
-            runs.push_back(with(with({"size"}, d.model), {"--circuit", "divider-low", "--range", "1e-250:1e250",
-                                                          "--format", f}));
+            runs.push_back(
+                with(with({"size"}, d.model), {"--circuit", "divider-low", "--range", "1e-250:1e250", "--format", f}));
             runs.push_back(with(with({"size"}, d.model), {"--compare", "--format", f}));
-            runs.push_back(with(with({"size"}, d.model), {"--circuit", "divider-high", "--tradeoff", "--range",
-                                                          "1e-250:1e250", "--format", f}));
+            runs.push_back(with(with({"size"}, d.model),
+                                {"--circuit", "divider-high", "--tradeoff", "--range", "1e-250:1e250", "--format", f}));
         }
-        runs.push_back(with(with({"table"}, table_model), {"--circuit", "divider-low", "--rs", d.r, "--adc-bits", "12",
-                                                           "--format", f}));
+        runs.push_back(with(with({"table"}, table_model),
+                            {"--circuit", "divider-low", "--rs", d.r, "--adc-bits", "12", "--format", f}));
     }
     runs.push_back(with(with({"check"}, d.model), {"--circuit", "shunt", "--rp", d.r}));
     runs.push_back(with(with({"check"}, d.model), {"--circuit", "shunt-divider", "--rp", d.r, "--rs", d.r,
                                                    "--excitation", "3.3", "--format", "json"}));
     if (d.standard_values) {
-        runs.push_back(with(with({"size"}, d.model), {"--circuit", "shunt-divider", "--range", "1e-250:1e250",
-                                                      "--format", "json"}));
+        runs.push_back(with(with({"size"}, d.model),
+                            {"--circuit", "shunt-divider", "--range", "1e-250:1e250", "--format", "json"}));
     }
     runs.push_back(with(with({"table"}, table_model), {"--circuit", "divider-high", "--rs", d.r, "--adc-bits", "12",
                                                        "--degree", "12", "--fit", "minimax", "--format", "json"}));
@@ -138,7 +143,8 @@ TEST_CASE("fit and the table model print only finite numbers for R-T points span
     for (const char* f : {"text", "csv", "json"}) {
         check_finite({"fit", "--points", "-", "--format", f}, csv);
         check_finite({"fit", "--points", "-", "--model", "beta", "--format", f}, csv);
-        check_finite({"model", "--points", "-", "--model", "table", "--span", "-200:400", "--step", "5", "--format", f}, csv);
+        check_finite({"model", "--points", "-", "--model", "table", "--span", "-200:400", "--step", "5", "--format", f},
+                     csv);
         check_finite({"check", "--points", "-", "--model", "table", "--span", "-200:400", "--step", "5", "--circuit",
                       "divider-low", "--rs", "10k", "--format", f},
                      csv);
@@ -148,10 +154,11 @@ TEST_CASE("fit and the table model print only finite numbers for R-T points span
 TEST_CASE("size says so when no standard value can reach the thermistor's resistance") {
     // A 1e-200 ohm thermistor under any E24 value from 1 ohm to 10 Mohm: divider-high gives
     // rs/(rs + R_T) = 1 − 1e-200/rs, which is 1 in a double at every temperature (by hand).
-    const auto r = run_rtline({"size", "--r25", "1e-200", "--beta", "3950", "--span", "0:50", "--circuit", "divider-high",
-                               "--tradeoff"});
+    const auto r = run_rtline(
+        {"size", "--r25", "1e-200", "--beta", "3950", "--span", "0:50", "--circuit", "divider-high", "--tradeoff"});
     CHECK(r.code == 1);
     CHECK(r.out.empty());
-    CHECK(r.err == "rtline: no E24 combination gives an output that changes over the span; the values searched run "
-                   "from 1 to 10M ohm, out of reach of the thermistor\n");
+    CHECK(r.err ==
+          "rtline: no E24 combination gives an output that changes over the span; the values searched run "
+          "from 1 to 10M ohm, out of reach of the thermistor\n");
 }

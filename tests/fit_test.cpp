@@ -125,7 +125,8 @@ TEST_CASE("least squares on scattered points matches numpy.linalg.lstsq on the s
         const std::vector<RtPoint> pts = perturbed(points_from(known, every(-40.0, 125.0, 5.0)));
         const ShFit fit = fit_steinhart_hart(pts);
         // numpy: rows weighted by T², columns [1, ln R, ln³R], target 1/T (fit.hpp).
-        const nlohmann::json ref = rtline::test::python_ref("sh_lstsq.py", {{"model", "sh"}, {"points", points_json(pts)}});
+        const nlohmann::json ref =
+            rtline::test::python_ref("sh_lstsq.py", {{"model", "sh"}, {"points", points_json(pts)}});
         INFO("A,B,C = " << known.a << "," << known.b << "," << known.c);
         CHECK(ref["rank"] == 3);
         CHECK(rel(fit.model.a, ref["a"].get<double>()) < 1e-9);
@@ -205,8 +206,9 @@ TEST_CASE("points that do not determine the coefficients are an InputError, not 
 
 TEST_CASE("a beta fit to a rising resistance is an InputError naming the points") {
     // A PTC-like table gives 1/B < 0: no NTC B-value describes it.
-    CHECK(refusal([&] { return fit_beta({{273.15, 10e3}, {298.15, 20e3}, {323.15, 40e3}}, 298.15); }) ==
-          "--points '3 points': the beta fit gives no positive B-value");
+    CHECK(refusal([&] {
+              return fit_beta({{273.15, 10e3}, {298.15, 20e3}, {323.15, 40e3}}, 298.15);
+          }) == "--points '3 points': the beta fit gives no positive B-value");
 }
 
 TEST_CASE("a fit that cannot give back one of its points is an InputError, not an infinite residual") {
@@ -217,21 +219,28 @@ TEST_CASE("a fit that cannot give back one of its points is an InputError, not a
     const std::vector<RtPoint> typo = {{319.15, 10e3}, {333.15, 8.7e3}, {celsius_to_kelvin(5.555556e57), 1.0}};
     CHECK(refusal([&] { return fit_steinhart_hart(typo); }) ==
           "--points '3 points': the Steinhart-Hart fit cannot give back the temperature of the point at "
-          "5.55556e+57 \xC2\xB0" "C (1 ohm); check the points' temperatures");
+          "5.55556e+57 \xC2\xB0"
+          "C (1 ohm); check the points' temperatures");
 }
 
 TEST_CASE("a Steinhart-Hart fit that turns back between its points is an InputError naming the span") {
     // Through 1e300, 1e-300 and 1e-301 ohm at 0, 25 and 50 °C the exact coefficients have b < 0 and a
     // large c (by the closed form): 1/T against ln R is not monotonic between the points.
-    CHECK(refusal([&] { return fit_steinhart_hart({{273.15, 1e300}, {298.15, 1e-300}, {323.15, 1e-301}}); }) ==
+    CHECK(refusal([&] {
+              return fit_steinhart_hart({{273.15, 1e300}, {298.15, 1e-300}, {323.15, 1e-301}});
+          }) ==
           "--points '3 points': the Steinhart-Hart fit does not give a resistance that falls monotonically "
-          "from 0 to 50 \xC2\xB0" "C; check the points, or use the beta model (--model beta)");
+          "from 0 to 50 \xC2\xB0"
+          "C; check the points, or use the beta model (--model beta)");
 }
 
 TEST_CASE("a beta fit whose R0 at T0 overflows a double says so and how to avoid it") {
     // Points 1e-5 K apart near 300 K whose R spans 200 decades: B = ln(1e200)/(1/300 − 1/300.00003)
     // ≈ 1.4e12 K (by hand), and R0 at 25 °C = R·exp(B·(1/298.15 − 1/300)) = exp(2.9e7): not a double.
-    CHECK(refusal([&] { return fit_beta({{300.0, 1e200}, {300.00001, 1e100}, {300.00003, 1.0}}, 298.15); }) ==
-          "--points '3 points': the beta fit's R0 at 25 \xC2\xB0" "C is beyond the range of a double; state R0 "
+    CHECK(refusal([&] {
+              return fit_beta({{300.0, 1e200}, {300.00001, 1e100}, {300.00003, 1.0}}, 298.15);
+          }) ==
+          "--points '3 points': the beta fit's R0 at 25 \xC2\xB0"
+          "C is beyond the range of a double; state R0 "
           "at a temperature among the points (--t0)");
 }

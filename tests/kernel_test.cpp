@@ -17,18 +17,12 @@ namespace {
 
 constexpr double kT25 = 298.15;  // 25 °C in kelvin (SI)
 
-Thermistor beta_model(double r25, double b) {
-    return Thermistor(BetaModel{r25, kT25, b});
-}
+Thermistor beta_model(double r25, double b) { return Thermistor(BetaModel{r25, kT25, b}); }
 
-Span span_c(double lo_c, double hi_c) {
-    return {lo_c + 273.15, hi_c + 273.15};
-}
+Span span_c(double lo_c, double hi_c) { return {lo_c + 273.15, hi_c + 273.15}; }
 
 // Same value, or both NaN (the power of a resistance output without a drive).
-bool same(double a, double b) {
-    return a == b || (std::isnan(a) && std::isnan(b));
-}
+bool same(double a, double b) { return a == b || (std::isnan(a) && std::isnan(b)); }
 
 struct Setting {
     const char* what;

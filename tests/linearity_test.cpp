@@ -110,7 +110,8 @@ TEST_CASE("the endpoint line runs through the first and last points (hand: slope
     CHECK(l.slope == doctest::Approx(3.0).epsilon(1e-15));
     CHECK(l.intercept == doctest::Approx(1.0).epsilon(1e-15));
     // Deviations 0, -2, -2, 0 over a full scale of 9: 2/9 × 100 %FSD (Bentley §2.1).
-    CHECK(rtline::max_nonlinearity_pct_fsd(kHx, kHy, LineKind::endpoint) == doctest::Approx(200.0 / 9.0).epsilon(1e-14));
+    CHECK(rtline::max_nonlinearity_pct_fsd(kHx, kHy, LineKind::endpoint) ==
+          doctest::Approx(200.0 / 9.0).epsilon(1e-14));
 }
 
 TEST_CASE("the least-squares line of a small set worked by hand") {

@@ -26,7 +26,8 @@ std::string rt_csv(const std::vector<double>& t_c, double scatter = 0.0) {
     std::string text = "# battery pack sensor (generated)\nt_c,r_ohm\n";
     const double pattern[] = {+1.0, -0.7, +0.3, -1.0, +0.6, 0.0, -0.4};
     for (std::size_t i = 0; i < t_c.size(); ++i) {
-        const double r = rtline::sh_resistance(kPack, rtline::celsius_to_kelvin(t_c[i])) * (1.0 + scatter * pattern[i % 7]);
+        const double r =
+            rtline::sh_resistance(kPack, rtline::celsius_to_kelvin(t_c[i])) * (1.0 + scatter * pattern[i % 7]);
         char line[80];
         std::snprintf(line, sizeof line, "%.17g,%.17g\n", t_c[i], r);
         text += line;
@@ -93,7 +94,8 @@ TEST_CASE("rtline model --format json opens with tool, version, schema and comma
 }
 
 TEST_CASE("rtline model --r25 --beta gives the beta equation's R and alpha = -B/T^2 at each point") {
-    const json doc = run_json({"model", "--r25", "10k", "--beta", "3500", "--span", "-30:5", "--step", "5", "--format", "json"});
+    const json doc =
+        run_json({"model", "--r25", "10k", "--beta", "3500", "--span", "-30:5", "--step", "5", "--format", "json"});
     REQUIRE(doc["points"].size() == 8);  // -30, -25, …, 5
     for (const json& p : doc["points"]) {
         REQUIRE(p.size() == 3);
@@ -109,7 +111,8 @@ TEST_CASE("rtline model --r25 --beta gives the beta equation's R and alpha = -B/
 
 TEST_CASE("rtline model --t0 states R0 at another temperature") {
     // R0 = 32k6 at 0 °C: at 0 °C the model gives R0 itself (the exponent is zero).
-    const json doc = run_json({"model", "--r25", "32k6", "--beta", "3500", "--t0", "0", "--span", "0:25", "--format", "json"});
+    const json doc =
+        run_json({"model", "--r25", "32k6", "--beta", "3500", "--t0", "0", "--span", "0:25", "--format", "json"});
     CHECK(doc["points"][0]["r_ohm"].get<double>() == doctest::Approx(32.6e3).epsilon(1e-14));
     CHECK(doc["model"]["t0_c"].get<double>() == doctest::Approx(0.0));
 }
@@ -118,7 +121,8 @@ TEST_CASE("rtline model --span -30:5 works as typed and prints a table with unit
     const auto r = run_rtline({"model", "--r25", "10k", "--beta", "3950", "--span", "-30:5", "--step", "5"});
     CHECK(r.code == 0);
     CHECK(r.err.empty());
-    CHECK(r.out.find("T (\xC2\xB0" "C)") != std::string::npos);
+    CHECK(r.out.find("T (\xC2\xB0"
+                     "C)") != std::string::npos);
     CHECK(r.out.find("R (ohm)") != std::string::npos);
     // The first row is the span's low end, the last its high end.
     const std::size_t first_row = r.out.find("-30.00");
@@ -155,7 +159,8 @@ TEST_CASE("rtline model --format csv has a snake_case header with units") {
 }
 
 TEST_CASE("rtline model --sh gives resistances that satisfy the Steinhart-Hart equation") {
-    const json doc = run_json({"model", "--sh", "1.1e-3,2.4e-4,1e-7", "--span", "-55:150", "--step", "5", "--format", "json"});
+    const json doc =
+        run_json({"model", "--sh", "1.1e-3,2.4e-4,1e-7", "--span", "-55:150", "--step", "5", "--format", "json"});
     CHECK(doc["model"]["kind"] == "steinhart-hart");
     REQUIRE(doc["points"].size() == 42);
     for (const json& p : doc["points"]) {
@@ -169,7 +174,8 @@ TEST_CASE("rtline model --sh gives resistances that satisfy the Steinhart-Hart e
 TEST_CASE("rtline model --points fits Steinhart-Hart by default and follows the points") {
     TempPath file(".csv");
     rtline::test::write_file(file.str(), rt_csv(every(-40, 120, 10)));
-    const json doc = run_json({"model", "--points", file.str(), "--span", "-40:120", "--step", "7", "--format", "json"});
+    const json doc =
+        run_json({"model", "--points", file.str(), "--span", "-40:120", "--step", "7", "--format", "json"});
     CHECK(doc["model"]["kind"] == "steinhart-hart");
     for (const json& p : doc["points"]) {
         const double t_k = p["t_c"].get<double>() + 273.15;
@@ -182,8 +188,8 @@ TEST_CASE("rtline model --points --model table passes through the table's points
     TempPath file(".csv");
     const std::vector<double> nodes = {-20, -10, 0, 10, 25, 40, 60};
     rtline::test::write_file(file.str(), rt_csv(nodes));
-    const json doc =
-        run_json({"model", "--points", file.str(), "--model", "table", "--span", "-20:60", "--step", "5", "--format", "json"});
+    const json doc = run_json(
+        {"model", "--points", file.str(), "--model", "table", "--span", "-20:60", "--step", "5", "--format", "json"});
     CHECK(doc["model"]["kind"] == "table");
     int matched = 0;
     for (const json& p : doc["points"]) {
@@ -203,7 +209,8 @@ TEST_CASE("rtline model --points --model beta fits R0 and B and reads the points
     const json doc = run_json({"model", "--points", "-", "--model", "beta", "--span", "0:50", "--format", "json"},
                               rt_csv(every(0, 50, 5)));
     CHECK(doc["model"]["kind"] == "beta");
-    CHECK(doc["model"]["b_k"].get<double>() > 3000.0);  // kPack's local B runs 3685…3852 K over 0…50 °C (rtline model's local B column; 1/(B + 3C·L²))
+    CHECK(doc["model"]["b_k"].get<double>() >
+          3000.0);  // kPack's local B runs 3685…3852 K over 0…50 °C (rtline model's local B column; 1/(B + 3C·L²))
     CHECK(doc["model"]["b_k"].get<double>() < 4500.0);
     CHECK(doc["model"]["t0_c"].get<double>() == doctest::Approx(25.0));
 }
@@ -235,7 +242,8 @@ TEST_CASE("rtline fit on scattered points matches numpy.linalg.lstsq and reports
     rtline::test::write_file(file.str(), text);
     const json doc = run_json({"fit", "--points", file.str(), "--format", "json"});
     json pts = json::array();
-    for (const json& r : doc["residuals"]) pts.push_back({{"t_k", r["t_c"].get<double>() + 273.15}, {"r_ohm", r["r_ohm"]}});
+    for (const json& r : doc["residuals"])
+        pts.push_back({{"t_k", r["t_c"].get<double>() + 273.15}, {"r_ohm", r["r_ohm"]}});
     const json ref = rtline::test::python_ref("sh_lstsq.py", {{"model", "sh"}, {"points", pts}});
     CHECK(doc["model"]["a"].get<double>() == doctest::Approx(ref["a"].get<double>()).epsilon(1e-9));
     CHECK(doc["model"]["b"].get<double>() == doctest::Approx(ref["b"].get<double>()).epsilon(1e-9));
@@ -244,7 +252,8 @@ TEST_CASE("rtline fit on scattered points matches numpy.linalg.lstsq and reports
     for (const json& r : doc["residuals"]) {
         // residual = T(model at R) − T, the model's forward equation (Steinhart & Hart 1968), in mK.
         const double l = std::log(r["r_ohm"].get<double>());
-        const double t_model = 1.0 / (ref["a"].get<double>() + ref["b"].get<double>() * l + ref["c"].get<double>() * l * l * l);
+        const double t_model =
+            1.0 / (ref["a"].get<double>() + ref["b"].get<double>() * l + ref["c"].get<double>() * l * l * l);
         CHECK(r["residual_mk"].get<double>() ==
               doctest::Approx(1e3 * (t_model - (r["t_c"].get<double>() + 273.15))).epsilon(1e-5));
         largest = std::max(largest, std::abs(r["residual_mk"].get<double>()));
@@ -294,7 +303,8 @@ TEST_CASE("rtline fit still fits when the other model cannot be fitted for compa
 
 TEST_CASE("-o writes the document to the file and nothing to stdout") {
     TempPath out(".json");
-    const auto r = run_rtline({"model", "--r25", "10k", "--beta", "3500", "--span", "0:10", "--format", "json", "-o", out.str()});
+    const auto r =
+        run_rtline({"model", "--r25", "10k", "--beta", "3500", "--span", "0:10", "--format", "json", "-o", out.str()});
     CHECK(r.code == 0);
     CHECK(r.out.empty());
     const auto direct = run_rtline({"model", "--r25", "10k", "--beta", "3500", "--span", "0:10", "--format", "json"});

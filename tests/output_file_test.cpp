@@ -55,8 +55,10 @@ std::vector<std::string> with(std::vector<std::string> a, const std::vector<std:
 
 const std::vector<Command> kCommands = {
     {"model", with(with({"model"}, kBeta), {"--step", "10"}), with(with({"model"}, kBeta), {"--step", "0"}), 2},
-    {"fit", {"fit", "--points", rtline::test::source_dir() + "/examples/freezer-room-rt.csv"},
-     {"fit", "--points", rtline::test::source_dir() + "/examples/no-such-file.csv"}, 2},
+    {"fit",
+     {"fit", "--points", rtline::test::source_dir() + "/examples/freezer-room-rt.csv"},
+     {"fit", "--points", rtline::test::source_dir() + "/examples/no-such-file.csv"},
+     2},
     {"check", with(with({"check"}, kBeta), {"--circuit", "divider-low", "--rs", "10k", "--step", "10"}),
      with(with({"check"}, kBeta), {"--circuit", "divider-low", "--rs", "10k", "--line", "straight"}), 2},
     // --min-span 2 V/V is out of reach of any ratiometric divider (it spans at most 1 V/V): exit 1.

@@ -134,16 +134,19 @@ TEST_CASE("size --format json carries the continuous optimum, the closed forms a
     CHECK(cands[0]["max_nonlinearity_pct_fsd"].get<double>() == doctest::Approx(best).epsilon(1e-9));
 }
 
-TEST_CASE("size json: power per volt when ratiometric, null (never NaN) without a drive; no closed form for two resistors") {
+TEST_CASE(
+    "size json: power per volt when ratiometric, null (never NaN) without a drive; no closed form for two resistors") {
     // Ratiometric is notionally 1 V (circuit.hpp): P = R_T/(rs + R_T)² W at 1 V, the formula above.
     const json one = run_json(with(kGreenhouse, {"--circuit", "divider-low"}));
     const double rs = one["candidates"][0]["resistors_ohm"]["rs"];
-    CHECK(one["candidates"][0]["max_power_w"].get<double>() == doctest::Approx(divider_low(rs, 1.0).power).epsilon(1e-9));
+    CHECK(one["candidates"][0]["max_power_w"].get<double>() ==
+          doctest::Approx(divider_low(rs, 1.0).power).epsilon(1e-9));
     // A ratiometric shunt's output is a resistance: nothing drives it, so no power.
     const json shunt = run_json(with(kGreenhouse, {"--circuit", "shunt"}));
     CHECK(shunt["candidates"][0]["max_power_w"].is_null());
     CHECK(shunt["candidates"][0]["max_self_heating_k"].is_null());
-    const json two = run_json(with(kGreenhouse, {"--circuit", "shunt-divider", "--series", "E12", "--range", "1k:100k"}));
+    const json two =
+        run_json(with(kGreenhouse, {"--circuit", "shunt-divider", "--series", "E12", "--range", "1k:100k"}));
     CHECK_FALSE(two.contains("closed_form"));
     CHECK(two["continuous"]["resistors_ohm"].contains("rp"));
     CHECK(two["continuous"]["resistors_ohm"].contains("rs"));
@@ -168,7 +171,8 @@ TEST_CASE("size --compare gives one row per applicable topology, sorted by nonli
         CHECK(names == std::multiset<std::string>{"bridge", "divider-high", "divider-low", "shunt", "shunt-bridge",
                                                   "shunt-divider"});
         for (std::size_t i = 1; i < rows.size(); ++i) {
-            CHECK(rows[i]["max_nonlinearity_pct_fsd"].get<double>() >= rows[i - 1]["max_nonlinearity_pct_fsd"].get<double>());
+            CHECK(rows[i]["max_nonlinearity_pct_fsd"].get<double>() >=
+                  rows[i - 1]["max_nonlinearity_pct_fsd"].get<double>());
         }
         // Each row is that topology's own best (the single-topology run, --top 1).
         for (const json& row : rows) {
@@ -190,12 +194,14 @@ TEST_CASE("size --compare gives one row per applicable topology, sorted by nonli
         const json doc = run_json(with(kGreenhouse, {"--compare", "--min-span", "0.3"}));
         for (const json& row : doc["comparison"]) CHECK(row["topology"] != "shunt");
         bool skipped_shunt = false;
-        for (const json& k : doc["skipped"]) skipped_shunt = skipped_shunt || k.get<std::string>().rfind("shunt (", 0) == 0;
+        for (const json& k : doc["skipped"])
+            skipped_shunt = skipped_shunt || k.get<std::string>().rfind("shunt (", 0) == 0;
         CHECK(skipped_shunt);
         const auto none = run_rtline(with(kGreenhouse, {"--compare", "--min-span", "0.38"}));
         CHECK(none.code == 1);
         CHECK(none.out.empty());
-        CHECK(none.err.rfind("rtline: no E24 combination for any topology meets the constraints: --min-span removed ", 0) == 0);
+        CHECK(none.err.rfind("rtline: no E24 combination for any topology meets the constraints: --min-span removed ",
+                             0) == 0);
     }
     SUBCASE("a current drive skips the dividers, whose output it makes independent of the thermistor or of rs") {
         // By hand: a current source I into a divider gives I·rs (thermistor on top) or I·R_T (at the bottom).
@@ -214,7 +220,8 @@ TEST_CASE("size --tradeoff lists exactly the Pareto front of nonlinearity agains
     // Along the front the span falls and so does the nonlinearity, strictly.
     for (std::size_t i = 1; i < front.size(); ++i) {
         CHECK(front[i]["output_span"].get<double>() < front[i - 1]["output_span"].get<double>());
-        CHECK(front[i]["max_nonlinearity_pct_fsd"].get<double>() < front[i - 1]["max_nonlinearity_pct_fsd"].get<double>());
+        CHECK(front[i]["max_nonlinearity_pct_fsd"].get<double>() <
+              front[i - 1]["max_nonlinearity_pct_fsd"].get<double>());
     }
     // Against every E24 value computed here: a value is on the front exactly when no other value has at
     // least its span and less nonlinearity, or more span and no more nonlinearity (ties to 1e-9).
@@ -240,9 +247,11 @@ TEST_CASE("size --tradeoff lists exactly the Pareto front of nonlinearity agains
 
 TEST_CASE("size warns in its text output when the best design's span is below 10 % of the excitation") {
     // At 3.3 V with at most 1 µW in the thermistor the best E24 value is large and the span small.
-    const auto small = run_rtline(with(kGreenhouse, {"--circuit", "divider-low", "--excitation", "3.3", "--max-power", "1u"}));
+    const auto small =
+        run_rtline(with(kGreenhouse, {"--circuit", "divider-low", "--excitation", "3.3", "--max-power", "1u"}));
     REQUIRE(small.code == 0);
-    const json doc = run_json(with(kGreenhouse, {"--circuit", "divider-low", "--excitation", "3.3", "--max-power", "1u"}));
+    const json doc =
+        run_json(with(kGreenhouse, {"--circuit", "divider-low", "--excitation", "3.3", "--max-power", "1u"}));
     const double rs = doc["candidates"][0]["resistors_ohm"]["rs"];
     CHECK(divider_low(rs, 3.3).span < 0.33);  // the formula agrees that it is below 10 % of 3.3 V
     CHECK(small.out.find("below 10 % of the excitation") != std::string::npos);
@@ -260,7 +269,8 @@ TEST_CASE("size text output shows the continuous optimum, the closed forms and t
     CHECK(r.out.find("continuous optimum") != std::string::npos);
     CHECK(r.out.find("closed forms") != std::string::npos);
     CHECK(r.out.find("nonlinearity (%FSD)") != std::string::npos);
-    const auto two = run_rtline(with(kGreenhouse, {"--circuit", "shunt-divider", "--series", "E6", "--range", "1k:100k"}));
+    const auto two =
+        run_rtline(with(kGreenhouse, {"--circuit", "shunt-divider", "--series", "E6", "--range", "1k:100k"}));
     REQUIRE(two.code == 0);
     CHECK(two.out.find("closed forms") == std::string::npos);
 }
@@ -276,8 +286,8 @@ TEST_CASE("size with constraints nothing meets exits 1, names the constraint tha
 
     // Two constraints: at 5 V, a span of 1.85 V (0.37 V/V) leaves only values near 11.7 kΩ, which all
     // dissipate more than 0.1 mW (V²/4R ≈ 0.5 mW there). The span limit removes more (see sizing_test).
-    const auto both = run_rtline(
-        with(kGreenhouse, {"--circuit", "divider-low", "--excitation", "5", "--min-span", "1.85", "--max-power", "100u"}));
+    const auto both = run_rtline(with(
+        kGreenhouse, {"--circuit", "divider-low", "--excitation", "5", "--min-span", "1.85", "--max-power", "100u"}));
     CHECK(both.code == 1);
     CHECK(both.out.empty());
     CHECK(both.err.rfind("rtline: no E24 combination meets the constraints: --min-span removed ", 0) == 0);
@@ -292,7 +302,8 @@ TEST_CASE("size with constraints nothing meets exits 1, names the constraint tha
     // An -o file is left as it was.
     const rtline::test::TempPath file(".json");
     rtline::test::write_file(file.str(), "kept\n");
-    const auto kept = run_rtline(with(kGreenhouse, {"--circuit", "divider-low", "--min-span", "0.5", "-o", file.str()}));
+    const auto kept =
+        run_rtline(with(kGreenhouse, {"--circuit", "divider-low", "--min-span", "0.5", "-o", file.str()}));
     CHECK(kept.code == 1);
     CHECK(rtline::test::read_file(file.str()) == "kept\n");
 }

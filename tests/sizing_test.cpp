@@ -83,7 +83,8 @@ bool same_nl(double a, double b) { return std::abs(a - b) <= 1e-9 * std::max(a, 
 // The brute force's ranking: lower nonlinearity first; equal nonlinearity (to 1e-9): larger span first.
 void rank(std::vector<Brute>& all) {
     std::stable_sort(all.begin(), all.end(), [](const Brute& a, const Brute& b) { return a.span > b.span; });
-    std::stable_sort(all.begin(), all.end(), [](const Brute& a, const Brute& b) { return a.nl < b.nl && !same_nl(a.nl, b.nl); });
+    std::stable_sort(all.begin(), all.end(),
+                     [](const Brute& a, const Brute& b) { return a.nl < b.nl && !same_nl(a.nl, b.nl); });
 }
 
 std::vector<double> free_values(const Candidate& c) {
@@ -127,10 +128,18 @@ TEST_CASE("the one-resistor continuous optimum matches scipy's minimize_scalar o
          "endpoint", 0},
         {"freezer room, bridge nulled at -30 C", model_json(10e3, 3950), -30, 5, 1, Topology::bridge, "bridge",
          LineKind::endpoint, "endpoint", 0},
-        {"water heater, Steinhart-Hart, loaded divider-low", {{"kind", "sh"}, {"a", sh.a}, {"b", sh.b}, {"c", sh.c}},
-         20, 90, 2, Topology::divider_low, "divider-low", LineKind::endpoint, "endpoint", 100e3},
-        {"engine bay, best-fit line (several local minima)", model_json(10e3, 3950), -55, 150, 5,
-         Topology::divider_low, "divider-low", LineKind::best_fit, "best-fit", 0},
+        {"water heater, Steinhart-Hart, loaded divider-low",
+         {{"kind", "sh"}, {"a", sh.a}, {"b", sh.b}, {"c", sh.c}},
+         20,
+         90,
+         2,
+         Topology::divider_low,
+         "divider-low",
+         LineKind::endpoint,
+         "endpoint",
+         100e3},
+        {"engine bay, best-fit line (several local minima)", model_json(10e3, 3950), -55, 150, 5, Topology::divider_low,
+         "divider-low", LineKind::best_fit, "best-fit", 0},
         {"greenhouse, divider-high, minimax line", model_json(10e3, 3950), 5, 40, 1, Topology::divider_high,
          "divider-high", LineKind::minimax, "minimax", 0},
     };
@@ -152,7 +161,10 @@ TEST_CASE("the one-resistor continuous optimum matches scipy's minimize_scalar o
     for (std::size_t i = 0; i < std::size(cases); ++i) {
         const Case& c = cases[i];
         CAPTURE(c.what);
-        const Thermistor model = c.model["kind"] == "sh" ? Thermistor(sh) : Thermistor(BetaModel{c.model["r0_ohm"].get<double>(), kT25, c.model["b_k"].get<double>()});
+        const Thermistor model =
+            c.model["kind"] == "sh"
+                ? Thermistor(sh)
+                : Thermistor(BetaModel{c.model["r0_ohm"].get<double>(), kT25, c.model["b_k"].get<double>()});
         const Span span = span_c(c.lo_c, c.hi_c);
         const Grid grid = make_grid(model, span, c.step);
         SizingSpec spec = spec_for(c.topology);
@@ -330,7 +342,7 @@ TEST_CASE("a Steinhart-Hart model uses its local B at the span's centre") {
     // Local B = −alpha·T² (REFERENCES.md). From 1/T = A + B·L + C·L³, L = ln R: dL/dT = −1/(T²(B + 3C·L²)),
     // so local B = 1/(B + 3C·L²) (by hand). L at Tc from the Cardano solution (REFERENCES.md).
     const SteinhartHart sh{1.10e-3, 2.40e-4, 7.5e-8};  // coefficients of our own
-    const Span span = span_c(20, 90);                   // water heater, centre 55 °C
+    const Span span = span_c(20, 90);                  // water heater, centre 55 °C
     const double tc = span.centre_k();
     const double x = (sh.a - 1.0 / tc) / sh.c;
     const double y = std::sqrt(std::pow(sh.b / (3.0 * sh.c), 3) + x * x / 4.0);
@@ -569,7 +581,8 @@ TEST_CASE("each constraint removes exactly the candidates a brute force says it 
         auto ok = [&](const Brute& x) {
             return x.max_power_w <= c.limits.max_power_w && x.span >= c.limits.min_span &&
                    x.min_sens >= c.limits.min_sensitivity &&
-                   (c.dissipation_w_per_k == 0.0 || x.max_power_w / c.dissipation_w_per_k <= c.limits.max_self_heating_k);
+                   (c.dissipation_w_per_k == 0.0 ||
+                    x.max_power_w / c.dissipation_w_per_k <= c.limits.max_self_heating_k);
         };
         std::vector<Brute> feasible;
         for (const Brute& x : all) {
@@ -585,7 +598,8 @@ TEST_CASE("each constraint removes exactly the candidates a brute force says it 
             CHECK(free_values(found.best[i]) == feasible[i].values);
             CHECK(found.best[i].sensitivity_min_per_k == doctest::Approx(feasible[i].min_sens).epsilon(1e-6));
             if (c.dissipation_w_per_k > 0) {
-                CHECK(found.best[i].max_self_heating_k == doctest::Approx(feasible[i].max_power_w / 1e-3).epsilon(1e-9));
+                CHECK(found.best[i].max_self_heating_k ==
+                      doctest::Approx(feasible[i].max_power_w / 1e-3).epsilon(1e-9));
             }
         }
         for (const auto& removed : found.removed) {

@@ -7,15 +7,16 @@
 
 #include "support.hpp"
 
+using nlohmann::json;
 using rtline::test::run_rtline;
 using rtline::test::TempPath;
 using rtline::test::write_file;
-using nlohmann::json;
 
 namespace {
 
-const std::vector<std::string> kSizeFlags = {"size", "--r25", "10k", "--beta", "3890", "--span", "0:45",
-                                             "--circuit", "divider-low", "--top", "2", "--format", "json"};
+const std::vector<std::string> kSizeFlags = {"size",   "--r25",    "10k",       "--beta",      "3890",
+                                             "--span", "0:45",     "--circuit", "divider-low", "--top",
+                                             "2",      "--format", "json"};
 const char* const kSizeSpec =
     R"({"r25": "10k", "beta": 3890, "span": "0:45", "circuit": "divider-low", "top": 2, "format": "json"})";
 
@@ -63,9 +64,9 @@ TEST_CASE("a boolean key turns a flag on") {
 }
 
 TEST_CASE("check's JSON output read back as a spec reproduces the same check") {
-    const std::vector<std::string> flags = {"check", "--r25", "47k", "--beta", "4090", "--span", "-20:60",
-                                            "--circuit", "bridge", "--r1", "51k", "--load", "100k",
-                                            "--excitation", "5", "--format", "json"};
+    const std::vector<std::string> flags = {"check",  "--r25",        "47k",    "--beta",   "4090", "--span",
+                                            "-20:60", "--circuit",    "bridge", "--r1",     "51k",  "--load",
+                                            "100k",   "--excitation", "5",      "--format", "json"};
     const auto first = run_rtline(flags);
     REQUIRE(first.code == 0);
     const TempPath doc(".json");
@@ -121,9 +122,9 @@ TEST_CASE("a missing spec file is exit 2 naming it") {
 
 TEST_CASE("a JSON Lines batch answers each line in order and goes on past a bad one") {
     const std::string input = std::string(R"({"r25": "10k", "beta": 3890, "span": "0:45", "circuit": "divider-low"})") +
-                              "\n" + R"({"r25": "10k", "beta": -1, "span": "0:45", "circuit": "divider-low"})" + "\n\n" +
-                              "{truncated\n" + R"({"r25": "47k", "beta": 4090, "span": "-20:60", "circuit": "bridge"})" +
-                              "\n";
+                              "\n" + R"({"r25": "10k", "beta": -1, "span": "0:45", "circuit": "divider-low"})" +
+                              "\n\n" + "{truncated\n" +
+                              R"({"r25": "47k", "beta": 4090, "span": "-20:60", "circuit": "bridge"})" + "\n";
     const auto r = run_rtline({"size", "--jsonl", "--top", "1"}, input);
     CHECK(r.code == 2);
     const auto out = lines_of(r.out);
@@ -143,7 +144,8 @@ TEST_CASE("a batch of good lines exits 0, and one with no feasible design exits 
     const auto ok = run_rtline({"size", "--jsonl"}, good + "\n" + good + "\n");
     CHECK(ok.code == 0);
     CHECK(lines_of(ok.out).size() == 2);
-    const std::string tight = R"({"r25": "10k", "beta": 3890, "span": "0:45", "circuit": "divider-low", "min_span": 0.99})";
+    const std::string tight =
+        R"({"r25": "10k", "beta": 3890, "span": "0:45", "circuit": "divider-low", "min_span": 0.99})";
     const auto infeasible = run_rtline({"size", "--jsonl"}, good + "\n" + tight + "\n");
     CHECK(infeasible.code == 1);
     const json j = json::parse(lines_of(infeasible.out).at(1));

@@ -59,7 +59,8 @@ Run run_shell(const std::string& command, const std::string& input) {
     const TempPath out(".out");
     const TempPath err(".err");
     write_file(in.str(), input);
-    const std::string line = "(" + command + ") <" + quote(in.str()) + " >" + quote(out.str()) + " 2>" + quote(err.str());
+    const std::string line =
+        "(" + command + ") <" + quote(in.str()) + " >" + quote(out.str()) + " 2>" + quote(err.str());
     const int status = std::system(line.c_str());
     Run r;
     r.code = WIFEXITED(status) ? WEXITSTATUS(status) : -1;

@@ -34,9 +34,7 @@ inline Args with(Args a, const Args& more) {
 // Our own thermistor: beta model R25 = 10 kΩ, B = 3950 K.
 inline const Args kThermistor{"--r25", "10k", "--beta", "3950"};
 
-inline Json read_svg(const std::string& path) {
-    return python_ref("svg_read.py", {{"path", path}});
-}
+inline Json read_svg(const std::string& path) { return python_ref("svg_read.py", {{"path", path}}); }
 
 // Runs rtline with --format json and --svg into `picture`; returns the JSON document.
 inline Json run_with_svg(const Args& args, const TempPath& picture) {

@@ -424,7 +424,9 @@ TEST_CASE("budget --svg: the worst-case and 99.7 % curves reach the reported sum
                                 pic);
     const Json s = read_svg(pic.str());
     const Json& plot = s["plots"][0];
-    CHECK(plot["y_label"] == "error (\xC2\xB0" "C)");
+    CHECK(plot["y_label"] ==
+          "error (\xC2\xB0"
+          "C)");
     const AxisMap xm = axis_map(plot["x_ticks"]);
     const AxisMap ym = axis_map(plot["y_ticks"]);
     auto largest = [&](const std::string& name) {

@@ -29,8 +29,14 @@ Design divider(const std::string& topology, const std::string& rs, double rs_ohm
     const std::string span = std::to_string(lo_c) + ":" + std::to_string(hi_c);
     return {{"table", "--r25", "10k", "--beta", "3950", "--span", span, "--circuit", topology, "--rs", rs, "--adc-bits",
              std::to_string(bits)},
-            {{"r25_ohm", 10e3}, {"b_k", 3950.0}, {"t0_c", 25.0}, {"topology", topology}, {"rs_ohm", rs_ohm},
-             {"adc_bits", bits}, {"lo_c", lo_c}, {"hi_c", hi_c}}};
+            {{"r25_ohm", 10e3},
+             {"b_k", 3950.0},
+             {"t0_c", 25.0},
+             {"topology", topology},
+             {"rs_ohm", rs_ohm},
+             {"adc_bits", bits},
+             {"lo_c", lo_c},
+             {"hi_c", hi_c}}};
 }
 
 std::vector<std::string> with(std::vector<std::string> a, const std::vector<std::string>& more) {
@@ -56,8 +62,8 @@ std::string compiler() { return rtline::test::have_program("cc") ? "cc" : "gcc";
 
 // Emits the header with `args`, compiles it into a program that prints every code from `from` to
 // `to`, runs it and reads the lines back.
-std::vector<CReading> run_header(const std::vector<std::string>& args, const std::string& prefix, bool poly,
-                                 long from, long to) {
+std::vector<CReading> run_header(const std::vector<std::string>& args, const std::string& prefix, bool poly, long from,
+                                 long to) {
     const TempPath header(".h");
     const TempPath source(".c");
     const TempPath program(".bin");
@@ -71,8 +77,8 @@ std::vector<CReading> run_header(const std::vector<std::string>& args, const std
       << (poly ? prefix + "poly_temperature((uint32_t)k)" : std::string("0.0")) << ");\n    }\n    return 0;\n}\n";
     write_file(source.str(), c.str());
     // The issue's compiler line: the header must compile warning-free as strict C99.
-    const auto built = run_shell(compiler() + " -std=c99 -Wall -Wextra -Werror -pedantic -o " + program.str() + " " +
-                                 source.str());
+    const auto built =
+        run_shell(compiler() + " -std=c99 -Wall -Wextra -Werror -pedantic -o " + program.str() + " " + source.str());
     INFO(built.err);
     REQUIRE(built.code == 0);
     const auto ran = run_shell(program.str());
@@ -102,11 +108,20 @@ TEST_CASE("the emitted C header, compiled and run over every code, stays within 
     // exactly with the fixed-point error rtline reports.
     const CCase cases[] = {
         {"12-bit divider-low, equal error, 0.01 degC, with a polynomial",
-         divider("divider-low", "10k", 10e3, 12, 0.0, 45.0), {"--spacing", "error", "--degree", "4"}, 0.01, true},
-        {"10-bit divider-high, even codes, 0.1 degC", divider("divider-high", "4k7", 4.7e3, 10, -20.0, 60.0),
-         {"--entries", "9", "--unit", "0.1"}, 0.1, false},
-        {"11-bit divider-low over -40..125, minimax polynomial", divider("divider-low", "10k", 10e3, 11, -40.0, 125.0),
-         {"--spacing", "error", "--entries", "25", "--degree", "7", "--fit", "minimax"}, 0.01, true},
+         divider("divider-low", "10k", 10e3, 12, 0.0, 45.0),
+         {"--spacing", "error", "--degree", "4"},
+         0.01,
+         true},
+        {"10-bit divider-high, even codes, 0.1 degC",
+         divider("divider-high", "4k7", 4.7e3, 10, -20.0, 60.0),
+         {"--entries", "9", "--unit", "0.1"},
+         0.1,
+         false},
+        {"11-bit divider-low over -40..125, minimax polynomial",
+         divider("divider-low", "10k", 10e3, 11, -40.0, 125.0),
+         {"--spacing", "error", "--entries", "25", "--degree", "7", "--fit", "minimax"},
+         0.01,
+         true},
     };
     for (const CCase& k : cases) {
         CAPTURE(k.name);
@@ -169,8 +184,8 @@ TEST_CASE("the header alone compiles cleanly in a file that uses none of it") {
     Design d = divider("shunt-divider", "4k7", 4.7e3, 12, 0.0, 50.0);
     REQUIRE(run_rtline(with(d.flags, {"--rp", "33k", "--degree", "3", "--emit", "c", "-o", header.str()})).code == 0);
     write_file(source.str(), "#include \"" + header.str() + "\"\ntypedef int unused_translation_unit;\n");
-    const auto built = run_shell(compiler() + " -std=c99 -Wall -Wextra -Werror -pedantic -c -o " + object.str() + " " +
-                                 source.str());
+    const auto built =
+        run_shell(compiler() + " -std=c99 -Wall -Wextra -Werror -pedantic -c -o " + object.str() + " " + source.str());
     INFO(built.err);
     CHECK(built.code == 0);
 }
@@ -184,7 +199,8 @@ TEST_CASE("the reported table error is the largest over every code, as numpy.int
         in["table"] = doc["table"];
         const Json ref = python_ref("adc_inverse.py", in);
         CAPTURE(spacing);
-        CHECK(doc["max_error_c"].get<double>() == doctest::Approx(ref["table_max_error_c"].get<double>()).epsilon(1e-9));
+        CHECK(doc["max_error_c"].get<double>() ==
+              doctest::Approx(ref["table_max_error_c"].get<double>()).epsilon(1e-9));
         CHECK(doc["at_code"].get<long>() == ref["table_at_code"].get<long>());
     }
 }
@@ -198,7 +214,8 @@ TEST_CASE("the JSON document states the reading convention, ADC width, spacing a
     CHECK(doc["adc_bits"] == 10);
     CHECK(doc["spacing"] == "error");
     CHECK(doc["unit_c"].get<double>() == 0.1);
-    CHECK(doc["reading"]["convention"].get<std::string>().rfind("ratiometric: code k is the output ratio k/1024", 0) == 0);
+    CHECK(doc["reading"]["convention"].get<std::string>().rfind("ratiometric: code k is the output ratio k/1024", 0) ==
+          0);
     CHECK(doc["reading"]["temperature_rises_with_code"] == true);  // divider-high: R_T falls, the output rises
     CHECK(doc["table"].size() == 17);
     CHECK(doc["entries"] == 17);
@@ -212,8 +229,8 @@ TEST_CASE("the JSON document states the reading convention, ADC width, spacing a
 }
 
 TEST_CASE("CSV carries one row per breakpoint under snake_case headers") {
-    const auto r = run_rtline(with(divider("divider-low", "10k", 10e3, 10, 0.0, 45.0).flags,
-                                   {"--entries", "5", "--format", "csv"}));
+    const auto r = run_rtline(
+        with(divider("divider-low", "10k", 10e3, 10, 0.0, 45.0).flags, {"--entries", "5", "--format", "csv"}));
     REQUIRE(r.code == 0);
     std::istringstream in(r.out);
     std::string line;
@@ -246,13 +263,17 @@ TEST_CASE("an error nothing can meet exits 1 with a message and nothing on stdou
     const auto table = run_rtline(with(d.flags, {"--max-error", "1e-9"}));
     CHECK(table.code == 1);
     CHECK(table.out.empty());
-    CHECK(table.err.rfind("rtline: no table of up to 1024 entries meets 1e-09 \xC2\xB0" "C", 0) == 0);
+    CHECK(table.err.rfind("rtline: no table of up to 1024 entries meets 1e-09 \xC2\xB0"
+                          "C",
+                          0) == 0);
     // Over −40 to 125 °C even degree 12 misses 0.01 °C (it gives 0.11 °C, measured).
     const Design wide = divider("divider-low", "10k", 10e3, 12, -40.0, 125.0);
     const auto poly = run_rtline(with(wide.flags, {"--entries", "9", "--fit", "minimax", "--max-error", "0.01"}));
     CHECK(poly.code == 1);
     CHECK(poly.out.empty());
-    CHECK(poly.err.rfind("rtline: no polynomial of degree up to 12 meets 0.01 \xC2\xB0" "C", 0) == 0);
+    CHECK(poly.err.rfind("rtline: no polynomial of degree up to 12 meets 0.01 \xC2\xB0"
+                         "C",
+                         0) == 0);
 }
 
 TEST_CASE("a failed run leaves an existing -o file as it was") {
@@ -265,25 +286,29 @@ TEST_CASE("a failed run leaves an existing -o file as it was") {
 }
 
 TEST_CASE("bad input exits 2 with one line naming the flag and the value") {
-    const std::vector<std::string> base = {"table", "--r25", "10k", "--beta", "3950", "--span", "0:45",
-                                           "--circuit", "divider-low", "--rs", "10k"};  // 12 bits by default
+    const std::vector<std::string> base = {"table", "--r25",     "10k",         "--beta", "3950", "--span",
+                                           "0:45",  "--circuit", "divider-low", "--rs",   "10k"};  // 12 bits by default
     struct Bad {
         std::vector<std::string> args;
         std::string message;
     };
-    const std::string deg = "\xC2\xB0" "C";
+    const std::string deg =
+        "\xC2\xB0"
+        "C";
     const Bad cases[] = {
         {{"--adc-bits", "0"}, "--adc-bits '0': an ADC has 1 to 24 bits"},
         {{"--adc-bits", "25"}, "--adc-bits '25': an ADC has 1 to 24 bits"},
         {{"--adc-bits", "12.5"}, "--adc-bits '12.5': a bit count must be a whole number"},
-        {{"--adc-bits", "1"}, "--adc-bits '1': the span's output swing (0.935 LSB) covers fewer than two codes; use more "
-                              "bits or a circuit with more swing"},
+        {{"--adc-bits", "1"},
+         "--adc-bits '1': the span's output swing (0.935 LSB) covers fewer than two codes; use more "
+         "bits or a circuit with more swing"},
         {{"--entries", "1"}, "--entries '1': a table needs at least 2 entries"},
         {{"--entries", "5000"}, "--entries '5000': a table needs 2 to 1915 entries (the span covers 1915 codes)"},
         {{"--degree", "0"}, "--degree '0': choose a degree from 1 to 12"},
         {{"--degree", "13"}, "--degree '13': choose a degree from 1 to 12"},
-        {{"--spacing", "log"}, "--spacing 'log': unknown spacing; choose code (evenly spaced codes) or error (equal "
-                               "error per segment)"},
+        {{"--spacing", "log"},
+         "--spacing 'log': unknown spacing; choose code (evenly spaced codes) or error (equal "
+         "error per segment)"},
         {{"--degree", "3", "--fit", "chebyshev"}, "--fit 'chebyshev': unknown fit; choose least-squares or minimax"},
         {{"--fit", "minimax"}, "--fit 'minimax': give --degree D, or --max-error C to find the lowest degree"},
         {{"--unit", "0.5"}, "--unit '0.5': choose 0.1 or 0.01 (" + deg + " per count of the fixed-point table)"},
@@ -291,16 +316,20 @@ TEST_CASE("bad input exits 2 with one line naming the flag and the value") {
         {{"--max-error", "0.1", "--entries", "9"},
          "--max-error '0.1': nothing left to choose; leave out --entries (and --degree) to find the smallest"},
         {{"--emit", "asm"}, "--emit 'asm': the only form is c (a C99 header)"},
-        {{"--emit", "c", "--prefix", "9lives"}, "--prefix '9lives': a C name prefix is a letter or '_' then letters, "
-                                                "digits or '_', at most 32 characters"},
+        {{"--emit", "c", "--prefix", "9lives"},
+         "--prefix '9lives': a C name prefix is a letter or '_' then letters, "
+         "digits or '_', at most 32 characters"},
         {{"--prefix", "ntc_"}, "--prefix 'ntc_': applies only with --emit c"},
         {{"--emit", "c", "--format", "json"}, "--format 'json': give either --emit c or --format, not both"},
-        {{"--degree", "2", "--format", "csv"}, "--format 'csv': CSV carries the table alone; use text or json for the "
-                                               "polynomial"},
-        {{"--excitation", "3.3"}, "--excitation '3.3': the table reads the ADC ratiometrically (its reference is the "
-                                  "excitation), so the supply voltage does not matter; leave --excitation out"},
-        {{"--current", "100u"}, "--current '100u': a current drive is not ratiometric; the table needs a divider read "
-                                "against its own excitation"},
+        {{"--degree", "2", "--format", "csv"},
+         "--format 'csv': CSV carries the table alone; use text or json for the "
+         "polynomial"},
+        {{"--excitation", "3.3"},
+         "--excitation '3.3': the table reads the ADC ratiometrically (its reference is the "
+         "excitation), so the supply voltage does not matter; leave --excitation out"},
+        {{"--current", "100u"},
+         "--current '100u': a current drive is not ratiometric; the table needs a divider read "
+         "against its own excitation"},
     };
     for (const Bad& b : cases) {
         const auto r = run_rtline(with(base, b.args));
@@ -310,11 +339,13 @@ TEST_CASE("bad input exits 2 with one line naming the flag and the value") {
         CHECK(r.err == "rtline: " + b.message + "\n");
     }
     const std::pair<const char*, const char*> circuits[] = {
-        {"bare", "--circuit 'bare': the output is a resistance, not a voltage an ADC reads; use divider-high, "
-                 "divider-low or shunt-divider"},
-        {"bridge", "--circuit 'bridge': a bridge's differential output needs an amplifier whose gain and offset the "
-                   "table does not know; use divider-high, divider-low or shunt-divider (node A of the bridge alone is "
-                   "a divider-low with rs = r1)"},
+        {"bare",
+         "--circuit 'bare': the output is a resistance, not a voltage an ADC reads; use divider-high, "
+         "divider-low or shunt-divider"},
+        {"bridge",
+         "--circuit 'bridge': a bridge's differential output needs an amplifier whose gain and offset the "
+         "table does not know; use divider-high, divider-low or shunt-divider (node A of the bridge alone is "
+         "a divider-low with rs = r1)"},
     };
     for (const auto& [topology, message] : circuits) {
         const auto r = run_rtline({"table", "--r25", "10k", "--beta", "3950", "--span", "0:45", "--circuit", topology});

@@ -45,9 +45,10 @@ Span span(const Design& d) { return {celsius_to_kelvin(d.lo_c), celsius_to_kelvi
 CodeMap code_map(const Design& d) { return map_codes(thermistor(d), circuit(d), span(d), d.adc_bits); }
 
 nlohmann::json ref_input(const Design& d) {
-    nlohmann::json j = {{"r25_ohm", d.r25_ohm}, {"b_k", d.b_k},         {"t0_c", 25.0},
-                        {"topology", std::string(topology_name(d.topology))}, {"rs_ohm", d.rs_ohm},
-                        {"adc_bits", d.adc_bits}, {"lo_c", d.lo_c}, {"hi_c", d.hi_c}};
+    nlohmann::json j = {{"r25_ohm", d.r25_ohm}, {"b_k", d.b_k},
+                        {"t0_c", 25.0},         {"topology", std::string(topology_name(d.topology))},
+                        {"rs_ohm", d.rs_ohm},   {"adc_bits", d.adc_bits},
+                        {"lo_c", d.lo_c},       {"hi_c", d.hi_c}};
     if (d.rp_ohm > 0.0) j["rp_ohm"] = d.rp_ohm;
     if (std::isfinite(d.load_ohm)) j["load_ohm"] = d.load_ohm;
     return j;
@@ -91,8 +92,8 @@ TEST_CASE("the exact inverse undoes each ratiometric circuit's output, load incl
         double rp;
         double load;
     };
-    const Case cases[] = {{Topology::divider_high, 0.0, kNoLoad}, {Topology::divider_high, 0.0, 47e3},
-                          {Topology::divider_low, 0.0, kNoLoad},  {Topology::divider_low, 0.0, 1e6},
+    const Case cases[] = {{Topology::divider_high, 0.0, kNoLoad},   {Topology::divider_high, 0.0, 47e3},
+                          {Topology::divider_low, 0.0, kNoLoad},    {Topology::divider_low, 0.0, 1e6},
                           {Topology::shunt_divider, 22e3, kNoLoad}, {Topology::shunt_divider, 22e3, 100e3}};
     for (const Case& k : cases) {
         Circuit c;

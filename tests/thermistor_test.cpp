@@ -18,11 +18,8 @@ namespace {
 
 // Our own plausible Steinhart–Hart sets: typical, C = 0, and a small negative C.
 const SteinhartHart kShSets[] = {
-    {1.10e-3, 2.40e-4, 1.00e-7},
-    {1.40e-3, 2.37e-4, 0.99e-7},
-    {0.90e-3, 2.60e-4, 1.50e-7},
-    {1.00e-3, 2.60e-4, 0.0},
-    {1.20e-3, 2.50e-4, -2.0e-8},
+    {1.10e-3, 2.40e-4, 1.00e-7}, {1.40e-3, 2.37e-4, 0.99e-7}, {0.90e-3, 2.60e-4, 1.50e-7},
+    {1.00e-3, 2.60e-4, 0.0},     {1.20e-3, 2.50e-4, -2.0e-8},
 };
 
 // Points of an R–T table generated from a model of our own at the given °C.
@@ -186,7 +183,9 @@ TEST_CASE("check_span rejects a span outside the table's points and accepts one 
     try {
         th.check_span(Span{263.15, 293.15}, "--span");
     } catch (const InputError& e) {
-        CHECK(std::string(e.what()) == "--span '-10:20': outside the R-T table, which covers 0 to 50 \xC2\xB0" "C");
+        CHECK(std::string(e.what()) ==
+              "--span '-10:20': outside the R-T table, which covers 0 to 50 \xC2\xB0"
+              "C");
     }
 }
 
@@ -252,7 +251,7 @@ TEST_CASE("the table model passes exactly through its points") {
 TEST_CASE("the table model falls strictly with temperature even between unevenly spaced points") {
     // A table that an ordinary cubic spline would overshoot: a sharp change of slope near 25 °C
     // (own numbers). PCHIP keeps each segment monotone (Fritsch & Carlson 1980).
-    const std::vector<RtPoint> pts = {{253.15, 90e3}, {273.15, 32e3}, {293.15, 12.6e3}, {298.15, 10e3},
+    const std::vector<RtPoint> pts = {{253.15, 90e3},   {273.15, 32e3},  {293.15, 12.6e3}, {298.15, 10e3},
                                       {299.15, 9.95e3}, {323.15, 3.6e3}, {373.15, 0.68e3}};
     const Thermistor th{TableModel(pts)};
     double previous = th.resistance(253.15);
@@ -301,7 +300,9 @@ TEST_CASE("validate_points sorts the points and rejects too few, duplicates and 
     const Case cases[] = {
         {{{273.15, 30e3}, {298.15, 10e3}}, 3, "t.csv '2 points': this model needs at least 3 R-T points"},
         {{{273.15, 30e3}, {273.15, 20e3}}, 2, "t.csv '0 C': duplicate temperature"},
-        {{{273.15, 30e3}, {298.15, 30e3}}, 2, "t.csv '25 C': an NTC's resistance must fall strictly as temperature rises"},
+        {{{273.15, 30e3}, {298.15, 30e3}},
+         2,
+         "t.csv '25 C': an NTC's resistance must fall strictly as temperature rises"},
         {{{273.15, -1.0}, {298.15, 10e3}}, 2, "t.csv '-1 ohm': resistances must be positive"},
         {{{0.0, 30e3}, {298.15, 10e3}}, 2, "t.csv '-273.15 C': temperatures must be above absolute zero"},
     };

@@ -60,7 +60,7 @@ TEST_CASE("parse_resistance reads plain numbers, the letter code and an ohm suff
 
 TEST_CASE("parse_resistance rejects text that is not a positive finite resistance") {
     // Each is not a value in the letter code, or not positive and finite: common practice, no source.
-    const char* rejected[] = {"",   "abc",   "10kk", "4k7k", "-10k", "0",  "nan",   "inf",  "1e400",
+    const char* rejected[] = {"",    "abc",   "10kk", "4k7k", "-10k", "0",    "nan",   "inf",  "1e400",
                               "10m", "4.7k7", "R",    "k",    "0R0",  "4 k7", "10 kk", "0x10", "  "};
     for (const char* text : rejected) {
         INFO("text: '" << text << "'");
@@ -96,9 +96,17 @@ TEST_CASE("format_resistance writes the letter code with trailing zeros dropped"
         const char* text;  // IEC 60062 letter code (from memory), rounding worked by hand
     };
     const Case cases[] = {
-        {4700.0, 4, "4k7"},     {10000.0, 4, "10k"},  {2.2, 4, "2R2"},     {470.0, 4, "470"},
-        {1.5e6, 4, "1M5"},      {1.0e9, 4, "1G"},     {100.0, 4, "100"},   {0.47, 4, "0R47"},
-        {999.96, 4, "1k"},      // 999.96 to 4 figures is 1000.0 (not 999.9 nor "1000")
+        {4700.0, 4, "4k7"},
+        {10000.0, 4, "10k"},
+        {2.2, 4, "2R2"},
+        {470.0, 4, "470"},
+        {1.5e6, 4, "1M5"},
+        {1.0e9, 4, "1G"},
+        {100.0, 4, "100"},
+        {0.47, 4, "0R47"},
+        {999.96, 4, "1k"},      // 999.96 to 4 figures is
+                                // 1000.0 (not 999.9 nor
+                                // "1000")
         {18513.4, 4, "18k51"},  // 18513.4 to 4 figures is 18510
         {999999.0, 4, "1M"},    // to 4 figures: 1.000e6
         {18513.4, 6, "18k5134"},
@@ -127,9 +135,18 @@ TEST_CASE("parse_temperature reads degrees Celsius and returns kelvin") {
         double kelvin;  // T/K = t/°C + 273.15 (SI brochure definition of the degree Celsius)
     };
     const Case cases[] = {
-        {"25", 298.15},      {"-40", 233.15},    {"0", 273.15},      {"25C", 298.15},
-        {"25\xC2\xB0" "C", 298.15},              {" -30 ", 243.15},  {"-273.14", 0.01},
-        {"298.15K", 298.15}, {"300 K", 300.0},   {"77K", 77.0},
+        {"25", 298.15},
+        {"-40", 233.15},
+        {"0", 273.15},
+        {"25C", 298.15},
+        {"25\xC2\xB0"
+         "C",
+         298.15},
+        {" -30 ", 243.15},
+        {"-273.14", 0.01},
+        {"298.15K", 298.15},
+        {"300 K", 300.0},
+        {"77K", 77.0},
     };
     for (const Case& c : cases) {
         INFO("text: '" << c.text << "'");
@@ -145,13 +162,14 @@ TEST_CASE("parse_temperature rejects absolute zero, colder, and text that is not
         CHECK_THROWS_AS((void)parse_temperature(text, "--t0"), InputError);
     }
     CHECK(error_of([] { return parse_temperature("-300", "--t0"); }) ==
-          "--t0 '-300': is at or below absolute zero (-273.15 \xC2\xB0" "C)");
+          "--t0 '-300': is at or below absolute zero (-273.15 \xC2\xB0"
+          "C)");
 }
 
 TEST_CASE("parse_span reads LO:HI with a negative low end as typed") {
     const Span s = parse_span("-30:5", "--span");
-    CHECK(s.lo_k == doctest::Approx(243.15).epsilon(1e-12));  // -30 + 273.15
-    CHECK(s.hi_k == doctest::Approx(278.15).epsilon(1e-12));  // 5 + 273.15
+    CHECK(s.lo_k == doctest::Approx(243.15).epsilon(1e-12));        // -30 + 273.15
+    CHECK(s.hi_k == doctest::Approx(278.15).epsilon(1e-12));        // 5 + 273.15
     CHECK(s.centre_k() == doctest::Approx(260.65).epsilon(1e-12));  // (243.15 + 278.15)/2
 
     const Span both_negative = parse_span("-40:-10", "--span");
@@ -171,11 +189,21 @@ TEST_CASE("parse_span rejects a reversed, empty, single or three-part span, nami
     const Case cases[] = {
         {"5:-30", "--span '5:-30': the low end must be below the high end"},
         {"0:0", "--span '0:0': the low end must be below the high end"},
-        {"", "--span: expected LO:HI in \xC2\xB0" "C, e.g. -30:5 or 0:100"},
-        {"5", "--span '5': expected LO:HI in \xC2\xB0" "C, e.g. -30:5 or 0:100"},
-        {"1:2:3", "--span '1:2:3': expected LO:HI in \xC2\xB0" "C, e.g. -30:5 or 0:100"},
-        {":5", "--span ':5': expected a temperature in \xC2\xB0" "C (e.g. -40 or 25) or in kelvin (e.g. 298.15K)"},
-        {"-300:10", "--span '-300:10': is at or below absolute zero (-273.15 \xC2\xB0" "C)"},
+        {"",
+         "--span: expected LO:HI in \xC2\xB0"
+         "C, e.g. -30:5 or 0:100"},
+        {"5",
+         "--span '5': expected LO:HI in \xC2\xB0"
+         "C, e.g. -30:5 or 0:100"},
+        {"1:2:3",
+         "--span '1:2:3': expected LO:HI in \xC2\xB0"
+         "C, e.g. -30:5 or 0:100"},
+        {":5",
+         "--span ':5': expected a temperature in \xC2\xB0"
+         "C (e.g. -40 or 25) or in kelvin (e.g. 298.15K)"},
+        {"-300:10",
+         "--span '-300:10': is at or below absolute zero (-273.15 \xC2\xB0"
+         "C)"},
     };
     for (const Case& c : cases) {
         INFO("text: '" << c.text << "'");
@@ -190,9 +218,17 @@ TEST_CASE("parse_quantity applies an SI prefix and strips the unit symbol") {
         double value;  // SI prefixes (SI brochure): u/µ = 1e-6, m = 1e-3, k = 1e3
     };
     const Case cases[] = {
-        {"100u", "A", 100e-6},  {"100uA", "A", 100e-6}, {"100\xC2\xB5" "A", "A", 100e-6},
-        {"3.3V", "V", 3.3},     {"3.3", "V", 3.3},      {"0.5m", "W", 0.5e-3},
-        {"0.5mW", "W", 0.5e-3}, {"2k", "", 2e3},        {"10n", "A", 10e-9},
+        {"100u", "A", 100e-6},
+        {"100uA", "A", 100e-6},
+        {"100\xC2\xB5"
+         "A",
+         "A", 100e-6},
+        {"3.3V", "V", 3.3},
+        {"3.3", "V", 3.3},
+        {"0.5m", "W", 0.5e-3},
+        {"0.5mW", "W", 0.5e-3},
+        {"2k", "", 2e3},
+        {"10n", "A", 10e-9},
     };
     for (const Case& c : cases) {
         INFO("text: '" << c.text << "' unit: " << c.unit);

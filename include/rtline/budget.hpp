@@ -37,9 +37,9 @@ struct Tolerances {
 
 // The converter reading the output: quantization ±0.5 LSB plus a converter error bound.
 struct Converter {
-    int bits = 0;             // resolution, 1..24; 0 = no converter (the reading is exact)
-    double error_lsb = 0.0;   // converter error bound (offset, gain, INL together), ±LSB
-    double full_scale = 1.0;  // in the reading's unit: 1 V/V when ratiometric, the reference in V otherwise
+    int bits = 0;                      // resolution, 1..24; 0 = no converter (the reading is exact)
+    double error_lsb = 0.0;            // converter error bound (offset, gain, INL together), ±LSB
+    double full_scale = 1.0;           // in the reading's unit: 1 V/V when ratiometric, the reference in V otherwise
     [[nodiscard]] double lsb() const;  // full_scale / 2^bits; 0 without a converter
 };
 
@@ -62,7 +62,7 @@ struct BudgetSpec {
     double dissipation_w_per_k = 0.0;  // thermistor dissipation constant, W/K; 0 = no self-heating
     std::uint64_t trials = 100'000;    // Monte Carlo trials; 0 = worst case only
     std::uint64_t seed = kDefaultSeed;
-    unsigned threads = 0;              // 0 = every core; the result does not depend on it
+    unsigned threads = 0;  // 0 = every core; the result does not depend on it
 };
 
 // Checks the spec against the circuit it will budget; throws InputError naming the flag.
@@ -110,8 +110,8 @@ struct BudgetSummary {
 };
 
 struct Budget {
-    Line line;                   // the nominal endpoint line of the reading against T (K)
-    double lsb = 0.0;            // one LSB in the reading's unit; 0 without a converter
+    Line line;         // the nominal endpoint line of the reading against T (K)
+    double lsb = 0.0;  // one LSB in the reading's unit; 0 without a converter
     std::vector<BudgetPoint> points;
     BudgetSummary summary;
 };

@@ -16,23 +16,23 @@
 namespace rtline {
 
 struct Constraints {
-    double max_power_w = std::numeric_limits<double>::infinity();        // thermistor dissipation
+    double max_power_w = std::numeric_limits<double>::infinity();         // thermistor dissipation
     double max_self_heating_k = std::numeric_limits<double>::infinity();  // needs dissipation_w_per_k
     double min_span = 0.0;         // |output(T_hi) − output(T_lo)|, output units
     double min_sensitivity = 0.0;  // smallest |d output/dT| over the span, output units per K
 };
 
 struct SizingSpec {
-    Circuit base;                      // topology, load and drive; its resistor values are ignored
+    Circuit base;  // topology, load and drive; its resistor values are ignored
     LineKind line = LineKind::endpoint;
-    double null_at_k = 0.0;            // bridges: temperature of zero output (r2 = r1, r3 from the model)
+    double null_at_k = 0.0;  // bridges: temperature of zero output (r2 = r1, r3 from the model)
     Series series = Series::e24;
-    double range_lo_ohm = 1.0;         // standard values and the continuous search stay in this range
+    double range_lo_ohm = 1.0;  // standard values and the continuous search stay in this range
     double range_hi_ohm = 10e6;
-    std::size_t top = 5;               // how many standard combinations to keep
+    std::size_t top = 5;  // how many standard combinations to keep
     Constraints constraints;
     double dissipation_w_per_k = 0.0;  // 0: unknown
-    std::size_t threads = 0;           // worker threads for large searches, 0: one per core (results do not depend on it)
+    std::size_t threads = 0;  // worker threads for large searches, 0: one per core (results do not depend on it)
 };
 
 // The resistors sizing chooses for a topology: rs; rp; rp, rs; r1; rp, r1 (bare: none).
@@ -46,9 +46,9 @@ struct Candidate {
     double output_span = 0.0;
     double sensitivity_min_per_k = 0.0;
     double sensitivity_max_per_k = 0.0;
-    double max_power_w = 0.0;  // NaN when the circuit has no drive
+    double max_power_w = 0.0;         // NaN when the circuit has no drive
     double max_self_heating_k = 0.0;  // NaN when unknown
-    bool ridge = false;  // continuous optimum of two resistors: other pairs give the same objective
+    bool ridge = false;               // continuous optimum of two resistors: other pairs give the same objective
 };
 
 // The circuit with the free resistors set to `values` (in free_resistors order), bridges completed.
@@ -73,7 +73,8 @@ struct InnerBest {
     double second_ohm = 0.0;
     double objective_pct_fsd = 0.0;
 };
-[[nodiscard]] InnerBest best_second(const SizingSpec& spec, const Grid& grid, const Thermistor& model, double first_ohm);
+[[nodiscard]] InnerBest best_second(const SizingSpec& spec, const Grid& grid, const Thermistor& model,
+                                    double first_ohm);
 
 // Closed forms for one-resistor topologies (Pallàs-Areny & Webster, Sensors and Signal Conditioning,
 // 2nd ed., ch. 2): the inflection value R = R_Tc·(B − 2Tc)/(B + 2Tc) at the span's centre, with the
@@ -83,8 +84,8 @@ struct ClosedForms {
     std::optional<double> inflection_ohm;
     std::optional<double> three_point_ohm;
     double centre_k = 0.0;
-    double local_b_k = 0.0;  // the B used for the inflection value
-    bool local_b = false;    // true when the model is not a beta model, so B is the local B at Tc
+    double local_b_k = 0.0;      // the B used for the inflection value
+    bool local_b = false;        // true when the model is not a beta model, so B is the local B at Tc
     bool load_included = false;  // the values account for base.load_ohm (dividers and the shunt)
     bool load_ignored = false;   // a loaded bridge: the values are for the unloaded bridge
 };
@@ -98,8 +99,8 @@ struct ClosedForms {
 [[nodiscard]] std::string failed_constraint(const SizingSpec& spec, const Candidate& c);
 
 struct StandardSearch {
-    std::vector<Candidate> best;            // at most spec.top, best first
-    std::size_t examined = 0;               // combinations evaluated
+    std::vector<Candidate> best;                               // at most spec.top, best first
+    std::size_t examined = 0;                                  // combinations evaluated
     std::vector<std::pair<std::string, std::size_t>> removed;  // constraint flag → candidates it removed
 };
 

@@ -57,9 +57,9 @@ public:
     explicit Thermistor(SteinhartHart m);
     explicit Thermistor(TableModel m);
 
-    [[nodiscard]] double resistance(double t_k) const;   // ohm
+    [[nodiscard]] double resistance(double t_k) const;     // ohm
     [[nodiscard]] double temperature(double r_ohm) const;  // K
-    [[nodiscard]] double alpha(double t_k) const;        // (1/R)·dR/dT, 1/K (negative for an NTC)
+    [[nodiscard]] double alpha(double t_k) const;          // (1/R)·dR/dT, 1/K (negative for an NTC)
     // The local B-value −alpha·T², K: equal to B everywhere for the beta model.
     [[nodiscard]] double local_beta(double t_k) const;
     [[nodiscard]] std::string kind() const;  // "beta", "steinhart-hart" or "table"

@@ -8,8 +8,8 @@
 
 namespace rtline {
 
-inline constexpr double kZeroCelsiusK = 273.15;   // 0 °C in kelvin (SI definition)
-inline constexpr double k25CelsiusK = 298.15;     // the usual reference temperature T0
+inline constexpr double kZeroCelsiusK = 273.15;  // 0 °C in kelvin (SI definition)
+inline constexpr double k25CelsiusK = 298.15;    // the usual reference temperature T0
 
 [[nodiscard]] constexpr double celsius_to_kelvin(double t_c) { return t_c + kZeroCelsiusK; }
 [[nodiscard]] constexpr double kelvin_to_celsius(double t_k) { return t_k - kZeroCelsiusK; }

@@ -25,8 +25,8 @@ struct BudgetOptions {
     std::string distribution = "normal";
     std::string reading = "model";
     std::string adc_bits;
-    std::string adc_error;  // LSB
-    std::string adc_ref;    // "excitation" or a voltage; default: the excitation voltage as a fixed reference
+    std::string adc_error;    // LSB
+    std::string adc_ref;      // "excitation" or a voltage; default: the excitation voltage as a fixed reference
     std::string dissipation;  // mW/K
     std::string trials = "100000";
     std::string seed;
@@ -35,13 +35,16 @@ struct BudgetOptions {
     std::string svg;  // --svg FILE
 };
 
-const char* const kDegC = "\xC2\xB0" "C";
+const char* const kDegC =
+    "\xC2\xB0"
+    "C";
 
 double parse_percent(const std::string& text, const std::string& flag) {
     std::string s = text;
     if (!s.empty() && s.back() == '%') s.pop_back();
     const double v = parse_number(s, flag);
-    if (!(v >= 0.0 && v < 100.0)) throw InputError(flag, text, "a tolerance must be at least 0 and below 100 (percent)");
+    if (!(v >= 0.0 && v < 100.0))
+        throw InputError(flag, text, "a tolerance must be at least 0 and below 100 (percent)");
     return v / 100.0;
 }
 
@@ -89,12 +92,13 @@ BudgetSpec build_spec(const BudgetOptions& o, const Circuit& circuit) {
             throw InputError("--adc-ref", o.adc_ref, "give excitation (ratiometric) or a positive voltage");
         }
         if (drive == Drive::ratiometric) {
-            throw InputError("--adc-ref", o.adc_ref, "a fixed reference needs a drive; give --excitation V or --current A");
+            throw InputError("--adc-ref", o.adc_ref,
+                             "a fixed reference needs a drive; give --excitation V or --current A");
         }
     }
     const bool volts = drive != Drive::ratiometric && !s.ratiometric;
-    s.tolerance.excitation = o.excitation_tol.empty() ? (volts ? 0.01 : 0.0)
-                                                      : parse_percent(o.excitation_tol, "--excitation-tol");
+    s.tolerance.excitation =
+        o.excitation_tol.empty() ? (volts ? 0.01 : 0.0) : parse_percent(o.excitation_tol, "--excitation-tol");
     if (!o.adc_bits.empty()) {
         s.adc.bits = static_cast<int>(parse_count(o.adc_bits, "--adc-bits", 1, 24, "a converter has 1 to 24 bits"));
         if (drive == Drive::current && o.adc_ref.empty()) {
@@ -105,7 +109,8 @@ BudgetSpec build_spec(const BudgetOptions& o, const Circuit& circuit) {
         std::string e = o.adc_error;
         if (e.size() > 3 && e.compare(e.size() - 3, 3, "LSB") == 0) e.resize(e.size() - 3);
         s.adc.error_lsb = parse_number(e, "--adc-error");
-        if (!(s.adc.error_lsb >= 0.0)) throw InputError("--adc-error", o.adc_error, "the converter error must be at least 0 LSB");
+        if (!(s.adc.error_lsb >= 0.0))
+            throw InputError("--adc-error", o.adc_error, "the converter error must be at least 0 LSB");
     }
     if (!o.dissipation.empty()) {
         s.dissipation_w_per_k = 1e-3 * parse_number(o.dissipation, "--dissipation");
@@ -141,16 +146,20 @@ std::string reading_description(const BudgetSpec& s, const Circuit& circuit, con
 
 std::string parts_description(const BudgetSpec& s, bool volts) {
     auto p = [](double f) { return "\xC2\xB1" + format_number(100.0 * f) + " %"; };
-    std::string t = "R25 " + p(s.tolerance.r25) + ", B " + p(s.tolerance.beta) + ", resistors " +
-                    p(s.tolerance.resistors);
+    std::string t =
+        "R25 " + p(s.tolerance.r25) + ", B " + p(s.tolerance.beta) + ", resistors " + p(s.tolerance.resistors);
     if (volts) t += ", excitation " + p(s.tolerance.excitation);
-    return t + (s.distribution == Distribution::normal ? " (normal, tolerance = 3 sigma)" : " (uniform over the tolerance)");
+    return t + (s.distribution == Distribution::normal ? " (normal, tolerance = 3 sigma)"
+                                                       : " (uniform over the tolerance)");
 }
 
 Json components_json(const BudgetComponents& k) {
-    return {{"nonlinearity", number(k.nonlinearity_k)}, {"r25", number(k.r25_k)},
-            {"beta", number(k.beta_k)},                 {"resistors", number(k.resistors_k)},
-            {"excitation", number(k.excitation_k)},     {"adc", number(k.adc_k)},
+    return {{"nonlinearity", number(k.nonlinearity_k)},
+            {"r25", number(k.r25_k)},
+            {"beta", number(k.beta_k)},
+            {"resistors", number(k.resistors_k)},
+            {"excitation", number(k.excitation_k)},
+            {"adc", number(k.adc_k)},
             {"self_heating", number(k.self_heating_k)}};
 }
 
@@ -175,10 +184,8 @@ Json budget_json(const Budget& b, const BudgetSpec& s, const Thermistor& model, 
                            {"excitation", volts ? Json(100.0 * s.tolerance.excitation) : Json(nullptr)}};
     a["r25_at_t_c"] = kelvin_to_celsius(tolerance_reference_k(model));
     if (s.adc.bits > 0) {
-        a["adc"] = {{"bits", s.adc.bits},
-                    {"error_lsb", s.adc.error_lsb},
-                    {"full_scale", s.adc.full_scale},
-                    {"lsb", b.lsb}};
+        a["adc"] = {
+            {"bits", s.adc.bits}, {"error_lsb", s.adc.error_lsb}, {"full_scale", s.adc.full_scale}, {"lsb", b.lsb}};
     } else {
         a["adc"] = nullptr;
     }
@@ -216,10 +223,22 @@ Json budget_json(const Budget& b, const BudgetSpec& s, const Thermistor& model, 
 }
 
 std::string budget_csv(const Budget& b) {
-    Table t({{"", "t_c"},           {"", "worst_case_c"},    {"", "nominal_error_c"}, {"", "mc_mean_c"},
-             {"", "mc_std_c"},      {"", "mc_p95_c"},        {"", "mc_p99_7_c"},      {"", "mc_max_abs_c"},
-             {"", "nonlinearity_c"}, {"", "r25_c"},          {"", "beta_c"},          {"", "resistors_c"},
-             {"", "excitation_c"},  {"", "adc_c"},           {"", "self_heating_c"},  {"", "resolution_c_per_lsb"}});
+    Table t({{"", "t_c"},
+             {"", "worst_case_c"},
+             {"", "nominal_error_c"},
+             {"", "mc_mean_c"},
+             {"", "mc_std_c"},
+             {"", "mc_p95_c"},
+             {"", "mc_p99_7_c"},
+             {"", "mc_max_abs_c"},
+             {"", "nonlinearity_c"},
+             {"", "r25_c"},
+             {"", "beta_c"},
+             {"", "resistors_c"},
+             {"", "excitation_c"},
+             {"", "adc_c"},
+             {"", "self_heating_c"},
+             {"", "resolution_c_per_lsb"}});
     for (const BudgetPoint& p : b.points) {
         const BudgetComponents& k = p.components;
         t.add_row({kelvin_to_celsius(p.t_k), p.worst_case_k, p.nominal_error_k, p.mc.mean_k, p.mc.std_k, p.mc.p95_k,
@@ -233,7 +252,7 @@ std::string budget_csv(const Budget& b) {
 std::string largest_cause(const BudgetPoint& p) {
     const BudgetComponents& k = p.components;
     const std::pair<const char*, double> causes[] = {
-        {"nonlinearity", k.nonlinearity_k}, {"thermistor R25", k.r25_k}, {"thermistor B-value", k.beta_k},
+        {"nonlinearity", k.nonlinearity_k}, {"thermistor R25", k.r25_k},    {"thermistor B-value", k.beta_k},
         {"fixed resistors", k.resistors_k}, {"excitation", k.excitation_k}, {"ADC", k.adc_k},
         {"self-heating", k.self_heating_k}};
     const char* name = "";
@@ -258,15 +277,17 @@ std::string budget_text(const Budget& b, const BudgetSpec& s, const Thermistor& 
          format_number(kelvin_to_celsius(tolerance_reference_k(model))) + " " + kDegC + "\n";
     if (s.adc.bits > 0) {
         t += "converter:    " + std::to_string(s.adc.bits) + " bits, 1 LSB = " + format_number(b.lsb, 4) + " " + unit +
-             "; quantization \xC2\xB1" "0.5 LSB" +
+             "; quantization \xC2\xB1"
+             "0.5 LSB" +
              (s.adc.error_lsb > 0.0 ? " + converter error \xC2\xB1" + format_number(s.adc.error_lsb) + " LSB" : "") +
              "\n";
     }
     if (s.dissipation_w_per_k > 0.0) {
         t += "self-heating: dissipation constant " + format_number(1e3 * s.dissipation_w_per_k) + " mW/K\n";
     }
-    t += "Monte Carlo:  " + (mc ? std::to_string(s.trials) + " trials, seed " + std::to_string(s.seed)
-                                : std::string("off (--trials 0)")) + "\n\n";
+    t += "Monte Carlo:  " +
+         (mc ? std::to_string(s.trials) + " trials, seed " + std::to_string(s.seed) : std::string("off (--trials 0)")) +
+         "\n\n";
 
     std::vector<Column> cols = {{"T" + deg, "", 2}, {"worst case" + deg, "", 4}};
     if (mc) {
@@ -316,8 +337,8 @@ std::string budget_text(const Budget& b, const BudgetSpec& s, const Thermistor& 
     t += "each cause alone (largest |change of error| over its tolerance):\n" + split.text() + "\n";
 
     const BudgetSummary& sm = b.summary;
-    t += "worst case over the span   " + format_fixed(sm.worst_case_k, 4) + " " + kDegC + " at " +
-         celsius(sm.at_t_k) + " " + kDegC + "\n";
+    t += "worst case over the span   " + format_fixed(sm.worst_case_k, 4) + " " + kDegC + " at " + celsius(sm.at_t_k) +
+         " " + kDegC + "\n";
     if (mc) {
         t += "99.7 % bound over the span " + format_fixed(sm.p99_7_k, 4) + " " + kDegC + " at " +
              celsius(sm.p99_7_at_t_k) + " " + kDegC + "\n";
@@ -352,7 +373,12 @@ void run_budget(const BudgetOptions& o) {
     }
     std::vector<Output> outputs{{o.out.output, bytes, "-o"}};
     if (!o.svg.empty()) {
-        outputs.push_back({o.svg, svg::render(budget_figure(thermistor, circuit, b, spec.distribution == Distribution::normal ? "normal, tolerance = 3 sigma" : "uniform over the tolerance")), "--svg"});
+        outputs.push_back(
+            {o.svg,
+             svg::render(budget_figure(thermistor, circuit, b,
+                                       spec.distribution == Distribution::normal ? "normal, tolerance = 3 sigma"
+                                                                                 : "uniform over the tolerance")),
+             "--svg"});
     }
     emit_all(outputs);
 }
@@ -396,14 +422,15 @@ void setup_budget(CLI::App& app) {
         ->group(mc);
     add_output_options(*sub, opt->out);
     add_svg_option(*sub, opt->svg);
-    sub->footer(std::string("Example:\n"
-                            "  rtline budget --r25 10k --beta 3950 --span 0:45 --step 5 --circuit divider-low --rs 10k\n"
-                            "  rtline budget --r25 10k --beta 3950 --span -20:60 --step 10 --circuit divider-low --rs 10k "
-                            "--excitation 3.3 --adc-ref excitation --adc-bits 12 --adc-error 2 --dissipation 1.5 "
-                            "--reading line\n"
-                            "Errors are the temperature the firmware reads minus the true one. The worst case spans "
-                            "every tolerance at once; each cause alone shows which part to buy better.\n\n") +
-                kSafetyNote);
+    sub->footer(
+        std::string("Example:\n"
+                    "  rtline budget --r25 10k --beta 3950 --span 0:45 --step 5 --circuit divider-low --rs 10k\n"
+                    "  rtline budget --r25 10k --beta 3950 --span -20:60 --step 10 --circuit divider-low --rs 10k "
+                    "--excitation 3.3 --adc-ref excitation --adc-bits 12 --adc-error 2 --dissipation 1.5 "
+                    "--reading line\n"
+                    "Errors are the temperature the firmware reads minus the true one. The worst case spans "
+                    "every tolerance at once; each cause alone shows which part to buy better.\n\n") +
+        kSafetyNote);
     sub->callback([opt] { run_budget(*opt); });
 }
 

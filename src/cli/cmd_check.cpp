@@ -87,21 +87,34 @@ void run_check(const CheckCommand& o) {
         bytes = dump(doc);
     } else {
         const bool csv = format == Format::csv;
-        std::vector<Column> columns{{"T (\xC2\xB0" "C)", "t_c", 2},
+        std::vector<Column> columns{{"T (\xC2\xB0"
+                                     "C)",
+                                     "t_c", 2},
                                     {"R_T (ohm)", "r_t_ohm", -1, 6},
                                     {"output (" + unit + ")", "output", -1, 6},
                                     {"ideal (" + unit + ")", "ideal", -1, 6},
                                     {"deviation (" + unit + ")", "deviation", -1, 4},
                                     {"nonlinearity (%FSD)", "nonlinearity_pct_fsd", 3},
-                                    {"error (\xC2\xB0" "C)", "error_c", 3},
-                                    {csv ? "power (W)" : ratiometric ? "power at 1 V (mW)" : "power (mW)", "power_w", -1, 4},
+                                    {"error (\xC2\xB0"
+                                     "C)",
+                                     "error_c", 3},
+                                    {csv           ? "power (W)"
+                                     : ratiometric ? "power at 1 V (mW)"
+                                                   : "power (mW)",
+                                     "power_w", -1, 4},
                                     {"self-heating (K)", "self_heating_k", 4}};
         // CSV has no place for a title, so each row names the line its ideal and deviation refer to.
         if (csv) columns.push_back({"line", "line"});
         Table table(columns);
         for (const PointResult& p : a.points) {
-            std::vector<Cell> row{kelvin_to_celsius(p.t_k), p.r_t_ohm, p.output, p.ideal, p.deviation,
-                                  p.nonlinearity_pct_fsd, p.error_k, csv ? p.power_w : 1e3 * p.power_w,
+            std::vector<Cell> row{kelvin_to_celsius(p.t_k),
+                                  p.r_t_ohm,
+                                  p.output,
+                                  p.ideal,
+                                  p.deviation,
+                                  p.nonlinearity_pct_fsd,
+                                  p.error_k,
+                                  csv ? p.power_w : 1e3 * p.power_w,
                                   p.self_heating_k};
             if (csv) row.emplace_back(std::string(line_name(line)));
             table.add_row(std::move(row));
@@ -113,8 +126,13 @@ void run_check(const CheckCommand& o) {
             std::string t = "model:   " + describe_model(thermistor) + "\n" + "circuit: " + describe_circuit(circuit) +
                             "\n" + "line:    " + line_description(line) + "\n\n" + table.text() + "\n";
             t += "largest |nonlinearity|  " + format_fixed(s.max_nonlinearity_pct_fsd, 3) + " %FSD at " +
-                 celsius(s.at_t_k) + " \xC2\xB0" "C (against the " + std::string(line_name(line)) + " line)\n";
-            t += "largest |error|         " + format_fixed(s.max_error_k, 3) + " \xC2\xB0" "C\n";
+                 celsius(s.at_t_k) +
+                 " \xC2\xB0"
+                 "C (against the " +
+                 std::string(line_name(line)) + " line)\n";
+            t += "largest |error|         " + format_fixed(s.max_error_k, 3) +
+                 " \xC2\xB0"
+                 "C\n";
             t += "output span             " + format_number(s.output_span, 5) + " " + unit + "\n";
             t += "sensitivity             " + format_number(s.sensitivity_min_per_k, 4) + " to " +
                  format_number(s.sensitivity_max_per_k, 4) + " " + unit + " per K\n";

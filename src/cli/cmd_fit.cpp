@@ -45,8 +45,8 @@ std::pair<Json, std::string> other_fit(const char* kind, const char* name, MaxRe
     try {
         const double max_k = max_residual_k();
         return {Json{{"kind", kind}, {"max_residual_mk", 1e3 * max_k}},
-                std::string("a ") + name + " fit to the same points: largest |residual| " + format_fixed(1e3 * max_k, 2) +
-                    " mK\n"};
+                std::string("a ") + name + " fit to the same points: largest |residual| " +
+                    format_fixed(1e3 * max_k, 2) + " mK\n"};
     } catch (const InputError& e) {
         return {Json(), std::string("a ") + name + " fit to the same points is not possible: " + e.why() + "\n"};
     }
@@ -73,10 +73,11 @@ void run_fit(const FitCommand& o) {
         residuals = fit.residuals;
         max_residual_k = fit.max_residual_k;
         model = model_json(Thermistor(fit.model));
-        heading = "Steinhart-Hart fit to " + std::to_string(pts.size()) + " points (" +
-                  (pts.size() == 3 ? "exact through three points" : "least squares, weighted for temperature residuals") +
-                  ")\n  A = " + format_number(fit.model.a, 10) + "\n  B = " + format_number(fit.model.b, 10) +
-                  "\n  C = " + format_number(fit.model.c, 10) + "\n";
+        heading =
+            "Steinhart-Hart fit to " + std::to_string(pts.size()) + " points (" +
+            (pts.size() == 3 ? "exact through three points" : "least squares, weighted for temperature residuals") +
+            ")\n  A = " + format_number(fit.model.a, 10) + "\n  B = " + format_number(fit.model.b, 10) +
+            "\n  C = " + format_number(fit.model.c, 10) + "\n";
         std::tie(alternative, comparison) =
             other_fit("beta", "beta", [&] { return fit_beta(pts, t0_k).max_residual_k; });
     } else {
@@ -85,12 +86,16 @@ void run_fit(const FitCommand& o) {
         residuals = fit.residuals;
         max_residual_k = fit.max_residual_k;
         model = model_json(Thermistor(fit.model));
-        heading = "beta fit to " + std::to_string(pts.size()) + " points (least squares, weighted for temperature residuals)\n" +
-                  "  R0 = " + format_resistance(fit.model.r0_ohm, 6) + " ohm at " + format_number(kelvin_to_celsius(t0_k)) +
-                  " \xC2\xB0" "C\n  B = " + format_number(fit.model.b_k, 7) + " K\n";
+        heading = "beta fit to " + std::to_string(pts.size()) +
+                  " points (least squares, weighted for temperature residuals)\n" +
+                  "  R0 = " + format_resistance(fit.model.r0_ohm, 6) + " ohm at " +
+                  format_number(kelvin_to_celsius(t0_k)) +
+                  " \xC2\xB0"
+                  "C\n  B = " +
+                  format_number(fit.model.b_k, 7) + " K\n";
         if (pts.size() >= 3) {
-            std::tie(alternative, comparison) = other_fit(
-                "steinhart-hart", "Steinhart-Hart", [&] { return fit_steinhart_hart(pts).max_residual_k; });
+            std::tie(alternative, comparison) =
+                other_fit("steinhart-hart", "Steinhart-Hart", [&] { return fit_steinhart_hart(pts).max_residual_k; });
         }
     }
 
@@ -103,14 +108,21 @@ void run_fit(const FitCommand& o) {
         if (!alternative.is_null()) doc["alternative"] = alternative;
         bytes = dump(doc);
     } else {
-        Table table({{"T (\xC2\xB0" "C)", "t_c", 2}, {"R (ohm)", "r_ohm", -1, 7}, {"residual (mK)", "residual_mk", 3}});
+        Table table({{"T (\xC2\xB0"
+                      "C)",
+                      "t_c", 2},
+                     {"R (ohm)", "r_ohm", -1, 7},
+                     {"residual (mK)", "residual_mk", 3}});
         for (const Residual& r : residuals) table.add_row({kelvin_to_celsius(r.t_k), r.r_ohm, 1e3 * r.residual_k});
         if (format == Format::csv) {
             bytes = table.csv();
         } else {
             const Residual& w = worst(residuals);
-            bytes = heading + "\nresidual = T(model at R) - T(point)\n" + table.text() + "\nlargest |residual|: " +
-                    format_fixed(1e3 * max_residual_k, 3) + " mK at " + celsius(w.t_k) + " \xC2\xB0" "C\n" + comparison;
+            bytes = heading + "\nresidual = T(model at R) - T(point)\n" + table.text() +
+                    "\nlargest |residual|: " + format_fixed(1e3 * max_residual_k, 3) + " mK at " + celsius(w.t_k) +
+                    " \xC2\xB0"
+                    "C\n" +
+                    comparison;
         }
     }
     emit(o.out.output, bytes);

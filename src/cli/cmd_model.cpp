@@ -36,7 +36,9 @@ void run_model(const ModelCommand& o) {
         doc["points"] = pts;
         bytes = dump(doc);
     } else {
-        Table table({{"T (\xC2\xB0" "C)", "t_c", 2},
+        Table table({{"T (\xC2\xB0"
+                      "C)",
+                      "t_c", 2},
                      {"R (ohm)", "r_ohm", -1, 6},
                      {"alpha (%/K)", "alpha_per_k", 3},
                      {"local B (K)", "local_b_k", 1}});
@@ -45,7 +47,8 @@ void run_model(const ModelCommand& o) {
             if (format == Format::csv) {
                 table.add_row({kelvin_to_celsius(t), grid.r_ohm[i], thermistor.alpha(t), thermistor.local_beta(t)});
             } else {
-                table.add_row({kelvin_to_celsius(t), grid.r_ohm[i], 100.0 * thermistor.alpha(t), thermistor.local_beta(t)});
+                table.add_row(
+                    {kelvin_to_celsius(t), grid.r_ohm[i], 100.0 * thermistor.alpha(t), thermistor.local_beta(t)});
             }
         }
         if (format == Format::csv) {

@@ -144,14 +144,18 @@ Table candidate_table(const std::vector<Candidate>& cs, const std::string& unit,
                       bool self_heating) {
     std::vector<Column> cols;
     if (with_topology) cols.push_back({"circuit", "topology"});
-    const std::vector<std::string> names = cs.empty() ? std::vector<std::string>{} : free_resistors(cs.front().circuit.topology);
+    const std::vector<std::string> names =
+        cs.empty() ? std::vector<std::string>{} : free_resistors(cs.front().circuit.topology);
     if (csv) {
         for (const std::string& n : names) cols.push_back({n, n + "_ohm"});
     } else {
         cols.push_back({"resistors", "resistors"});
     }
     cols.push_back({"nonlinearity (%FSD)", "max_nonlinearity_pct_fsd", 3});
-    cols.push_back({"error (\xC2\xB0" "C)", "max_error_c", 3});
+    cols.push_back(
+        {"error (\xC2\xB0"
+         "C)",
+         "max_error_c", 3});
     cols.push_back({"span (" + unit + ")", "output_span", -1, 4});
     cols.push_back({"min sens (" + unit + "/K)", "sensitivity_min_per_k", -1, 4});
     cols.push_back({"max sens (" + unit + "/K)", "sensitivity_max_per_k", -1, 4});
@@ -188,12 +192,13 @@ Table candidate_table(const std::vector<Candidate>& cs, const std::string& unit,
     for (const auto& r : s.removed) {
         if (r.second > 0 && r.first != worst.first) others += "; " + r.first + " removed " + std::to_string(r.second);
     }
-    std::string msg = "no " + std::string(series_name(spec.series)) + " combination " + (what.empty() ? "" : what + " ") +
-                      "meets the constraints";
+    std::string msg = "no " + std::string(series_name(spec.series)) + " combination " +
+                      (what.empty() ? "" : what + " ") + "meets the constraints";
     if (worst.second == 0 && what.empty()) {
         // One topology, and no constraint removed any: every combination left the output unchanged.
         const std::vector<double> values = series_values(spec.series, spec.range_lo_ohm, spec.range_hi_ohm);
-        msg = "no " + std::string(series_name(spec.series)) + " combination gives an output that changes over the span; the values searched run from " +
+        msg = "no " + std::string(series_name(spec.series)) +
+              " combination gives an output that changes over the span; the values searched run from " +
               format_resistance(values.front()) + " to " + format_resistance(values.back()) +
               " ohm, out of reach of the thermistor";
     } else {
@@ -221,14 +226,17 @@ std::string span_warning(const Candidate& c) {
     if (gives_resistance(c.circuit.topology) || e.drive == Drive::current) return "";
     const double full = e.drive == Drive::voltage ? e.value : 1.0;
     if (c.output_span >= 0.1 * full) return "";
-    return "warning: the output span is only " + format_number(c.output_span, 3) + " " +
-           output_unit(c.circuit) + ", below 10 % of the excitation; consider --min-span";
+    return "warning: the output span is only " + format_number(c.output_span, 3) + " " + output_unit(c.circuit) +
+           ", below 10 % of the excitation; consider --min-span";
 }
 
 std::string header_text(const Setup& s, const SizeCommand& o, const std::string& topology_text) {
-    return "model:   " + describe_model(s.model) + "\n" + "circuit: " + topology_text + "\n" + "span:    " +
-           format_number(kelvin_to_celsius(s.span.lo_k)) + " to " + format_number(kelvin_to_celsius(s.span.hi_k)) +
-           " \xC2\xB0" "C, " + std::to_string(s.grid.size()) + " points; objective: largest |nonlinearity| against the " +
+    return "model:   " + describe_model(s.model) + "\n" + "circuit: " + topology_text + "\n" +
+           "span:    " + format_number(kelvin_to_celsius(s.span.lo_k)) + " to " +
+           format_number(kelvin_to_celsius(s.span.hi_k)) +
+           " \xC2\xB0"
+           "C, " +
+           std::to_string(s.grid.size()) + " points; objective: largest |nonlinearity| against the " +
            std::string(line_name(s.spec.line)) + " line\n" + "values:  " + std::string(series_name(s.spec.series)) +
            " from " + format_resistance(s.spec.range_lo_ohm) + " to " + format_resistance(s.spec.range_hi_ohm) +
            " ohm" + (o.range == "1:10M" ? " (the default range)" : "") + "\n";
@@ -237,8 +245,8 @@ std::string header_text(const Setup& s, const SizeCommand& o, const std::string&
 Json header_json(const Setup& s, const std::string& command) {
     Json doc = document(command);
     doc["model"] = model_json(s.model);
-    doc["span"] = {{"lo_c", kelvin_to_celsius(s.span.lo_k)}, {"hi_c", kelvin_to_celsius(s.span.hi_k)},
-                   {"points", s.grid.size()}};
+    doc["span"] = {
+        {"lo_c", kelvin_to_celsius(s.span.lo_k)}, {"hi_c", kelvin_to_celsius(s.span.hi_k)}, {"points", s.grid.size()}};
     doc["line"] = std::string(line_name(s.spec.line));
     doc["series"] = std::string(series_name(s.spec.series));
     doc["range_ohm"] = {{"lo", s.spec.range_lo_ohm}, {"hi", s.spec.range_hi_ohm}};
@@ -331,34 +339,48 @@ std::string run_compare(const SizeCommand& o, Setup& s, Format format) {
     // Units differ between topologies (ohm for shunt, V/V for dividers): the table names them per row.
     const bool csv = format == Format::csv;
     if (csv) {
-        Table t({{"", "topology"}, {"", "rs_ohm"}, {"", "rp_ohm"}, {"", "r1_ohm"}, {"", "max_nonlinearity_pct_fsd"},
-                 {"", "max_error_c"}, {"", "output_span"}, {"", "output_unit"}, {"", "max_power_w"}});
+        Table t({{"", "topology"},
+                 {"", "rs_ohm"},
+                 {"", "rp_ohm"},
+                 {"", "r1_ohm"},
+                 {"", "max_nonlinearity_pct_fsd"},
+                 {"", "max_error_c"},
+                 {"", "output_span"},
+                 {"", "output_unit"},
+                 {"", "max_power_w"}});
         for (const Candidate& c : rows) {
             auto value = [&](const char* n) {
                 const auto names = free_resistors(c.circuit.topology);
                 return std::find(names.begin(), names.end(), n) == names.end() ? NAN : resistor_value(c.circuit, n);
             };
             t.add_row({std::string(topology_name(c.circuit.topology)), value("rs"), value("rp"), value("r1"),
-                       c.max_nonlinearity_pct_fsd, c.max_error_k, c.output_span, output_unit(c.circuit), c.max_power_w});
+                       c.max_nonlinearity_pct_fsd, c.max_error_k, c.output_span, output_unit(c.circuit),
+                       c.max_power_w});
         }
         return t.csv();
     }
-    Table t({{"circuit", "topology"},
-             {"resistors", "resistors"},
-             {"nonlinearity (%FSD)", "max_nonlinearity_pct_fsd", 3},
-             {"error (\xC2\xB0" "C)", "max_error_c", 3},
-             {"span", "output_span", -1, 4},
-             {"unit", "output_unit"},
-             {drive.excitation.drive == Drive::ratiometric ? "power at 1 V (mW)" : "power (mW)", "max_power_w", -1, 4}});
+    Table t(
+        {{"circuit", "topology"},
+         {"resistors", "resistors"},
+         {"nonlinearity (%FSD)", "max_nonlinearity_pct_fsd", 3},
+         {"error (\xC2\xB0"
+          "C)",
+          "max_error_c", 3},
+         {"span", "output_span", -1, 4},
+         {"unit", "output_unit"},
+         {drive.excitation.drive == Drive::ratiometric ? "power at 1 V (mW)" : "power (mW)", "max_power_w", -1, 4}});
     for (const Candidate& c : rows) {
-        t.add_row({std::string(topology_name(c.circuit.topology)), resistors_text(c.circuit, 4), c.max_nonlinearity_pct_fsd,
-                   c.max_error_k, c.output_span, output_unit(c.circuit), 1e3 * c.max_power_w});
+        t.add_row({std::string(topology_name(c.circuit.topology)), resistors_text(c.circuit, 4),
+                   c.max_nonlinearity_pct_fsd, c.max_error_k, c.output_span, output_unit(c.circuit),
+                   1e3 * c.max_power_w});
     }
-    std::string text = header_text(s, o, "every topology, best " + std::string(series_name(s.spec.series)) + " values each") +
-                       "\n" + t.text();
+    std::string text =
+        header_text(s, o, "every topology, best " + std::string(series_name(s.spec.series)) + " values each") + "\n" +
+        t.text();
     for (const std::string& k : skipped) text += "skipped: " + k + "\n";
     for (const Candidate& c : rows) {
-        if (const std::string w = span_warning(c); !w.empty()) text += std::string(topology_name(c.circuit.topology)) + ": " + w + "\n";
+        if (const std::string w = span_warning(c); !w.empty())
+            text += std::string(topology_name(c.circuit.topology)) + ": " + w + "\n";
     }
     return text;
 }
@@ -397,8 +419,9 @@ void run_size(const SizeCommand& o) {
 
     if (o.tradeoff) {
         if (names.size() != 1) {
-            throw InputError("--tradeoff", o.circuit.circuit, "applies to one-resistor topologies (divider-high, "
-                                                              "divider-low, shunt, bridge)");
+            throw InputError("--tradeoff", o.circuit.circuit,
+                             "applies to one-resistor topologies (divider-high, "
+                             "divider-low, shunt, bridge)");
         }
         const std::vector<Candidate> front = tradeoff(s.spec, s.grid, s.model);
         if (front.empty()) infeasible(s.spec, search_standard(s.spec, s.grid, s.model), "");  // for its counts
@@ -477,17 +500,24 @@ void run_size(const SizeCommand& o) {
         }
         if (one) {
             const std::string& r = names.front();
-            const std::string b_note = cf.local_b ? " with the model's local B there (" + format_number(cf.local_b_k, 5) + " K)" : "";
+            const std::string b_note =
+                cf.local_b ? " with the model's local B there (" + format_number(cf.local_b_k, 5) + " K)" : "";
             t += std::string("closed forms (Pallas-Areny & Webster, ch. 2)") +
-                 (cf.load_included ? ", converted for the load:\n"
-                                   : cf.load_ignored ? ", for the unloaded bridge:\n" : ":\n");
+                 (cf.load_included  ? ", converted for the load:\n"
+                  : cf.load_ignored ? ", for the unloaded bridge:\n"
+                                    : ":\n");
             const bool b_ok = cf.local_b_k > 2.0 * cf.centre_k;
-            t += "  inflection at " + format_number(kelvin_to_celsius(cf.centre_k)) + " \xC2\xB0" "C" + b_note + "   " +
+            t += "  inflection at " + format_number(kelvin_to_celsius(cf.centre_k)) +
+                 " \xC2\xB0"
+                 "C" +
+                 b_note + "   " +
                  (cf.inflection_ohm ? r + " = " + format_resistance(*cf.inflection_ohm, 5)
                                     : std::string(b_ok ? "none: the load is not above the unloaded value"
-                                                       : "none: B <= 2*Tc there")) + "\n";
+                                                       : "none: B <= 2*Tc there")) +
+                 "\n";
             t += "  three-point (ends and centre)   " +
-                 (cf.three_point_ohm ? r + " = " + format_resistance(*cf.three_point_ohm, 5) : std::string("none")) + "\n";
+                 (cf.three_point_ohm ? r + " = " + format_resistance(*cf.three_point_ohm, 5) : std::string("none")) +
+                 "\n";
         }
         t += "\nbest " + std::string(series_name(s.spec.series)) + " values (" + std::to_string(found.examined) +
              " combinations examined, exhaustively)\n" + candidate_table(found.best, unit, false, false, heat).text();
@@ -531,17 +561,19 @@ void setup_size(CLI::App& app) {
     sub->add_option("--dissipation", opt->dissipation, "Thermistor dissipation constant, mW/K")->group("Constraints");
     sub->add_option("--min-span", opt->min_span, "Smallest output span, output units (V/V ratiometric)")
         ->group("Constraints");
-    sub->add_option("--min-sensitivity", opt->min_sensitivity, "Smallest |d output/dT| over the span, output units per K")
+    sub->add_option("--min-sensitivity", opt->min_sensitivity,
+                    "Smallest |d output/dT| over the span, output units per K")
         ->group("Constraints");
     add_output_options(*sub, opt->out);
     add_svg_option(*sub, opt->svg);
-    sub->footer(std::string("Examples:\n"
-                            "  rtline size --r25 10k --beta 3950 --span 0:45 --circuit divider-low\n"
-                            "  rtline size --r25 10k --beta 3950 --span -20:60 --circuit shunt-divider --series E96 "
-                            "--min-span 0.3\n"
-                            "  rtline size --r25 10k --beta 3950 --span -30:5 --compare --excitation 3.3 --max-power 1m\n"
-                            "\n") +
-                kSafetyNote);
+    sub->footer(
+        std::string("Examples:\n"
+                    "  rtline size --r25 10k --beta 3950 --span 0:45 --circuit divider-low\n"
+                    "  rtline size --r25 10k --beta 3950 --span -20:60 --circuit shunt-divider --series E96 "
+                    "--min-span 0.3\n"
+                    "  rtline size --r25 10k --beta 3950 --span -30:5 --compare --excitation 3.3 --max-power 1m\n"
+                    "\n") +
+        kSafetyNote);
     sub->callback([opt] { run_size(*opt); });
 }
 

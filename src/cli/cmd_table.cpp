@@ -19,21 +19,23 @@ struct TableCommand {
     ModelOptions model;
     SpanOptions span;
     CircuitOptions circuit;
-    std::string adc_bits = "12";    // ADC resolution, bits
-    std::string entries;            // table breakpoints (default 17 unless --max-error searches)
-    std::string spacing = "code";   // code | error
-    std::string degree;             // polynomial degree; empty: no polynomial, or searched by --max-error
-    std::string fit;                // least-squares (default) | minimax
-    std::string max_error;          // °C
-    std::string unit = "0.01";      // °C per count of the fixed-point table
-    std::string emit;               // "c": a C99 header instead of the report
-    std::string prefix;             // C name prefix (default "ntc_")
+    std::string adc_bits = "12";   // ADC resolution, bits
+    std::string entries;           // table breakpoints (default 17 unless --max-error searches)
+    std::string spacing = "code";  // code | error
+    std::string degree;            // polynomial degree; empty: no polynomial, or searched by --max-error
+    std::string fit;               // least-squares (default) | minimax
+    std::string max_error;         // °C
+    std::string unit = "0.01";     // °C per count of the fixed-point table
+    std::string emit;              // "c": a C99 header instead of the report
+    std::string prefix;            // C name prefix (default "ntc_")
     OutputOptions out;
-    std::string svg;                // --svg FILE
+    std::string svg;  // --svg FILE
 };
 
 constexpr std::size_t kDefaultEntries = 17;  // 16 segments: common practice, no formal source
-const char* const kDeg = "\xC2\xB0" "C";
+const char* const kDeg =
+    "\xC2\xB0"
+    "C";
 
 long long whole_number(const std::string& text, const std::string& field, const std::string& what) {
     const double v = parse_number(text, field);
@@ -45,14 +47,16 @@ int parse_scale(const std::string& text) {
     const double u = parse_number(text, "--unit");
     if (std::abs(u - 0.1) < 1e-12) return 10;
     if (std::abs(u - 0.01) < 1e-12) return 100;
-    throw InputError("--unit", text, "choose 0.1 or 0.01 (\xC2\xB0" "C per count of the fixed-point table)");
+    throw InputError("--unit", text,
+                     "choose 0.1 or 0.01 (\xC2\xB0"
+                     "C per count of the fixed-point table)");
 }
 
 std::string convention(const CodeMap& map) {
     const std::string full = std::to_string(1LL << map.adc_bits);
     return "ratiometric: code k is the output ratio k/" + full +
-           " of the ADC reference, which is the circuit's excitation; codes outside " +
-           std::to_string(map.code_lo) + ".." + std::to_string(map.code_hi) + " read as the nearer end";
+           " of the ADC reference, which is the circuit's excitation; codes outside " + std::to_string(map.code_lo) +
+           ".." + std::to_string(map.code_hi) + " read as the nearer end";
 }
 
 // The convention as two short lines for text and the C header; `deg` spells the degree sign.
@@ -128,7 +132,8 @@ std::string json_report(const Result& r) {
     doc["entries"] = r.table.codes.size();
     Json rows = Json::array();
     for (std::size_t i = 0; i < r.table.codes.size(); ++i) {
-        rows.push_back({{"code", r.table.codes[i]}, {"t_c", kelvin_to_celsius(r.table.t_k[i])}, {"t_fixed", r.fixed.t[i]}});
+        rows.push_back(
+            {{"code", r.table.codes[i]}, {"t_c", kelvin_to_celsius(r.table.t_k[i])}, {"t_fixed", r.fixed.t[i]}});
     }
     doc["table"] = rows;
     doc["max_error_c"] = r.table.max_error_k;
@@ -142,7 +147,8 @@ std::string json_report(const Result& r) {
 }
 
 Table breakpoint_table(const Result& r) {
-    Table table({{"code", "code", 0}, {std::string("T (") + kDeg + ")", "t_c", 3},
+    Table table({{"code", "code", 0},
+                 {std::string("T (") + kDeg + ")", "t_c", 3},
                  {"T (" + unit_text(r.fixed) + " " + kDeg + ")", "t_fixed", 0}});
     for (std::size_t i = 0; i < r.table.codes.size(); ++i) {
         table.add_row({static_cast<double>(r.table.codes[i]), kelvin_to_celsius(r.table.t_k[i]),
@@ -177,10 +183,12 @@ std::string text_report(const Result& r) {
     if (r.polynomial) {
         const Polynomial& p = *r.polynomial;
         t += "\npolynomial:  " + std::string(fit_name(p.fit)) + ", degree " + std::to_string(p.degree) +
-             (r.degree_searched ? " (the lowest that meets " + format_number(*r.max_error_k, 4) + " " + kDeg + ")" : "") +
+             (r.degree_searched ? " (the lowest that meets " + format_number(*r.max_error_k, 4) + " " + kDeg + ")"
+                                : "") +
              ", T(x) = sum of c_i x^i in " + kDeg + ", " + x_definition(p) + "\n";
         const std::vector<double> c = coefficients_c(p);
-        for (std::size_t i = 0; i < c.size(); ++i) t += "  c" + std::to_string(i) + " = " + format_number(c[i], 12) + "\n";
+        for (std::size_t i = 0; i < c.size(); ++i)
+            t += "  c" + std::to_string(i) + " = " + format_number(c[i], 12) + "\n";
         t += "largest polynomial error     " + format_fixed(p.max_error_k, 4) + " " + kDeg + " " + at(m, p.at_code) +
              "\n";
     }
@@ -216,7 +224,8 @@ std::string c_report(const Result& r, const std::string& prefix) {
                             format_fixed(r.polynomial->max_error_k, 4) + " degC at code " +
                             std::to_string(r.polynomial->at_code));
     }
-    h.comment.insert(h.comment.end(), {"", "rtline is not a protective device; verify the design with measured parts."});
+    h.comment.insert(h.comment.end(),
+                     {"", "rtline is not a protective device; verify the design with measured parts."});
     return c_header(h);
 }
 
@@ -271,7 +280,9 @@ void run_table(const TableCommand& o) {
     std::optional<double> target_k;
     if (!o.max_error.empty()) {
         const double c = parse_number(o.max_error, "--max-error");
-        if (!(c > 0.0)) throw InputError("--max-error", o.max_error, "the largest error must be positive (" + std::string(kDeg) + ")");
+        if (!(c > 0.0))
+            throw InputError("--max-error", o.max_error,
+                             "the largest error must be positive (" + std::string(kDeg) + ")");
         if (entries && (!want_poly || degree)) {
             throw InputError("--max-error", o.max_error,
                              "nothing left to choose; leave out --entries (and --degree) to find the smallest");
@@ -314,7 +325,9 @@ void run_table(const TableCommand& o) {
     }
     std::vector<Output> outputs{{o.out.output, bytes, "-o"}};
     if (!o.svg.empty()) {
-        outputs.push_back({o.svg, svg::render(table_figure(r.thermistor, r.circuit, r.map, r.table, r.polynomial, r.max_error_k)), "--svg"});
+        outputs.push_back(
+            {o.svg, svg::render(table_figure(r.thermistor, r.circuit, r.map, r.table, r.polynomial, r.max_error_k)),
+             "--svg"});
     }
     emit_all(outputs);
 }

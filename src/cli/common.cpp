@@ -8,8 +8,8 @@
 #include <sstream>
 
 #include "rtline/error.hpp"
-#include "rtline/rtcsv.hpp"
 #include "rtline/fit.hpp"
+#include "rtline/rtcsv.hpp"
 
 namespace rtline::cli {
 
@@ -38,8 +38,7 @@ std::string read_text(const std::string& path, const std::string& field) {
     }
 }
 
-double optional_quantity(const std::string& text, const std::string& field, const std::string& unit,
-                         double fallback) {
+double optional_quantity(const std::string& text, const std::string& field, const std::string& unit, double fallback) {
     if (text.empty()) return fallback;
     const double v = parse_quantity(text, field, unit);
     if (!(v > 0.0)) throw InputError(field, text, "must be positive");
@@ -115,7 +114,8 @@ Thermistor build_model(const ModelOptions& o) {
     const std::vector<RtPoint> pts = read_rt_points(read_text(o.points, "--points"), source);
     const std::string kind = o.model.empty() ? "sh" : o.model;
     if (kind == "sh") return Thermistor(fit_steinhart_hart(validate_points(pts, 3, source)).model);
-    if (kind == "beta") return Thermistor(fit_beta(validate_points(pts, 2, source), parse_temperature(o.t0, "--t0")).model);
+    if (kind == "beta")
+        return Thermistor(fit_beta(validate_points(pts, 2, source), parse_temperature(o.t0, "--t0")).model);
     if (kind == "table") return Thermistor(TableModel(validate_points(pts, 2, source)));
     throw InputError("--model", o.model, "unknown model; choose sh, beta or table");
 }
@@ -124,8 +124,11 @@ std::string describe_model(const Thermistor& t) {
     const auto& m = t.model();
     if (const auto* b = std::get_if<BetaModel>(&m)) {
         const bool at25 = std::abs(b->t0_k - k25CelsiusK) < 1e-9;
-        return std::string("beta model: ") + (at25 ? "R25" : "R0") + " = " + format_resistance(b->r0_ohm, 6) +
-               " ohm" + (at25 ? "" : " at " + format_number(kelvin_to_celsius(b->t0_k)) + " \xC2\xB0" "C") +
+        return std::string("beta model: ") + (at25 ? "R25" : "R0") + " = " + format_resistance(b->r0_ohm, 6) + " ohm" +
+               (at25 ? ""
+                     : " at " + format_number(kelvin_to_celsius(b->t0_k)) +
+                           " \xC2\xB0"
+                           "C") +
                ", B = " + format_number(b->b_k, 6) + " K";
     }
     if (const auto* s = std::get_if<SteinhartHart>(&m)) {
@@ -135,7 +138,8 @@ std::string describe_model(const Thermistor& t) {
     const auto& tab = std::get<TableModel>(m);
     return "table model: " + std::to_string(tab.points().size()) + " R-T points from " +
            format_number(kelvin_to_celsius(tab.t_min_k())) + " to " + format_number(kelvin_to_celsius(tab.t_max_k())) +
-           " \xC2\xB0" "C, monotone cubic in ln R against 1/T";
+           " \xC2\xB0"
+           "C, monotone cubic in ln R against 1/T";
 }
 
 Json model_json(const Thermistor& t) {
@@ -296,7 +300,9 @@ std::string describe_circuit(const Circuit& c) {
     }
     if (std::isfinite(c.load_ohm)) s += ", load = " + format_resistance(c.load_ohm, 6);
     switch (c.excitation.drive) {
-        case Drive::ratiometric: s += gives_resistance(c.topology) ? "; output in ohm" : "; ratiometric output (V/V)"; break;
+        case Drive::ratiometric:
+            s += gives_resistance(c.topology) ? "; output in ohm" : "; ratiometric output (V/V)";
+            break;
         case Drive::voltage: s += "; excitation " + format_number(c.excitation.value) + " V"; break;
         case Drive::current: s += "; current drive " + format_number(c.excitation.value) + " A"; break;
     }

@@ -17,12 +17,12 @@ namespace rtline::cli {
 extern const char* const kSafetyNote;
 
 struct ModelOptions {
-    std::string r25;     // resistance at T0, e.g. "10k"
-    std::string beta;    // B-value, K
+    std::string r25;        // resistance at T0, e.g. "10k"
+    std::string beta;       // B-value, K
     std::string t0 = "25";  // reference temperature of r25, °C
-    std::string sh;      // "A,B,C"
-    std::string points;  // R–T CSV file, or "-" for stdin
-    std::string model;   // with --points: "sh", "beta" or "table" (default: sh)
+    std::string sh;         // "A,B,C"
+    std::string points;     // R–T CSV file, or "-" for stdin
+    std::string model;      // with --points: "sh", "beta" or "table" (default: sh)
 };
 void add_model_options(CLI::App& app, ModelOptions& o);
 // The thermistor the flags describe. Reads --points through read_text().
@@ -33,7 +33,7 @@ void add_model_options(CLI::App& app, ModelOptions& o);
 [[nodiscard]] Json model_json(const Thermistor& t);
 
 struct SpanOptions {
-    std::string span;       // "LO:HI", °C
+    std::string span;        // "LO:HI", °C
     std::string step = "1";  // K (= °C of difference)
 };
 void add_span_options(CLI::App& app, SpanOptions& o);

@@ -73,14 +73,16 @@ std::string c_header(const CHeader& h) {
     s += "/* Breakpoints: ADC codes, ascending, and the temperature at each in " + unit + " degC. */\n";
     s += "static const " + code_type + " " + p + "code[" + P + "ENTRIES] = {\n" + rows(t.codes, 10, code_text) + "};\n";
     s += "static const " + temp_type + " " + p + "temp[" + P + "ENTRIES] = {\n" + rows(t.t, 10, temp_text) + "};\n\n";
-    s += "/* Temperature in " + unit + " degC for an ADC code: linear interpolation between the breakpoints,\n"
+    s += "/* Temperature in " + unit +
+         " degC for an ADC code: linear interpolation between the breakpoints,\n"
          " * halves rounded away from zero; codes outside the table read as its end entries. */\n";
     s += "static inline int32_t " + p + "temperature(uint32_t code)\n{\n";
     s += "    unsigned lo = 0u;\n    unsigned hi = " + P + "ENTRIES - 1u;\n    int64_t num;\n    int64_t den;\n";
     s += "    if (code <= (uint32_t)" + p + "code[0]) {\n        return " + p + "temp[0];\n    }\n";
     s += "    if (code >= (uint32_t)" + p + "code[hi]) {\n        return " + p + "temp[hi];\n    }\n";
     s += "    while (hi - lo > 1u) {\n        unsigned mid = lo + (hi - lo) / 2u;\n";
-    s += "        if ((uint32_t)" + p + "code[mid] <= code) {\n            lo = mid;\n        } else {\n"
+    s += "        if ((uint32_t)" + p +
+         "code[mid] <= code) {\n            lo = mid;\n        } else {\n"
          "            hi = mid;\n        }\n    }\n";
     s += "    num = ((int64_t)" + p + "temp[hi] - (int64_t)" + p + "temp[lo]) * (int64_t)(code - (uint32_t)" + p +
          "code[lo]);\n";
@@ -94,14 +96,18 @@ std::string c_header(const CHeader& h) {
         s += "\n#define " + P + "POLY_DEGREE " + std::to_string(poly.degree) + "\n";
         s += "#define " + P + "POLY_CODE_LO " + std::to_string(poly.code_lo) + "u\n";
         s += "#define " + P + "POLY_CODE_HI " + std::to_string(poly.code_hi) + "u\n\n";
-        s += "/* T(x) in degC = sum of " + p + "poly[i] * x^i, x = (2*code - (LO + HI)) / (HI - LO) in [-1, 1]\n"
-             " * (" + std::string(fit_name(poly.fit)) + " fit). */\n";
+        s += "/* T(x) in degC = sum of " + p +
+             "poly[i] * x^i, x = (2*code - (LO + HI)) / (HI - LO) in [-1, 1]\n"
+             " * (" +
+             std::string(fit_name(poly.fit)) + " fit). */\n";
         s += "static const double " + p + "poly[" + P + "POLY_DEGREE + 1] = {\n" + rows(c_c, 3, double_text) + "};\n\n";
         s += "/* Temperature in degC for an ADC code by the polynomial (Horner's rule); codes outside the span\n"
              " * read as its ends. */\n";
         s += "static inline double " + p + "poly_temperature(uint32_t code)\n{\n";
-        s += "    double x = (2.0 * (double)code - (double)(" + P + "POLY_CODE_LO + " + P + "POLY_CODE_HI)) /\n"
-             "               (double)(" + P + "POLY_CODE_HI - " + P + "POLY_CODE_LO);\n";
+        s += "    double x = (2.0 * (double)code - (double)(" + P + "POLY_CODE_LO + " + P +
+             "POLY_CODE_HI)) /\n"
+             "               (double)(" +
+             P + "POLY_CODE_HI - " + P + "POLY_CODE_LO);\n";
         s += "    double t = 0.0;\n    int i;\n";
         s += "    if (x < -1.0) {\n        x = -1.0;\n    }\n    if (x > 1.0) {\n        x = 1.0;\n    }\n";
         s += "    for (i = " + P + "POLY_DEGREE; i >= 0; --i) {\n        t = t * x + " + p + "poly[i];\n    }\n";

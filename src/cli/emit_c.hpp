@@ -11,8 +11,8 @@
 namespace rtline::cli {
 
 struct CHeader {
-    std::string prefix = "ntc_";        // a C identifier; "_" is added when it does not end in one
-    std::vector<std::string> comment;   // lines for the header's opening comment (ASCII)
+    std::string prefix = "ntc_";       // a C identifier; "_" is added when it does not end in one
+    std::vector<std::string> comment;  // lines for the header's opening comment (ASCII)
     int adc_bits = 12;
     const FixedTable* table = nullptr;       // required
     const Polynomial* polynomial = nullptr;  // optional: also emit <prefix>poly_temperature()

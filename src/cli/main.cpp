@@ -53,11 +53,13 @@ int run(int argc, char** argv) {
     rtline::cli::build_program(app);
     Invocation inv = read_invocation(argc, argv, app);
     if (inv.jsonl) {
-        if (!inv.spec_path.empty()) throw rtline::InputError("--spec", inv.spec_path, "not with --jsonl (specs come on stdin)");
+        if (!inv.spec_path.empty())
+            throw rtline::InputError("--spec", inv.spec_path, "not with --jsonl (specs come on stdin)");
         const std::vector<std::string> extra(inv.args.begin() + 1, inv.args.end());
         std::string out;
-        const int code = rtline::cli::run_batch(inv.command, extra, rtline::cli::read_text("-", "--jsonl"),
-                                                [&](CLI::App& a) { rtline::cli::build_program(a, inv.command); }, out);
+        const int code = rtline::cli::run_batch(
+            inv.command, extra, rtline::cli::read_text("-", "--jsonl"),
+            [&](CLI::App& a) { rtline::cli::build_program(a, inv.command); }, out);
         std::cout << out;
         return code;
     }
@@ -66,7 +68,8 @@ int run(int argc, char** argv) {
         const auto spec = rtline::cli::parse_spec(rtline::cli::read_text(inv.spec_path, "--spec"), "--spec", source);
         const std::string base_dir =
             inv.spec_path == "-" ? std::string() : std::filesystem::path(inv.spec_path).parent_path().string();
-        std::vector<std::string> from_spec = rtline::cli::spec_arguments(spec, *app.get_subcommand(inv.command), base_dir);
+        std::vector<std::string> from_spec =
+            rtline::cli::spec_arguments(spec, *app.get_subcommand(inv.command), base_dir);
         inv.args.insert(inv.args.begin() + 1, from_spec.begin(), from_spec.end());
     }
     std::vector<std::string> reversed(inv.args.rbegin(), inv.args.rend());

@@ -23,9 +23,7 @@ constexpr const char* kPurple = "#6c3483";
 constexpr const char* kGrey = "#8c8c8c";
 
 // A number with a typographic minus sign.
-std::string with_minus(std::string s) {
-    return !s.empty() && s.front() == '-' ? kMinus + s.substr(1) : s;
-}
+std::string with_minus(std::string s) { return !s.empty() && s.front() == '-' ? kMinus + s.substr(1) : s; }
 
 std::string span_text(double lo_k, double hi_k) {
     return with_minus(format_number(kelvin_to_celsius(lo_k))) + " to " +

@@ -84,14 +84,15 @@ Json parse_spec(const std::string& text, const std::string& field, const std::st
     try {
         return Json::parse(text);
     } catch (const nlohmann::json::parse_error& e) {
-        throw InputError(field, source,
-                         "is not valid JSON (at byte " + std::to_string(e.byte) + ")");
+        throw InputError(field, source, "is not valid JSON (at byte " + std::to_string(e.byte) + ")");
     } catch (const nlohmann::json::out_of_range& e) {
         // nlohmann's only range error while parsing: a number beyond a double ("... parsing '1e400'").
         const std::string what = e.what();
         const std::size_t open = what.find("parsing '");
-        const std::string number = open == std::string::npos ? std::string() : what.substr(open + 9, what.size() - open - 10);
-        throw InputError(field, source, "holds a number too large for a double" + (number.empty() ? "" : " (" + number + ")"));
+        const std::string number =
+            open == std::string::npos ? std::string() : what.substr(open + 9, what.size() - open - 10);
+        throw InputError(field, source,
+                         "holds a number too large for a double" + (number.empty() ? "" : " (" + number + ")"));
     }
 }
 
@@ -108,7 +109,8 @@ std::vector<std::string> spec_arguments(const Json& spec_in, const CLI::App& sub
         }
         const CLI::Option* opt = sub.get_option_no_throw(flag);
         if (key.find('-') != std::string::npos || opt == nullptr) {
-            throw InputError(key_field(key), "", "is not a key of '" + sub.get_name() + "' (keys are the long flag names with _ for -)");
+            throw InputError(key_field(key), "",
+                             "is not a key of '" + sub.get_name() + "' (keys are the long flag names with _ for -)");
         }
         const bool is_flag = opt->get_expected_max() == 0;
         if (is_flag) {
@@ -156,8 +158,11 @@ int run_batch(const std::string& command, const std::vector<std::string>& extra,
             for (std::size_t i = 0; i < args.size(); ++i) {
                 const std::string& a = args[i];
                 if (a == "-o" || a == "--output" || a.rfind("--output=", 0) == 0) {
-                    const std::string file = a.rfind("--output=", 0) == 0 ? a.substr(9) : i + 1 < args.size() ? args[i + 1] : "";
-                    throw InputError(a == "-o" ? "-o" : "--output", file, "not with --jsonl: each result is one line on stdout");
+                    const std::string file = a.rfind("--output=", 0) == 0 ? a.substr(9)
+                                             : i + 1 < args.size()        ? args[i + 1]
+                                                                          : "";
+                    throw InputError(a == "-o" ? "-o" : "--output", file,
+                                     "not with --jsonl: each result is one line on stdout");
                 }
                 if (a == "--svg" || a.rfind("--svg=", 0) == 0) {
                     const std::string path = a.size() > 6 ? a.substr(6) : (i + 1 < args.size() ? args[i + 1] : "");

@@ -79,7 +79,7 @@ class SplitMix64 {
 public:
     explicit SplitMix64(std::uint64_t state) : state_(state) {}
     std::uint64_t next() { return mix64(state_ += 0x9E3779B97F4A7C15ULL); }
-    double uniform01() { return static_cast<double>(next() >> 11) * 0x1.0p-53; }         // [0, 1)
+    double uniform01() { return static_cast<double>(next() >> 11) * 0x1.0p-53; }             // [0, 1)
     double uniform01_open() { return static_cast<double>((next() >> 11) + 1) * 0x1.0p-53; }  // (0, 1]
 
 private:
@@ -104,7 +104,7 @@ using Slots = std::array<double, kSlots>;
 // (remainder below 5e−18 relative), times 2^n built in the exponent bits.
 [[nodiscard]] [[gnu::always_inline]] inline double exp_fast(double z) {
     constexpr double kLog2e = 1.4426950408889634074;
-    constexpr double kLn2Hi = 0x1.62e42fee00000p-1;  // ln 2 rounded to 32 significant bits
+    constexpr double kLn2Hi = 0x1.62e42fee00000p-1;   // ln 2 rounded to 32 significant bits
     constexpr double kLn2Lo = 0x1.a39ef35793c76p-33;  // ln 2 − kLn2Hi
     constexpr double kShift = 0x1.8p52;               // adding it rounds to an integer
     const double t = z * kLog2e + kShift;
@@ -230,11 +230,11 @@ decltype(auto) with_kernel(bool heat, Adc mode, Inverse inverse, F&& f) {
 
 // One set of fixed parts: the circuit's maps with its resistors and drive as drawn.
 struct Trial {
-    double g = 1.0;    // 1 + dr
-    double db = 0.0;   // B-value fraction
-    Bilinear reading;  // reading against R_T
-    Bilinear vt;       // thermistor volts against R_T (self-heating)
-    Bilinear to_r;     // R_T ↦ the R_T the nominal circuit gives for the same reading
+    double g = 1.0;         // 1 + dr
+    double db = 0.0;        // B-value fraction
+    Bilinear reading;       // reading against R_T
+    Bilinear vt;            // thermistor volts against R_T (self-heating)
+    Bilinear to_r;          // R_T ↦ the R_T the nominal circuit gives for the same reading
     double ln_scale = 0.0;  // Inverse::scaled: ln(1 + dr) + ln(to_r(x)/x)
 };
 
@@ -423,8 +423,8 @@ private:
     }
 
     const Thermistor& model_;
-    Circuit power_;    // the circuit as driven (self-heating)
-    Circuit reading_;  // the circuit whose output is the reading (per volt when ratiometric)
+    Circuit power_;                          // the circuit as driven (self-heating)
+    Circuit reading_;                        // the circuit whose output is the reading (per volt when ratiometric)
     std::vector<double Circuit::*> fields_;  // the topology's resistors
     bool volts_ = false;
     bool heat_ = false;

@@ -95,8 +95,12 @@ using BlockFn = void (*)(const Runner&, const BlockJob&);
 class Runner {
 public:
     Runner(const Channel& ch, const BudgetSpec& spec)
-        : ch_(ch), seed_(spec.seed), sampler_(ch, spec), mode_(ch.lsb() > 0.0 ? Adc::rounded : Adc::none),
-          heat_(ch.heats()), e_ref_(ch.size()) {
+        : ch_(ch),
+          seed_(spec.seed),
+          sampler_(ch, spec),
+          mode_(ch.lsb() > 0.0 ? Adc::rounded : Adc::none),
+          heat_(ch.heats()),
+          e_ref_(ch.size()) {
         for (std::size_t i = 0; i < ch.size(); ++i) e_ref_[i] = ch.error(ch.nominal(), i, mode_, 0.0, heat_);
         block_fn_ = pick_block_fn(heat_, mode_, ch.inverse());
     }

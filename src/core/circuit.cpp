@@ -97,8 +97,8 @@ Topology parse_topology(std::string_view text, std::string_view field) {
 }
 
 const std::vector<Topology>& all_topologies() {
-    static const std::vector<Topology> all = {Topology::bare,  Topology::divider_high,  Topology::divider_low,
-                                              Topology::shunt, Topology::shunt_divider, Topology::bridge,
+    static const std::vector<Topology> all = {Topology::bare,        Topology::divider_high,  Topology::divider_low,
+                                              Topology::shunt,       Topology::shunt_divider, Topology::bridge,
                                               Topology::shunt_bridge};
     return all;
 }
@@ -181,15 +181,9 @@ OperatingPoint operate(const Circuit& c, double r_t) {
     OperatingPoint op;
     double top_v = 1.0;
     switch (e.drive) {
-        case Drive::ratiometric:
-            top_v = 1.0;
-            break;
-        case Drive::voltage:
-            top_v = e.value;
-            break;
-        case Drive::current:
-            top_v = e.value * pv.rin;
-            break;
+        case Drive::ratiometric: top_v = 1.0; break;
+        case Drive::voltage: top_v = e.value; break;
+        case Drive::current: top_v = e.value * pv.rin; break;
     }
     if (gives_resistance(c.topology) && e.drive == Drive::ratiometric) {
         op.output = pv.rin;

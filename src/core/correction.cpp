@@ -228,7 +228,8 @@ std::vector<std::int64_t> equal_error_codes(const CodeMap& map, std::size_t entr
             }
         }
         // A segment without error (a straight run) splits in the middle.
-        const std::size_t at = worst.at > best[worst_seg] ? worst.at : best[worst_seg] + (best[worst_seg + 1] - best[worst_seg]) / 2;
+        const std::size_t at =
+            worst.at > best[worst_seg] ? worst.at : best[worst_seg] + (best[worst_seg + 1] - best[worst_seg]) / 2;
         best.insert(best.begin() + static_cast<std::ptrdiff_t>(worst_seg) + 1, at);
     }
     std::vector<std::int64_t> codes;
@@ -280,7 +281,8 @@ LookupTable make_table(const CodeMap& map, std::size_t entries, Spacing spacing)
     t.spacing = spacing;
     t.codes = spacing == Spacing::code ? even_codes(map, entries) : equal_error_codes(map, entries);
     for (const std::int64_t c : t.codes) t.t_k.push_back(map.temperature(c));
-    measure(map, [&t](std::int64_t c) { return t.interpolate(c); }, &t.error_k, t.max_error_k, t.at_code);
+    measure(
+        map, [&t](std::int64_t c) { return t.interpolate(c); }, &t.error_k, t.max_error_k, t.at_code);
     return t;
 }
 
@@ -289,9 +291,12 @@ LookupTable smallest_table(const CodeMap& map, double max_error_k, Spacing spaci
     LookupTable best = make_table(map, limit, spacing);
     if (best.max_error_k > max_error_k) {
         throw InfeasibleError("no table of up to " + std::to_string(limit) + " entries meets " +
-                              format_number(max_error_k, 4) + " \xC2\xB0" "C (" + std::to_string(limit) +
-                              " entries give " + format_number(best.max_error_k, 4) +
-                              " \xC2\xB0" "C); give --entries to build a larger table");
+                              format_number(max_error_k, 4) +
+                              " \xC2\xB0"
+                              "C (" +
+                              std::to_string(limit) + " entries give " + format_number(best.max_error_k, 4) +
+                              " \xC2\xB0"
+                              "C); give --entries to build a larger table");
     }
     std::size_t fails = 1;  // a one-entry table never meets it
     std::size_t meets = limit;
@@ -335,7 +340,9 @@ std::int32_t FixedTable::interpolate(std::int64_t code) const {
 
 FixedTable to_fixed(const LookupTable& table, const CodeMap& map, int scale_per_c) {
     if (scale_per_c != 10 && scale_per_c != 100) {
-        throw InputError("--unit", format_number(1.0 / scale_per_c), "choose 0.1 or 0.01 (\xC2\xB0" "C)");
+        throw InputError("--unit", format_number(1.0 / scale_per_c),
+                         "choose 0.1 or 0.01 (\xC2\xB0"
+                         "C)");
     }
     FixedTable f;
     f.scale_per_c = scale_per_c;

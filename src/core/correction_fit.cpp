@@ -56,7 +56,8 @@ void chebyshev(double x, int d, Eigen::VectorXd& t) {
 template <typename Step>
 std::vector<double> to_powers(const Eigen::VectorXd& a, Step step) {
     const int d = static_cast<int>(a.size()) - 1;
-    std::vector<std::vector<double>> phi(static_cast<std::size_t>(d) + 1, std::vector<double>(static_cast<std::size_t>(d) + 1, 0.0));
+    std::vector<std::vector<double>> phi(static_cast<std::size_t>(d) + 1,
+                                         std::vector<double>(static_cast<std::size_t>(d) + 1, 0.0));
     phi[0][0] = 1.0;
     if (d >= 1) phi[1][1] = 1.0;
     for (int k = 1; k < d; ++k) {
@@ -71,7 +72,8 @@ std::vector<double> to_powers(const Eigen::VectorXd& a, Step step) {
     }
     std::vector<double> c(static_cast<std::size_t>(d) + 1, 0.0);
     for (int j = 0; j <= d; ++j) {
-        for (int i = 0; i <= d; ++i) c[static_cast<std::size_t>(i)] += a(j) * phi[static_cast<std::size_t>(j)][static_cast<std::size_t>(i)];
+        for (int i = 0; i <= d; ++i)
+            c[static_cast<std::size_t>(i)] += a(j) * phi[static_cast<std::size_t>(j)][static_cast<std::size_t>(i)];
     }
     return c;
 }
@@ -119,7 +121,8 @@ void trim(std::vector<std::size_t>& ext, const std::vector<double>& err, std::si
             ext.erase(mag(ext.front()) < mag(ext.back()) ? ext.begin() : ext.end() - 1);
             continue;
         }
-        const auto smallest = std::min_element(ext.begin(), ext.end(), [&](std::size_t a, std::size_t b) { return mag(a) < mag(b); });
+        const auto smallest =
+            std::min_element(ext.begin(), ext.end(), [&](std::size_t a, std::size_t b) { return mag(a) < mag(b); });
         if (smallest == ext.begin() || smallest == ext.end() - 1) {
             ext.erase(smallest);
             continue;
@@ -139,7 +142,8 @@ std::vector<double> minimax(const CodeMap& map, int d) {
     const auto want = static_cast<std::size_t>(d) + 2;
     std::vector<std::size_t> ref(want);
     for (std::size_t j = 0; j < want; ++j) {
-        const double c = 0.5 * (1.0 - std::cos(std::numbers::pi * static_cast<double>(j) / static_cast<double>(want - 1)));
+        const double c =
+            0.5 * (1.0 - std::cos(std::numbers::pi * static_cast<double>(j) / static_cast<double>(want - 1)));
         ref[j] = static_cast<std::size_t>(std::llround(c * static_cast<double>(n - 1)));
         if (j > 0) ref[j] = std::max(ref[j], ref[j - 1] + 1);
     }
@@ -217,8 +221,12 @@ Polynomial lowest_degree(const CodeMap& map, double max_error_k, FitKind fit) {
         if (p.max_error_k <= max_error_k) return p;
         if (d == top) {
             throw InfeasibleError("no polynomial of degree up to " + std::to_string(top) + " meets " +
-                                  format_number(max_error_k, 4) + " \xC2\xB0" "C (degree " + std::to_string(top) +
-                                  " gives " + format_number(p.max_error_k, 4) + " \xC2\xB0" "C); use a table");
+                                  format_number(max_error_k, 4) +
+                                  " \xC2\xB0"
+                                  "C (degree " +
+                                  std::to_string(top) + " gives " + format_number(p.max_error_k, 4) +
+                                  " \xC2\xB0"
+                                  "C); use a table");
         }
     }
     throw InfeasibleError("the span has too few codes for a polynomial");

@@ -24,8 +24,8 @@ struct Entry {
 };
 
 constexpr Entry kSeries[] = {
-    {Series::e3, "E3", 3, 20.0},     {Series::e6, "E6", 6, 20.0},    {Series::e12, "E12", 12, 10.0},
-    {Series::e24, "E24", 24, 5.0},   {Series::e48, "E48", 48, 2.0},  {Series::e96, "E96", 96, 1.0},
+    {Series::e3, "E3", 3, 20.0},      {Series::e6, "E6", 6, 20.0},   {Series::e12, "E12", 12, 10.0},
+    {Series::e24, "E24", 24, 5.0},    {Series::e48, "E48", 48, 2.0}, {Series::e96, "E96", 96, 1.0},
     {Series::e192, "E192", 192, 0.5},
 };
 
@@ -70,7 +70,8 @@ Series parse_series(std::string_view text, std::string_view field) {
             return e.series;
         }
     }
-    throw InputError(std::string(field), std::string(text), "unknown series; choose E3, E6, E12, E24, E48, E96 or E192");
+    throw InputError(std::string(field), std::string(text),
+                     "unknown series; choose E3, E6, E12, E24, E48, E96 or E192");
 }
 
 int series_size(Series s) { return entry(s).size; }

@@ -28,8 +28,10 @@ std::vector<Residual> finite_residuals(const Thermistor& model, const std::vecto
         if (!std::isfinite(r.residual_k)) {
             throw InputError("--points", count_points(points.size()),
                              std::string("the ") + what + " fit cannot give back the temperature of the point at " +
-                                 format_number(kelvin_to_celsius(r.t_k)) + " \xC2\xB0" "C (" + format_resistance(r.r_ohm) +
-                                 " ohm); check the points' temperatures");
+                                 format_number(kelvin_to_celsius(r.t_k)) +
+                                 " \xC2\xB0"
+                                 "C (" +
+                                 format_resistance(r.r_ohm) + " ohm); check the points' temperatures");
         }
     }
     return rs;
@@ -84,8 +86,7 @@ SteinhartHart steinhart_hart_three_point(const RtPoint& p1, const RtPoint& p2, c
 
 ShFit fit_steinhart_hart(const std::vector<RtPoint>& points) {
     if (points.size() < 3) {
-        throw InputError("--points", count_points(points.size()),
-                         "a Steinhart-Hart fit needs at least 3 R-T points");
+        throw InputError("--points", count_points(points.size()), "a Steinhart-Hart fit needs at least 3 R-T points");
     }
     SteinhartHart m;
     const auto n = static_cast<Eigen::Index>(points.size());
@@ -123,7 +124,8 @@ ShFit fit_steinhart_hart(const std::vector<RtPoint>& points) {
                          "the Steinhart-Hart fit does not give a resistance that falls monotonically from " +
                              format_number(kelvin_to_celsius(span.lo_k)) + " to " +
                              format_number(kelvin_to_celsius(span.hi_k)) +
-                             " \xC2\xB0" "C; check the points, or use the beta model (--model beta)");
+                             " \xC2\xB0"
+                             "C; check the points, or use the beta model (--model beta)");
     }
     ShFit fit{m, finite_residuals(model, points, "Steinhart-Hart"), 0.0};
     fit.max_residual_k = max_abs(fit.residuals);
@@ -132,8 +134,7 @@ ShFit fit_steinhart_hart(const std::vector<RtPoint>& points) {
 
 BetaFit fit_beta(const std::vector<RtPoint>& points, double t0_k) {
     if (points.size() < 2) {
-        throw InputError("--points", count_points(points.size()),
-                         "a beta fit needs at least 2 R-T points");
+        throw InputError("--points", count_points(points.size()), "a beta fit needs at least 2 R-T points");
     }
     const auto n = static_cast<Eigen::Index>(points.size());
     // 1/T = a + b·(ln R − ln R_ref); the shift by a central ln R keeps the two columns apart.
@@ -154,12 +155,14 @@ BetaFit fit_beta(const std::vector<RtPoint>& points, double t0_k) {
     // 1/t0 = x0 + (ln R0 − l_ref)/B  ⇒  ln R0 = l_ref + B·(1/t0 − x0).
     const double r0 = std::exp(l_ref + b_k * (1.0 / t0_k - x(0)));
     if (!(b_k > 0.0) || !std::isfinite(b_k)) {
-        throw InputError("--points", count_points(static_cast<std::size_t>(n)), "the beta fit gives no positive B-value");
+        throw InputError("--points", count_points(static_cast<std::size_t>(n)),
+                         "the beta fit gives no positive B-value");
     }
     if (!std::isnormal(r0) || !std::isfinite(r0)) {
         throw InputError("--points", count_points(static_cast<std::size_t>(n)),
                          "the beta fit's R0 at " + format_number(kelvin_to_celsius(t0_k)) +
-                             " \xC2\xB0" "C is beyond the range of a double; state R0 at a temperature among the points (--t0)");
+                             " \xC2\xB0"
+                             "C is beyond the range of a double; state R0 at a temperature among the points (--t0)");
     }
     BetaModel m{r0, t0_k, b_k};
     BetaFit fit{m, finite_residuals(Thermistor(m), points, "beta"), 0.0};

@@ -45,9 +45,9 @@ std::vector<RtPoint> read_rt_points(std::string_view text, const std::string& so
         const std::size_t previous_nl = text.rfind('\n', nul);
         const std::size_t line_start = previous_nl == std::string_view::npos ? 0 : previous_nl + 1;
         const auto line = 1 + std::count(text.begin(), text.begin() + static_cast<std::ptrdiff_t>(nul), '\n');
-        throw InputError(source + ":" + std::to_string(line), "",
-                         "is not a text file (a NUL byte at byte " + std::to_string(nul - line_start + 1) +
-                             " of the line)");
+        throw InputError(
+            source + ":" + std::to_string(line), "",
+            "is not a text file (a NUL byte at byte " + std::to_string(nul - line_start + 1) + " of the line)");
     }
     if (text.substr(0, 3) == "\xEF\xBB\xBF") text.remove_prefix(3);  // UTF-8 byte-order mark
 
@@ -99,8 +99,7 @@ std::vector<RtPoint> read_rt_points(std::string_view text, const std::string& so
                         r_col = k;
                         r_unit = name == "r_ohm" ? RUnit::ohm : RUnit::kohm;
                     } else {
-                        throw InputError(at, name,
-                                         "unknown column; the header names t_c or t_k and r_ohm or r_kohm");
+                        throw InputError(at, name, "unknown column; the header names t_c or t_k and r_ohm or r_kohm");
                     }
                 }
                 if (!t_found || !r_found) {
@@ -117,8 +116,7 @@ std::vector<RtPoint> read_rt_points(std::string_view text, const std::string& so
             // The column is the first extra field, or the first missing one.
             const std::size_t col = fields.size() > want ? want + 1 : fields.size() + 1;
             throw InputError(where + ":" + std::to_string(col), std::string(line),
-                             "expected " + std::to_string(want) + " fields, found " +
-                                 std::to_string(fields.size()));
+                             "expected " + std::to_string(want) + " fields, found " + std::to_string(fields.size()));
         }
         const std::string t_at = where + ":" + std::to_string(t_col + 1);
         const std::string r_at = where + ":" + std::to_string(r_col + 1);
@@ -145,7 +143,8 @@ std::vector<RtPoint> read_rt_points(std::string_view text, const std::string& so
     }
     if (rows.empty()) throw InputError(source, "", "contains no R-T points");
 
-    std::stable_sort(rows.begin(), rows.end(), [](const Located& a, const Located& b) { return a.point.t_k < b.point.t_k; });
+    std::stable_sort(rows.begin(), rows.end(),
+                     [](const Located& a, const Located& b) { return a.point.t_k < b.point.t_k; });
     for (std::size_t i = 1; i < rows.size(); ++i) {
         const std::string at = source + ":" + std::to_string(rows[i].line) + ":";
         const std::string t_text = format_number(kelvin_to_celsius(rows[i].point.t_k)) + " C";

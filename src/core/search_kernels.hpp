@@ -47,20 +47,14 @@ T fetch(const double* p) {
     return v;
 }
 
-inline double abs_of(double x) {
-    return std::abs(x);
-}
+inline double abs_of(double x) { return std::abs(x); }
 inline Pair abs_of(Pair x) {
     return std::bit_cast<Pair>(std::bit_cast<PairBits>(x) & INT64_MAX);
 }  // the sign bit cleared, as fabs
 
 // std::max(a, b) by value: a < b ? b : a, NaN included.
-inline double max_of(double a, double b) {
-    return a < b ? b : a;
-}
-inline Pair max_of(Pair a, Pair b) {
-    return a < b ? b : a;
-}
+inline double max_of(double a, double b) { return a < b ? b : a; }
+inline Pair max_of(Pair a, Pair b) { return a < b ? b : a; }
 
 // parallel() as circuit.cpp defines it (an infinite resistance is an open circuit).
 inline double par(double a, double b) {

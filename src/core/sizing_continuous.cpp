@@ -134,9 +134,7 @@ private:
 };
 
 // Evaluations of a 1-D minimize_1d: the scan and about three golden sections of 45 steps.
-double evaluations(int n) {
-    return n + 3.0 * 45.0;
-}
+double evaluations(int n) { return n + 3.0 * 45.0; }
 
 // The free resistor values of the continuous optimum on kernel K, and its objective in fbest.
 template <class K>
@@ -186,7 +184,8 @@ std::vector<double> continuous_optimum(const SizingSpec& spec, const Grid& grid,
         static_assert(kOuterScan == 2 * kRidgeScan - 1);
         for (int i = 0; i < kRidgeScan; ++i) {
             const auto k = static_cast<std::size_t>(2 * i);
-            if (outer_scan.fx[k] <= fbest * (1.0 + 1e-6)) ridge.push_back({std::exp(outer_scan.x[k]), std::exp(scan_v[k])});
+            if (outer_scan.fx[k] <= fbest * (1.0 + 1e-6))
+                ridge.push_back({std::exp(outer_scan.x[k]), std::exp(scan_v[k])});
         }
         return {std::exp(u), std::exp(v)};
     }

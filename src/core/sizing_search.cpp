@@ -55,9 +55,7 @@ struct Ranked {
 // mirror-image pairs (a, b) and (b, a), a few last bits apart; classes absorb that, and unlike a tolerance
 // (|a − b| ≤ 1e-9·max, which is not transitive) they give a total order, so the best N do not depend on
 // the order the combinations are seen in. For objectives ≥ 0 the bit pattern is ordered like the value.
-std::uint64_t tie_class(double objective) {
-    return std::bit_cast<std::uint64_t>(objective) >> 22;
-}
+std::uint64_t tie_class(double objective) { return std::bit_cast<std::uint64_t>(objective) >> 22; }
 
 // Lower objective class first, then the larger span, then the smaller values.
 bool better(const Ranked& a, const Ranked& b) {

@@ -91,9 +91,9 @@ Hermite hermite(double x0, double x1, double y0, double y1, double d0, double d1
     const double h01 = -2 * t3 + 3 * t2;
     const double h11 = t3 - t2;
     const double y = h00 * y0 + h10 * h * d0 + h01 * y1 + h11 * h * d1;
-    const double dy = ((6 * t2 - 6 * t) * y0 + (3 * t2 - 4 * t + 1) * h * d0 + (-6 * t2 + 6 * t) * y1 +
-                       (3 * t2 - 2 * t) * h * d1) /
-                      h;
+    const double dy =
+        ((6 * t2 - 6 * t) * y0 + (3 * t2 - 4 * t + 1) * h * d0 + (-6 * t2 + 6 * t) * y1 + (3 * t2 - 2 * t) * h * d1) /
+        h;
     return {y, dy};
 }
 
@@ -118,8 +118,7 @@ double TableModel::dlnr_dt(double t_k) const {
     } else if (x >= x_.back()) {
         dydx = d_.back();
     } else {
-        const std::size_t k =
-            static_cast<std::size_t>(std::upper_bound(x_.begin(), x_.end(), x) - x_.begin()) - 1;
+        const std::size_t k = static_cast<std::size_t>(std::upper_bound(x_.begin(), x_.end(), x) - x_.begin()) - 1;
         const std::size_t j = std::min(k, n - 2);
         dydx = hermite(x_[j], x_[j + 1], y_[j], y_[j + 1], d_[j], d_[j + 1], x).dy;
     }
@@ -154,7 +153,8 @@ double beta_temperature(const BetaModel& m, double r_ohm) {
     const double ratio = r_ohm / m.r0_ohm;
     // ln R − ln R0 when the ratio leaves the doubles (R and R0 hundreds of decades apart); otherwise the
     // ratio's one logarithm, which is the more accurate.
-    const double l = std::isnormal(ratio) && std::isfinite(ratio) ? std::log(ratio) : std::log(r_ohm) - std::log(m.r0_ohm);
+    const double l =
+        std::isnormal(ratio) && std::isfinite(ratio) ? std::log(ratio) : std::log(r_ohm) - std::log(m.r0_ohm);
     return 1.0 / (1.0 / m.t0_k + l / m.b_k);
 }
 
@@ -231,8 +231,7 @@ void validate(const SteinhartHart& m) {
     }
 }
 
-std::vector<RtPoint> validate_points(std::vector<RtPoint> points, std::size_t min_count,
-                                     const std::string& source) {
+std::vector<RtPoint> validate_points(std::vector<RtPoint> points, std::size_t min_count, const std::string& source) {
     if (points.size() < min_count) {
         throw InputError(source, count_points(points.size()),
                          "this model needs at least " + std::to_string(min_count) + " R-T points");
@@ -249,8 +248,7 @@ std::vector<RtPoint> validate_points(std::vector<RtPoint> points, std::size_t mi
     std::sort(points.begin(), points.end(), [](const RtPoint& a, const RtPoint& b) { return a.t_k < b.t_k; });
     for (std::size_t i = 1; i < points.size(); ++i) {
         if (points[i].t_k == points[i - 1].t_k) {
-            throw InputError(source, describe(kelvin_to_celsius(points[i].t_k)) + " C",
-                             "duplicate temperature");
+            throw InputError(source, describe(kelvin_to_celsius(points[i].t_k)) + " C", "duplicate temperature");
         }
         if (!(points[i].r_ohm < points[i - 1].r_ohm)) {
             throw InputError(source, describe(kelvin_to_celsius(points[i].t_k)) + " C",
@@ -308,15 +306,17 @@ std::string Thermistor::kind() const {
 }
 
 void Thermistor::check_span(const Span& span, const std::string& field) const {
-    const std::string text = format_number(kelvin_to_celsius(span.lo_k)) + ":" +
-                             format_number(kelvin_to_celsius(span.hi_k));
+    const std::string text =
+        format_number(kelvin_to_celsius(span.lo_k)) + ":" + format_number(kelvin_to_celsius(span.hi_k));
     if (const auto* table = std::get_if<TableModel>(&model_)) {
         const double tol = 1e-9;
         if (span.lo_k < table->t_min_k() - tol || span.hi_k > table->t_max_k() + tol) {
             throw InputError(field, text,
                              "outside the R-T table, which covers " +
                                  format_number(kelvin_to_celsius(table->t_min_k())) + " to " +
-                                 format_number(kelvin_to_celsius(table->t_max_k())) + " \xC2\xB0" "C");
+                                 format_number(kelvin_to_celsius(table->t_max_k())) +
+                                 " \xC2\xB0"
+                                 "C");
         }
         return;
     }

@@ -59,8 +59,10 @@ bool all_digits(std::string_view s) {
 
 double multiplier_of(char letter) {
     switch (letter) {
-        case 'R': case 'r': return 1.0;
-        case 'k': case 'K': return 1e3;
+        case 'R':
+        case 'r': return 1.0;
+        case 'k':
+        case 'K': return 1e3;
         case 'M': return 1e6;
         case 'G': return 1e9;
         default: return 0.0;
@@ -165,8 +167,9 @@ double parse_quantity(std::string_view text, std::string_view field, std::string
 double parse_temperature(std::string_view text, std::string_view field) {
     std::string_view s = trim(text);
     bool kelvin = false;
-    if (strip_suffix(s, "\xC2\xB0"
-                       "C") ||
+    if (strip_suffix(s,
+                     "\xC2\xB0"
+                     "C") ||
         strip_suffix(s, "C")) {
         kelvin = false;
     } else if (strip_suffix(s, "K")) {
