@@ -18,8 +18,13 @@
 
 namespace {
 
-void check_residuals(const std::vector<rtline::Residual>& rs, double max_residual_k) {
-    for (const rtline::Residual& r : rs) FUZZ_CHECK(std::isfinite(r.residual_k));
+// An accepted fit gives back every point's temperature as a finite positive number.
+void check_residuals(const rtline::Thermistor& t, const std::vector<rtline::Residual>& rs, double max_residual_k) {
+    for (const rtline::Residual& r : rs) {
+        FUZZ_CHECK(std::isfinite(r.residual_k));
+        const double t_model = t.temperature(r.r_ohm);
+        FUZZ_CHECK(std::isfinite(t_model) && t_model > 0.0);
+    }
     FUZZ_CHECK(std::isfinite(max_residual_k));
 }
 
@@ -60,7 +65,7 @@ void use(const std::vector<rtline::RtPoint>& points) {
     try {
         const rtline::ShFit fit = rtline::fit_steinhart_hart(rtline::validate_points(points, 3, "fuzz"));
         FUZZ_CHECK(std::isfinite(fit.model.a) && std::isfinite(fit.model.b) && std::isfinite(fit.model.c));
-        check_residuals(fit.residuals, fit.max_residual_k);
+        check_residuals(rtline::Thermistor(fit.model), fit.residuals, fit.max_residual_k);
         analyse(rtline::Thermistor(fit.model), points);
     } catch (const rtline::InputError&) {
     }
@@ -68,7 +73,7 @@ void use(const std::vector<rtline::RtPoint>& points) {
         const rtline::BetaFit fit = rtline::fit_beta(rtline::validate_points(points, 2, "fuzz"), 298.15);
         FUZZ_CHECK(std::isfinite(fit.model.b_k) && fit.model.b_k > 0.0);
         FUZZ_CHECK(std::isfinite(fit.model.r0_ohm) && fit.model.r0_ohm > 0.0);
-        check_residuals(fit.residuals, fit.max_residual_k);
+        check_residuals(rtline::Thermistor(fit.model), fit.residuals, fit.max_residual_k);
         analyse(rtline::Thermistor(fit.model), points);
     } catch (const rtline::InputError&) {
     }

@@ -37,10 +37,11 @@ for t in "${targets[@]}"; do
     status=1
   fi
   execs=$(sed -n 's/^stat::number_of_executed_units: *//p' "$log" | tail -1)
+  used_seed=$(sed -n 's/^INFO: Seed: *//p' "$log" | head -1)  # the one libFuzzer drew when seed is 0
   if [ "$status" -eq 0 ]; then
-    echo "fuzz: $t: ${execs:-?} executions in $seconds s (seed $seed); no crash, leak or sanitizer report"
+    echo "fuzz: $t: ${execs:-?} executions in $seconds s (seed ${used_seed:-$seed}); no crash, leak or sanitizer report"
   else
-    echo "fuzz: $t: FAILED (exit $status) after ${execs:-?} executions; the end of $log:"
+    echo "fuzz: $t: FAILED (exit $status) after ${execs:-?} executions (seed ${used_seed:-$seed}); the end of $log:"
     tail -n 40 "$log"
     failed=$((failed + 1))
   fi

@@ -98,10 +98,11 @@ TEST_CASE("a mistyped resistance, B-value, temperature or step is refused by its
         {"a step count past the limit", with(kModel, {"--span", "0:50", "--step", "1e-6"}),
          "--step '1e-6': gives more than 1000000 points over the span (50 K wide); use a larger step or a narrower "
          "--span"},
-        // 1e300 °C: the default step of 1 K would need 1e300 points (by hand).
+        // 1e300 °C: the default step of 1 K would need 1e300 points (by hand). The span is to blame, not
+        // a step the user never typed.
         {"a span too wide for any grid", with(kModel, {"--span", "0:1e300"}),
-         "--step '1': gives more than 1000000 points over the span (1e+300 K wide); use a larger step or a narrower "
-         "--span"},
+         "--span '0:1e300': gives more than 1000000 points over the span (1e+300 K wide); use a larger step or a "
+         "narrower --span"},
         {"NaN as a resistance", with(kCheck, {"divider-low", "--rs", "nan"}), "--rs 'nan': " + kResistance},
         {"NaN as a B-value",
          {"model", "--r25", "10k", "--beta", "NaN", "--span", "0:50"},
@@ -188,6 +189,10 @@ TEST_CASE("a mistyped trial count, tolerance or converter figure in a budget is 
          "--trials '-5': the number of trials must be a whole number from 0 to 100000000"},
         {"a fractional trial count", with(kBudget, {"--trials", "1.5"}),
          "--trials '1.5': the number of trials must be a whole number from 0 to 100000000"},
+        // 0 to 20000 °C at the default 1 K: 20001 temperatures, past the budget's 10001 (kMaxBudgetPoints).
+        {"a span too wide for a budget",
+         {"budget", "--r25", "10k", "--beta", "3950", "--span", "0:20000", "--circuit", "divider-low", "--rs", "10k"},
+         "--span '0:20000': gives 20001 temperatures; a budget takes at most 10001"},
         {"a trial count past the limit", with(kBudget, {"--trials", "1e9"}),
          "--trials '1e9': the number of trials must be a whole number from 0 to 100000000"},
         {"a negative tolerance", with(kBudget, {"--r25-tol", "-1"}), "--r25-tol '-1': " + tolerance},
@@ -283,8 +288,9 @@ TEST_CASE("a broken R-T file is refused by its line, its column and the field's 
          "C; check the points, or use the beta model (--model beta)",
          "t_c,r_ohm\n0,1e300\n25,1e-300\n50,1e-301\n"},
         // A temperature mistyped as 5.6e57 C: the exact coefficients through it give 1/T = a + b*L +
-        // c*L^3 = a at 1 ohm (L = 0), and a = 1/T3 ~ 1.8e-58 is lost to rounding next to the other points'
-        // 1/T ~ 3e-3 (by hand): the model's temperature there is infinite or meaningless, never a residual.
+        // c*L^3 = a at 1 ohm (L = 0), and a = 1/T3 ~ 1.8e-58 is far below the rounding of the other
+        // points' 1/T ~ 3e-3 (by hand): a comes out 0 or a few 1e-19, and the model's temperature there
+        // is infinite or misses the point's by orders of magnitude; either way the fit is refused.
         {"a Steinhart-Hart fit that cannot give back a point", fit,
          "--points '3 points': the Steinhart-Hart fit cannot give back the temperature of the point at 5.55556e+57 "
          "\xC2\xB0"

@@ -214,8 +214,8 @@ TEST_CASE("a beta fit to a rising resistance is an InputError naming the points"
 TEST_CASE("a fit that cannot give back one of its points is an InputError, not an infinite residual") {
     // A temperature typed as 5.6e57 °C among ordinary points (a case the R-T fuzzer found): through the
     // three points exactly, 1/T at 1 ohm (L = 0) is the coefficient a, which should be 1/T3 = 1.8e-58 but
-    // is rounding noise next to the other points' 1/T of 3e-3 (by hand): the model's temperature there
-    // is infinite.
+    // is far below the rounding of the other points' 1/T of 3e-3 (by hand): a comes out 0 (T infinite)
+    // or a few 1e-19 (an exact fit that misses its point by orders of magnitude). Both are refused.
     const std::vector<RtPoint> typo = {{319.15, 10e3}, {333.15, 8.7e3}, {celsius_to_kelvin(5.555556e57), 1.0}};
     CHECK(refusal([&] { return fit_steinhart_hart(typo); }) ==
           "--points '3 points': the Steinhart-Hart fit cannot give back the temperature of the point at "
@@ -235,7 +235,7 @@ TEST_CASE("a Steinhart-Hart fit that turns back between its points is an InputEr
 }
 
 TEST_CASE("a beta fit whose R0 at T0 overflows a double says so and how to avoid it") {
-    // Points 1e-5 K apart near 300 K whose R spans 200 decades: B = ln(1e200)/(1/300 − 1/300.00003)
+    // Points 1e-5 and 2e-5 K apart near 300 K whose R spans 200 decades: B = ln(1e200)/(1/300 − 1/300.00003)
     // ≈ 1.4e12 K (by hand), and R0 at 25 °C = R·exp(B·(1/298.15 − 1/300)) = exp(2.9e7): not a double.
     CHECK(refusal([&] {
               return fit_beta({{300.0, 1e200}, {300.00001, 1e100}, {300.00003, 1.0}}, 298.15);

@@ -68,7 +68,8 @@ TEST_CASE("the beta model's inverse holds for a resistance 400 decades from R0")
     CHECK(want == doctest::Approx(300.0000829).epsilon(1e-9));
     CHECK(beta_temperature(m, 1e-200) == doctest::Approx(want).epsilon(1e-12));
     CHECK(Thermistor(m).temperature(1e-200) == doctest::Approx(want).epsilon(1e-12));
-    // An ordinary ratio keeps the one logarithm: the same number as the formula written out.
+    // An ordinary ratio keeps the one logarithm: to the last bit the beta equation's inverse as
+    // REFERENCES.md writes it, 1/T = 1/T0 + ln(R/R0)/B.
     CHECK(beta_temperature(BetaModel{10e3, 298.15, 3500.0}, 5e3) == 1.0 / (1.0 / 298.15 + std::log(0.5) / 3500.0));
 }
 

@@ -353,9 +353,10 @@ void run_budget(const BudgetOptions& o) {
     const Format format = parse_format(o.out.format);
     const Thermistor thermistor = build_model(o.model);
     const Span span = build_span(o.span);
-    const Grid grid = make_grid(thermistor, span, build_step(o.span));
+    const Grid grid = build_grid(thermistor, span, o.span);
     if (grid.size() > kMaxBudgetPoints) {
-        throw InputError("--step", o.span.step,
+        const auto [flag, text] = grid_size_culprit(o.span);
+        throw InputError(flag, text,
                          "gives " + std::to_string(grid.size()) + " temperatures; a budget takes at most " +
                              std::to_string(kMaxBudgetPoints));
     }

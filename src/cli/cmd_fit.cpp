@@ -48,7 +48,9 @@ std::pair<Json, std::string> other_fit(const char* kind, const char* name, MaxRe
                 std::string("a ") + name + " fit to the same points: largest |residual| " +
                     format_fixed(1e3 * max_k, 2) + " mK\n"};
     } catch (const InputError& e) {
-        return {Json(), std::string("a ") + name + " fit to the same points is not possible: " + e.why() + "\n"};
+        // The reason without its advice (after "; "), which is for the fit asked for, not this one.
+        const std::string why = e.why().substr(0, e.why().find("; "));
+        return {Json(), std::string("a ") + name + " fit to the same points is not possible: " + why + "\n"};
     }
 }
 

@@ -176,11 +176,16 @@ void add_span_options(CLI::App& app, SpanOptions& o) {
 Span build_span(const SpanOptions& o) { return parse_span(o.span, "--span"); }
 
 double build_step(const SpanOptions& o) {
-    std::string s = o.step;
+    std::string s = o.step.empty() ? std::string("1") : o.step;
     if (!s.empty() && (s.back() == 'K' || s.back() == 'C')) s.pop_back();
     const double step = parse_number(s, "--step");
     if (!(step > 0.0)) throw InputError("--step", o.step, "the step must be a positive number of kelvin");
     return step;
+}
+
+std::pair<std::string, std::string> grid_size_culprit(const SpanOptions& o) {
+    if (o.step.empty()) return {"--span", o.span};
+    return {"--step", o.step};
 }
 
 Grid build_grid(const Thermistor& model, const Span& span, const SpanOptions& o) {
@@ -189,7 +194,10 @@ Grid build_grid(const Thermistor& model, const Span& span, const SpanOptions& o)
         return make_grid(model, span, step);
     } catch (const InputError& e) {
         if (e.field() == "--span") throw InputError("--span", o.span, e.why());
-        if (e.field() == "--step") throw InputError("--step", o.step, e.why());
+        if (e.field() == "--step") {
+            const auto [flag, text] = grid_size_culprit(o);
+            throw InputError(flag, text, e.why());
+        }
         throw;
     }
 }

@@ -5,6 +5,7 @@
 
 #include <CLI/CLI.hpp>
 #include <string>
+#include <utility>
 
 #include "report.hpp"
 #include "rtline/analysis.hpp"
@@ -33,12 +34,15 @@ void add_model_options(CLI::App& app, ModelOptions& o);
 [[nodiscard]] Json model_json(const Thermistor& t);
 
 struct SpanOptions {
-    std::string span;        // "LO:HI", °C
-    std::string step = "1";  // K (= °C of difference)
+    std::string span;  // "LO:HI", °C
+    std::string step;  // K (= °C of difference); empty: 1 K
 };
 void add_span_options(CLI::App& app, SpanOptions& o);
 [[nodiscard]] Span build_span(const SpanOptions& o);
 [[nodiscard]] double build_step(const SpanOptions& o);
+// The flag to blame for too many grid points, with its text as typed: --step when it was given,
+// else --span (the default step of 1 K is not the user's doing).
+[[nodiscard]] std::pair<std::string, std::string> grid_size_culprit(const SpanOptions& o);
 // make_grid over `span` at the --step, its errors quoting --span and --step as the user typed them.
 [[nodiscard]] Grid build_grid(const Thermistor& model, const Span& span, const SpanOptions& o);
 

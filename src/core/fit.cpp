@@ -19,13 +19,18 @@ double max_abs(const std::vector<Residual>& rs) {
     return m;
 }
 
-// The residuals of a fitted model, refused when one is not a finite number: the model cannot give back
-// the temperature of a point (1/T reaches zero or below there in double precision, as with a point
-// typed at 1e50 °C), so nothing it would print could be trusted.
-std::vector<Residual> finite_residuals(const Thermistor& model, const std::vector<RtPoint>& points, const char* what) {
+// The residuals of a fitted model, refused when the model cannot give back the temperature of a point:
+// its temperature there is not a finite positive number (1/T at or below zero, as when a point typed at
+// 1e50 °C sits among ordinary ones), or, for a fit that passes through its points exactly, it misses one
+// by more than 1e-6·T (a well-posed three-point fit misses by about 1e-12·T; more means the points are
+// too far apart for double precision). Nothing such a model would print could be trusted.
+std::vector<Residual> usable_residuals(const Thermistor& model, const std::vector<RtPoint>& points, const char* what,
+                                       bool exact) {
     std::vector<Residual> rs = residuals_of(model, points);
     for (const Residual& r : rs) {
-        if (!std::isfinite(r.residual_k)) {
+        const double t_model = model.temperature(r.r_ohm);
+        const bool missed = exact && !(std::abs(r.residual_k) <= 1e-6 * r.t_k);
+        if (!std::isfinite(t_model) || !(t_model > 0.0) || missed) {
             throw InputError("--points", count_points(points.size()),
                              std::string("the ") + what + " fit cannot give back the temperature of the point at " +
                                  format_number(kelvin_to_celsius(r.t_k)) +
@@ -127,7 +132,7 @@ ShFit fit_steinhart_hart(const std::vector<RtPoint>& points) {
                              " \xC2\xB0"
                              "C; check the points, or use the beta model (--model beta)");
     }
-    ShFit fit{m, finite_residuals(model, points, "Steinhart-Hart"), 0.0};
+    ShFit fit{m, usable_residuals(model, points, "Steinhart-Hart", points.size() == 3), 0.0};
     fit.max_residual_k = max_abs(fit.residuals);
     return fit;
 }
@@ -158,14 +163,14 @@ BetaFit fit_beta(const std::vector<RtPoint>& points, double t0_k) {
         throw InputError("--points", count_points(static_cast<std::size_t>(n)),
                          "the beta fit gives no positive B-value");
     }
-    if (!std::isnormal(r0) || !std::isfinite(r0)) {
+    if (!std::isnormal(r0)) {
         throw InputError("--points", count_points(static_cast<std::size_t>(n)),
                          "the beta fit's R0 at " + format_number(kelvin_to_celsius(t0_k)) +
                              " \xC2\xB0"
                              "C is beyond the range of a double; state R0 at a temperature among the points (--t0)");
     }
     BetaModel m{r0, t0_k, b_k};
-    BetaFit fit{m, finite_residuals(Thermistor(m), points, "beta"), 0.0};
+    BetaFit fit{m, usable_residuals(Thermistor(m), points, "beta", points.size() == 2), 0.0};
     fit.max_residual_k = max_abs(fit.residuals);
     return fit;
 }

@@ -153,8 +153,7 @@ double beta_temperature(const BetaModel& m, double r_ohm) {
     const double ratio = r_ohm / m.r0_ohm;
     // ln R − ln R0 when the ratio leaves the doubles (R and R0 hundreds of decades apart); otherwise the
     // ratio's one logarithm, which is the more accurate.
-    const double l =
-        std::isnormal(ratio) && std::isfinite(ratio) ? std::log(ratio) : std::log(r_ohm) - std::log(m.r0_ohm);
+    const double l = std::isnormal(ratio) ? std::log(ratio) : std::log(r_ohm) - std::log(m.r0_ohm);
     return 1.0 / (1.0 / m.t0_k + l / m.b_k);
 }
 
