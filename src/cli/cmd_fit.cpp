@@ -135,7 +135,9 @@ void run_fit(const FitCommand& o) {
 void setup_fit(CLI::App& app) {
     auto opt = std::make_shared<FitCommand>();
     auto* sub = app.add_subcommand("fit", "Fit Steinhart-Hart or beta coefficients to R-T points");
-    sub->add_option("--points", opt->points, "R-T points, CSV with header t_c,r_ohm ('-' reads stdin)")->required();
+    sub->add_option("--points", opt->points, "R-T points, CSV with header t_c,r_ohm ('-' reads stdin)")
+        ->required()
+        ->check(non_empty_file_name);
     sub->add_option("--model", opt->model, "sh (Steinhart-Hart, default) or beta");
     sub->add_option("--t0", opt->t0, "Beta fit: temperature at which R0 is stated, degC (default 25)");
     add_output_options(*sub, opt->out);

@@ -56,6 +56,7 @@ void add_model_options(CLI::App& app, ModelOptions& o) {
     app.add_option("--sh", o.sh, "Steinhart-Hart coefficients A,B,C (1/T = A + B ln R + C ln^3 R)")
         ->group("Thermistor");
     app.add_option("--points", o.points, "R-T points, CSV with header t_c,r_ohm ('-' reads stdin)")
+        ->check(non_empty_file_name)
         ->group("Thermistor");
     app.add_option("--model", o.model, "With --points: sh (fit, default), beta (fit) or table (interpolate)")
         ->group("Thermistor");
@@ -321,7 +322,7 @@ std::string describe_circuit(const Circuit& c) {
 
 std::string non_empty_file_name(const std::string& path) {
     // An empty name reads as "not given" later on: say so now instead of writing nothing.
-    return path.empty() ? std::string("give a file name (an empty one would write nothing)") : std::string();
+    return path.empty() ? std::string("expects a file name, not an empty text") : std::string();
 }
 
 void add_output_options(CLI::App& app, OutputOptions& o) {

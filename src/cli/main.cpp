@@ -39,8 +39,10 @@ Invocation read_invocation(int argc, char** argv, CLI::App& app) {
         } else if (!inv.command.empty() && a == "--spec") {
             if (i + 1 >= argc) throw rtline::InputError("--spec", "", "needs a file name ('-' for stdin)");
             inv.spec_path = argv[++i];
+            if (inv.spec_path.empty()) throw rtline::InputError("--spec", "", "needs a file name ('-' for stdin)");
         } else if (!inv.command.empty() && a.rfind("--spec=", 0) == 0) {
             inv.spec_path = a.substr(7);
+            if (inv.spec_path.empty()) throw rtline::InputError("--spec", "", "needs a file name ('-' for stdin)");
         } else {
             inv.args.push_back(a);
         }
