@@ -182,8 +182,7 @@ std::vector<double> continuous_optimum(const SizingSpec& spec, const Grid& grid,
         // (doubling and halving are exact), so their inner optima are those already found.
         constexpr int kRidgeScan = 29;
         static_assert(kOuterScan == 2 * kRidgeScan - 1);
-        for (int i = 0; i < kRidgeScan; ++i) {
-            const auto k = static_cast<std::size_t>(2 * i);
+        for (std::size_t k = 0; k < outer_scan.x.size(); k += 2) {
             if (outer_scan.fx[k] <= fbest * (1.0 + 1e-6))
                 ridge.push_back({std::exp(outer_scan.x[k]), std::exp(scan_v[k])});
         }
