@@ -300,6 +300,14 @@ TEST_CASE("a broken R-T file is refused by its line, its column and the field's 
          "\xC2\xB0"
          "C (1 ohm); check the points' temperatures",
          "t_c,r_ohm\n60,8k7\n46,10k\n5.555556e57,1\n"},
+        // alpha = -(d ln R / d(1/T)) / T^2, and at 8e-215 K T^2 = 6.4e-429 is below the smallest double
+        // (4.9e-324), so it rounds to 0 and alpha is infinite (by hand); the R-T fuzzer found this.
+        {"a table point next to absolute zero",
+         {"check", "--points", "-", "--model", "table", "--span", "8e-215K:298.15K", "--circuit", "divider-low", "--rs",
+          "10k"},
+         "--span '8e-215K:298.15K': the model's temperature coefficient overflows a double at 8e-215 K; keep the span "
+         "well above absolute zero",
+         "t_k,r_ohm\n8e-215,97k\n273.15,32k\n298.15,10k\n"},
         {"a table model asked outside its points",
          {"model", "--points", "-", "--model", "table", "--span", "0:60"},
          "--span '0:60': outside the R-T table, which covers 0 to 50 \xC2\xB0"

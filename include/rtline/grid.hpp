@@ -20,7 +20,8 @@ struct Grid {
 
 // Temperatures lo, lo+step, … and hi itself (a last interval shorter than step when step does not
 // divide the span). Requires step > 0 and at most kMaxGridPoints points; the model must cover the span
-// (Thermistor::check_span). Throws InputError naming "--step" or "--span".
+// (Thermistor::check_span) with a finite temperature coefficient at every point. Throws InputError
+// naming "--step" or "--span".
 [[nodiscard]] Grid make_grid(const Thermistor& model, const Span& span, double step_k);
 
 // The temperatures alone, as make_grid places them.
