@@ -1,7 +1,7 @@
 // Fuzz target: the R-T CSV reader, and what the commands do next with its points (validation, the
 // table model, the Steinhart-Hart and beta fits, a grid over the points' span and a divider analysed
-// on it). Properties: points come back sorted with T and R finite and positive, T rising strictly and
-// R falling strictly; a refusal is an InputError; whatever is accepted gives finite coefficients,
+// on it). Properties: points come back sorted with T within kMinPointK..kMaxPointK and R finite and positive, T rising
+// strictly and R falling strictly; a refusal is an InputError; whatever is accepted gives finite coefficients,
 // resistances, residuals and analysis figures (the numbers every command prints).
 #include <cmath>
 #include <cstddef>
@@ -92,7 +92,7 @@ extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t* data, std::size_t size
     }
     FUZZ_CHECK(!points.empty());
     for (std::size_t i = 0; i < points.size(); ++i) {
-        FUZZ_CHECK(std::isfinite(points[i].t_k) && points[i].t_k > 0.0);
+        FUZZ_CHECK(points[i].t_k >= rtline::kMinPointK && points[i].t_k <= rtline::kMaxPointK);
         FUZZ_CHECK(std::isfinite(points[i].r_ohm) && points[i].r_ohm > 0.0);
         if (i > 0) {
             FUZZ_CHECK(points[i].t_k > points[i - 1].t_k);

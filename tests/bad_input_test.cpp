@@ -291,22 +291,17 @@ TEST_CASE("a broken R-T file is refused by its line, its column and the field's 
          "\xC2\xB0"
          "C; check the points, or use the beta model (--model beta)",
          "t_c,r_ohm\n0,1e300\n25,1e-300\n50,1e-301\n"},
-        // A temperature mistyped as 5.6e57 C: the exact coefficients through it give 1/T = a + b*L +
-        // c*L^3 = a at 1 ohm (L = 0), and a = 1/T3 ~ 1.8e-58 is far below the rounding of the other
-        // points' 1/T ~ 3e-3 (by hand): a comes out 0 or a few 1e-19, and the model's temperature there
-        // is infinite or misses the point's by orders of magnitude; either way the fit is refused.
-        {"a Steinhart-Hart fit that cannot give back a point", fit,
-         "--points '3 points': the Steinhart-Hart fit cannot give back the temperature of the point at 5.55556e+57 "
-         "\xC2\xB0"
-         "C (1 ohm); check the points' temperatures",
+        // A temperature mistyped as 5.6e57 C (the R-T fuzzer's first finding): the exact fit through it
+        // cannot give it back (fit_test), so the reader stops it first, by its line and column.
+        {"a temperature far beyond any thermistor's", fit,
+         "stdin:4:1 '5.555556e57': is outside the range of an R-T point, 0.001 to 10000 K (a typing mistake?)",
          "t_c,r_ohm\n60,8k7\n46,10k\n5.555556e57,1\n"},
-        // alpha = -(d ln R / d(1/T)) / T^2, and at 8e-215 K T^2 = 6.4e-429 is below the smallest double
-        // (4.9e-324), so it rounds to 0 and alpha is infinite (by hand); the R-T fuzzer found this.
-        {"a table point next to absolute zero",
+        // At 8e-215 K, T^2 = 6.4e-429 is below the smallest double (4.9e-324), so the table's alpha =
+        // -(d ln R / d(1/T)) / T^2 was infinite (by hand; the R-T fuzzer's second finding).
+        {"a temperature next to absolute zero",
          {"check", "--points", "-", "--model", "table", "--span", "8e-215K:298.15K", "--circuit", "divider-low", "--rs",
           "10k"},
-         "--span '8e-215K:298.15K': the model's temperature coefficient overflows a double at 8e-215 K; keep the span "
-         "well above absolute zero",
+         "stdin:2:1 '8e-215': is outside the range of an R-T point, 0.001 to 10000 K (a typing mistake?)",
          "t_k,r_ohm\n8e-215,97k\n273.15,32k\n298.15,10k\n"},
         {"a table model asked outside its points",
          {"model", "--points", "-", "--model", "table", "--span", "0:60"},

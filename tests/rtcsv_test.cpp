@@ -90,6 +90,12 @@ TEST_CASE("each malformed value is rejected with its file, line and column") {
         {"colder than absolute zero", "t_c,r_ohm\n0,32600\n-300,5e9\n",
          "room.csv:3:1 '-300': is at or below absolute zero (-273.15 C)"},
         {"zero kelvin", "t_k,r_ohm\n0,5e9\n", "room.csv:2:1 '0': is at or below absolute zero (-273.15 C)"},
+        // Just past the ends of an R-T point's range, 1 mK to 10 000 K (kMinPointK, kMaxPointK: our own
+        // limits; 9727 C is 10000.15 K).
+        {"below 1 mK", "t_k,r_ohm\n0.0009,5e9\n",
+         "room.csv:2:1 '0.0009': is outside the range of an R-T point, 0.001 to 10000 K (a typing mistake?)"},
+        {"above 10000 K", "t_c,r_ohm\n0,32600\n9727,1\n",
+         "room.csv:3:1 '9727': is outside the range of an R-T point, 0.001 to 10000 K (a typing mistake?)"},
         {"temperature not a number", "t_c,r_ohm\nwarm,32600\n",
          "room.csv:2:1 'warm': expected a temperature (a plain number)"},
         {"temperature with a unit", "t_c,r_ohm\n25C,10000\n",
@@ -104,6 +110,14 @@ TEST_CASE("each malformed value is rejected with its file, line and column") {
         INFO(c.what);
         CHECK(error_of(c.text) == c.message);
     }
+}
+
+TEST_CASE("an R-T point exactly at either end of the allowed range is read") {
+    // 0.001 K and 10000 K are kMinPointK and kMaxPointK themselves (our own limits).
+    const std::vector<RtPoint> pts = read_rt_points("t_k,r_ohm\n0.001,1e9\n10000,1\n", "room.csv");
+    REQUIRE(pts.size() == 2);
+    CHECK(pts[0].t_k == 0.001);
+    CHECK(pts[1].t_k == 10000.0);
 }
 
 TEST_CASE("a duplicate temperature is rejected at its later line, naming the earlier one") {

@@ -305,7 +305,11 @@ TEST_CASE("validate_points sorts the points and rejects too few, duplicates and 
          2,
          "t.csv '25 C': an NTC's resistance must fall strictly as temperature rises"},
         {{{273.15, -1.0}, {298.15, 10e3}}, 2, "t.csv '-1 ohm': resistances must be positive"},
-        {{{0.0, 30e3}, {298.15, 10e3}}, 2, "t.csv '-273.15 C': temperatures must be above absolute zero"},
+        {{{0.0, 30e3}, {298.15, 10e3}}, 2, "t.csv '-273.15 C': is at or below absolute zero (-273.15 C)"},
+        // Past 10 000 K, the top of an R-T point's range (kMaxPointK, our own limit).
+        {{{298.15, 10e3}, {2e4, 1.0}},
+         2,
+         "t.csv '19726.8 C': is outside the range of an R-T point, 0.001 to 10000 K (a typing mistake?)"},
     };
     for (const Case& c : cases) {
         INFO("expecting: " << c.message);

@@ -16,6 +16,16 @@ struct RtPoint {
     double r_ohm = 0.0;  // resistance, ohm
 };
 
+// The temperatures an R–T point may have: far beyond any thermistor's range on both sides (our own
+// choice), and well inside what the models' arithmetic keeps finite (1/T, T², the slopes of a table
+// between neighbouring points; without them a point at 1e-200 K or 1e57 °C reached the results as
+// infinity). A point outside is a typing mistake.
+inline constexpr double kMinPointK = 1e-3;  // 1 mK
+inline constexpr double kMaxPointK = 1e4;   // 10 000 K
+// Why a point's temperature is refused ("is at or below absolute zero ..." or "is outside ..."), or ""
+// when it lies within kMinPointK..kMaxPointK.
+[[nodiscard]] std::string point_temperature_problem(double t_k);
+
 // R(T) = r0·exp(b·(1/T − 1/t0)).
 struct BetaModel {
     double r0_ohm = 10e3;       // resistance at t0, ohm

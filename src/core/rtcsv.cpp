@@ -127,8 +127,8 @@ std::vector<RtPoint> read_rt_points(std::string_view text, const std::string& so
         } catch (const InputError&) {
             throw InputError(t_at, std::string(fields[t_col]), "expected a temperature (a plain number)");
         }
-        if (!(t_k > 0.0)) {
-            throw InputError(t_at, std::string(fields[t_col]), "is at or below absolute zero (-273.15 C)");
+        if (const std::string why = point_temperature_problem(t_k); !why.empty()) {
+            throw InputError(t_at, std::string(fields[t_col]), why);
         }
         double r = 0.0;
         if (r_unit == RUnit::ohm) {

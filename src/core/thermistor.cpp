@@ -230,6 +230,15 @@ void validate(const SteinhartHart& m) {
     }
 }
 
+std::string point_temperature_problem(double t_k) {
+    if (!(t_k > 0.0)) return "is at or below absolute zero (-273.15 C)";
+    if (!(t_k >= kMinPointK && t_k <= kMaxPointK)) {
+        return "is outside the range of an R-T point, " + format_number(kMinPointK) + " to " +
+               format_number(kMaxPointK) + " K (a typing mistake?)";
+    }
+    return "";
+}
+
 std::vector<RtPoint> validate_points(std::vector<RtPoint> points, std::size_t min_count, const std::string& source) {
     if (points.size() < min_count) {
         throw InputError(source, count_points(points.size()),
@@ -239,9 +248,8 @@ std::vector<RtPoint> validate_points(std::vector<RtPoint> points, std::size_t mi
         if (!std::isfinite(p.r_ohm) || p.r_ohm <= 0.0) {
             throw InputError(source, describe(p.r_ohm) + " ohm", "resistances must be positive");
         }
-        if (!std::isfinite(p.t_k) || p.t_k <= 0.0) {
-            throw InputError(source, describe(kelvin_to_celsius(p.t_k)) + " C",
-                             "temperatures must be above absolute zero");
+        if (const std::string why = point_temperature_problem(p.t_k); !why.empty()) {
+            throw InputError(source, describe(kelvin_to_celsius(p.t_k)) + " C", why);
         }
     }
     std::sort(points.begin(), points.end(), [](const RtPoint& a, const RtPoint& b) { return a.t_k < b.t_k; });
