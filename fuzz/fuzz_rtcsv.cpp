@@ -1,8 +1,8 @@
 // Fuzz target: the R-T CSV reader, and what the commands do next with its points (validation, the
 // table model, the Steinhart-Hart and beta fits, a grid over the points' span and a divider analysed
-// on it). Properties: points come back sorted with T within kMinPointK..kMaxPointK and R finite and positive, T rising
-// strictly and R falling strictly; a refusal is an InputError; whatever is accepted gives finite coefficients,
-// resistances, residuals and analysis figures (the numbers every command prints).
+// on it). Properties: points come back sorted, T within kMinPointK..kMaxPointK and rising strictly, R
+// finite, positive and falling strictly; a refusal is an InputError; whatever is accepted gives finite
+// coefficients, resistances, residuals and analysis figures (the numbers every command prints).
 #include <cmath>
 #include <cstddef>
 #include <cstdint>
