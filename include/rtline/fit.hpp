@@ -40,7 +40,4 @@ struct BetaFit {
 // 1/T = a + (1/B)·ln R with the same T² weights. Throws InputError if the points are degenerate.
 [[nodiscard]] BetaFit fit_beta(const std::vector<RtPoint>& points, double t0_k);
 
-// Residuals T_model(R) − T of a model at the points.
-[[nodiscard]] std::vector<Residual> residuals_of(const Thermistor& model, const std::vector<RtPoint>& points);
-
 }  // namespace rtline

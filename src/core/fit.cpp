@@ -20,24 +20,27 @@ double max_abs(const std::vector<Residual>& rs) {
 }
 
 // The residuals of a fitted model, refused when the model cannot give back the temperature of a point:
-// its temperature there is not a finite positive number (1/T at or below zero, as when a point typed at
-// 1e50 °C sits among ordinary ones), or, for a fit that passes through its points exactly, it misses one
-// by more than 1e-6·T (a well-posed three-point fit misses by about 1e-12·T; more means the points are
-// too far apart for double precision). Nothing such a model would print could be trusted.
+// its temperature there is not a finite positive number (1/T cancels to zero or below, as it did for a
+// point typed at 5.6e58 °C among ordinary ones), or, for a fit that passes through its points exactly,
+// it misses one by more than 1e-6·T (a well-posed three-point fit misses by about 1e-12·T; more means
+// the points are too far apart for double precision). Nothing such a model would print could be trusted.
 std::vector<Residual> usable_residuals(const Thermistor& model, const std::vector<RtPoint>& points, const char* what,
                                        bool exact) {
-    std::vector<Residual> rs = residuals_of(model, points);
-    for (const Residual& r : rs) {
-        const double t_model = model.temperature(r.r_ohm);
-        const bool missed = exact && !(std::abs(r.residual_k) <= 1e-6 * r.t_k);
+    std::vector<Residual> rs;
+    rs.reserve(points.size());
+    for (const RtPoint& p : points) {
+        const double t_model = model.temperature(p.r_ohm);
+        const double residual_k = t_model - p.t_k;
+        const bool missed = exact && !(std::abs(residual_k) <= 1e-6 * p.t_k);
         if (!std::isfinite(t_model) || !(t_model > 0.0) || missed) {
             throw InputError("--points", count_points(points.size()),
                              std::string("the ") + what + " fit cannot give back the temperature of the point at " +
-                                 format_number(kelvin_to_celsius(r.t_k)) +
+                                 format_number(kelvin_to_celsius(p.t_k)) +
                                  " \xC2\xB0"
                                  "C (" +
-                                 format_resistance(r.r_ohm) + " ohm); check the points' temperatures");
+                                 format_resistance(p.r_ohm) + " ohm); check the points' temperatures");
         }
+        rs.push_back({p.t_k, p.r_ohm, residual_k});
     }
     return rs;
 }
@@ -64,15 +67,6 @@ Eigen::VectorXd solve_scaled(Eigen::MatrixXd a, const Eigen::VectorXd& y, const 
 }
 
 }  // namespace
-
-std::vector<Residual> residuals_of(const Thermistor& model, const std::vector<RtPoint>& points) {
-    std::vector<Residual> out;
-    out.reserve(points.size());
-    for (const RtPoint& p : points) {
-        out.push_back({p.t_k, p.r_ohm, model.temperature(p.r_ohm) - p.t_k});
-    }
-    return out;
-}
 
 SteinhartHart steinhart_hart_three_point(const RtPoint& p1, const RtPoint& p2, const RtPoint& p3) {
     const double l1 = std::log(p1.r_ohm);
