@@ -33,11 +33,14 @@ struct BetaFit {
 
 // Steinhart–Hart through validated points (at least 3). Three points: exact. More: least squares on
 // 1/T = a + b·L + c·L³, each row weighted by T² so that it minimizes temperature residuals to first
-// order; ln R scaled and solved by column-pivoting QR. Throws InputError if the points are degenerate.
+// order; ln R scaled and solved by column-pivoting QR. Throws InputError if the points are degenerate,
+// if the coefficients turn back between the first and last point, or if the model cannot give back a
+// point's temperature (not finite and positive; for three points, missed by more than 1e-6·T).
 [[nodiscard]] ShFit fit_steinhart_hart(const std::vector<RtPoint>& points);
 
 // The beta model through validated points (at least 2), R0 stated at t0_k: least squares on
-// 1/T = a + (1/B)·ln R with the same T² weights. Throws InputError if the points are degenerate.
+// 1/T = a + (1/B)·ln R with the same T² weights. Throws InputError if the points are degenerate, if B
+// is not positive or R0 not a normal double, or if the model cannot give back a point's temperature.
 [[nodiscard]] BetaFit fit_beta(const std::vector<RtPoint>& points, double t0_k);
 
 }  // namespace rtline
