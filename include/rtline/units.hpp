@@ -40,6 +40,9 @@ struct Span {
 // Parses "LO:HI" (each a temperature as parse_temperature takes it; "-30:5" works). Requires LO < HI.
 [[nodiscard]] Span parse_span(std::string_view text, std::string_view field);
 
+// A span as "LO:HI" in °C ("0:50"), as parse_span reads it back and as error messages quote it.
+[[nodiscard]] std::string format_span(const Span& span);
+
 // Formats a resistance in the letter code with `digits` significant figures, trailing zeros dropped:
 // 4700 -> "4k7", 10000 -> "10k", 2.2 -> "2R2", 470 -> "470", 1.5e6 -> "1M5", 18513.4 (4) -> "18k51";
 // below 1 mΩ or from 1 TΩ up in exponent form ("1e-06", "2.5e+12"), which parse_resistance reads too.

@@ -33,15 +33,6 @@ std::vector<double> span_temperatures(const Span& span, double step_k) {
     return t;
 }
 
-namespace {
-
-// A span as the errors quote it, in °C: "0:50".
-std::string span_text(const Span& span) {
-    return format_number(kelvin_to_celsius(span.lo_k)) + ":" + format_number(kelvin_to_celsius(span.hi_k));
-}
-
-}  // namespace
-
 Grid make_grid(const Thermistor& model, const Span& span, double step_k) {
     model.check_span(span, "--span");
     Grid g;
@@ -53,7 +44,7 @@ Grid make_grid(const Thermistor& model, const Span& span, double step_k) {
         // number: −B/T² overflows within about 1e-154 K of absolute zero, where an R-T table can still
         // place a point (the R-T fuzzer's input had one at 8e-215 K).
         if (!std::isfinite(model.alpha(t))) {
-            throw InputError("--span", span_text(span),
+            throw InputError("--span", format_span(span),
                              "the model's temperature coefficient overflows a double at " + format_number(t) +
                                  " K; keep the span well above absolute zero");
         }

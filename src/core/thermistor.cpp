@@ -313,8 +313,7 @@ std::string Thermistor::kind() const {
 }
 
 void Thermistor::check_span(const Span& span, const std::string& field) const {
-    const std::string text =
-        format_number(kelvin_to_celsius(span.lo_k)) + ":" + format_number(kelvin_to_celsius(span.hi_k));
+    const std::string text = format_span(span);
     if (const auto* table = std::get_if<TableModel>(&model_)) {
         const double tol = 1e-9;
         if (span.lo_k < table->t_min_k() - tol || span.hi_k > table->t_max_k() + tol) {

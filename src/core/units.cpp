@@ -212,6 +212,10 @@ Span parse_span(std::string_view text, std::string_view field) {
     return span;
 }
 
+std::string format_span(const Span& span) {
+    return format_number(kelvin_to_celsius(span.lo_k)) + ":" + format_number(kelvin_to_celsius(span.hi_k));
+}
+
 std::string format_number(double value, int digits) {
     char buffer[64];
     std::snprintf(buffer, sizeof buffer, "%.*g", digits, value);
