@@ -36,12 +36,13 @@ Invocation read_invocation(int argc, char** argv, CLI::App& app) {
             inv.args.push_back(a);
         } else if (!inv.command.empty() && a == "--jsonl") {
             inv.jsonl = true;
-        } else if (!inv.command.empty() && a == "--spec") {
-            if (i + 1 >= argc) throw rtline::InputError("--spec", "", "needs a file name ('-' for stdin)");
-            inv.spec_path = argv[++i];
-            if (inv.spec_path.empty()) throw rtline::InputError("--spec", "", "needs a file name ('-' for stdin)");
-        } else if (!inv.command.empty() && a.rfind("--spec=", 0) == 0) {
-            inv.spec_path = a.substr(7);
+        } else if (!inv.command.empty() && (a == "--spec" || a.rfind("--spec=", 0) == 0)) {
+            // --spec FILE or --spec=FILE; a missing or empty name would read as "no spec".
+            if (a == "--spec") {
+                inv.spec_path = i + 1 < argc ? argv[++i] : "";
+            } else {
+                inv.spec_path = a.substr(7);
+            }
             if (inv.spec_path.empty()) throw rtline::InputError("--spec", "", "needs a file name ('-' for stdin)");
         } else {
             inv.args.push_back(a);
