@@ -8,7 +8,7 @@
 #include <string>
 #include <vector>
 
-#include "../src/core/budget_channel.hpp"
+#include "budget/budget_channel.hpp"
 #include "rtline/budget.hpp"
 #include "rtline/error.hpp"
 #include "support.hpp"

@@ -1,4 +1,4 @@
-// The search kernels (src/core/search_kernels.hpp) against operate() and max_nonlinearity_pct_fsd(),
+// The search kernels (src/core/circuit/search_kernels.hpp) against operate() and max_nonlinearity_pct_fsd(),
 // which the circuit tests hold to ngspice and the line tests to numpy: a kernel must give their values
 // bit for bit, for every topology, drive and load, or a search would rank differently from a check.
 #include <doctest/doctest.h>
@@ -9,7 +9,7 @@
 #include <vector>
 
 #include "rtline/sizing.hpp"
-#include "search_kernels.hpp"
+#include "circuit/search_kernels.hpp"
 
 using namespace rtline;
 

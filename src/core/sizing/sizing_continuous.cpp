@@ -10,7 +10,7 @@
 #include "parallel.hpp"
 #include "rtline/error.hpp"
 #include "rtline/sizing.hpp"
-#include "search_kernels.hpp"
+#include "circuit/search_kernels.hpp"
 
 namespace rtline {
 

@@ -1,4 +1,4 @@
-#include "search_kernels.hpp"
+#include "circuit/search_kernels.hpp"
 
 #include <cmath>
 

@@ -8,7 +8,7 @@
 #include <limits>
 #include <numbers>
 
-#include "budget_channel.hpp"
+#include "budget/budget_channel.hpp"
 #include "rtline/error.hpp"
 
 namespace rtline::budget_detail {

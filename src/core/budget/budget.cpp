@@ -5,7 +5,7 @@
 #include <limits>
 #include <thread>
 
-#include "budget_channel.hpp"
+#include "budget/budget_channel.hpp"
 #include "rtline/error.hpp"
 
 namespace rtline {
