@@ -332,4 +332,31 @@ void add_output_options(CLI::App& app, OutputOptions& o) {
         ->group("Output");
 }
 
+// ------------------------------------------------------------------------------ converter
+
+void add_adc_transfer_option(CLI::App& app, std::string& text, const std::string& group) {
+    app.add_option("--adc-transfer", text,
+                   "Which ratio code k stands for: rounding (k/2^N, the default), truncating ((k + 1/2)/2^N) "
+                   "or full-scale (k/(2^N - 1))")
+        ->group(group);
+}
+
+AdcTransfer build_adc_transfer(const std::string& text) {
+    return text.empty() ? AdcTransfer::rounding : parse_adc_transfer(text, "--adc-transfer");
+}
+
+std::string describe_adc_transfer(AdcTransfer t, int bits) {
+    const std::string full = std::to_string(1LL << bits);
+    const std::string top = std::to_string((1LL << bits) - 1);
+    switch (t) {
+        case AdcTransfer::rounding:
+            return "rounding: code k is the ratio k/" + full + " of the reference (transitions at k - 1/2 LSB)";
+        case AdcTransfer::truncating:
+            return "truncating: code k covers k to k + 1 LSB of " + full + ", so it stands for (k + 1/2)/" + full;
+        case AdcTransfer::full_scale:
+            return "full-scale: the top code is the reference, code k is the ratio k/" + top;
+    }
+    return "";
+}
+
 }  // namespace rtline::cli

@@ -9,6 +9,7 @@
 
 #include "report.hpp"
 #include "rtline/analysis.hpp"
+#include "rtline/converter.hpp"
 #include "rtline/grid.hpp"
 #include "rtline/thermistor.hpp"
 
@@ -80,6 +81,13 @@ void add_output_options(CLI::App& app, OutputOptions& o);
 // Parses an optional positive quantity flag ("" → `fallback`).
 [[nodiscard]] double optional_quantity(const std::string& text, const std::string& field, const std::string& unit,
                                        double fallback);
+
+// --adc-transfer (default rounding): which ratio a converter code stands for; in `group`.
+void add_adc_transfer_option(CLI::App& app, std::string& text, const std::string& group);
+[[nodiscard]] AdcTransfer build_adc_transfer(const std::string& text);
+// The transfer in words for reports and the C header, e.g. "rounding: code k is the ratio k/4096 of the
+// reference (transitions at k - 1/2 LSB)".
+[[nodiscard]] std::string describe_adc_transfer(AdcTransfer t, int bits);
 
 // "25.00 °C" style label and °C formatting helpers for text output.
 [[nodiscard]] std::string celsius(double t_k, int decimals = 2);
