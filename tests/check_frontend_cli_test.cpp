@@ -117,3 +117,18 @@ TEST_CASE("front end misuse is one line on stderr, exit 2, nothing on stdout") {
     refused({"--gain", "0"}, "--gain '0': the gain must be a finite number other than 0");
     refused({"--gain", "10", "--sample-cap", "10p"}, "--acquisition: the settling needs the acquisition time too");
 }
+
+TEST_CASE("a current-driven bare thermistor reaches the converter as I times R_T") {
+    const json j =
+        run_json(check({"--span", "15:35", "--step", "10", "--circuit", "bare", "--current", "100u", "--adc-ref", "2.5",
+                        "--adc-bits", "12", "--sample-cap", "10p", "--acquisition", "2u", "--format", "json"}));
+    const json& fe = j["front_end"];
+    CHECK(fe["full_scale"].get<double>() == 2.5);
+    for (const json& p : fe["points"]) {
+        // Ohm's law with the beta equation: 100 µA × R_T (1 V at 25 °C); the source is R_T itself.
+        const double r_t = r_beta(p["t_c"].get<double>());
+        CHECK(p["converter_input"].get<double>() == doctest::Approx(100e-6 * r_t).epsilon(1e-12));
+        CHECK(p["source_ohm"].get<double>() == doctest::Approx(r_t).epsilon(1e-12));
+    }
+    CHECK(fe["points"][1]["converter_input"].get<double>() == doctest::Approx(1.0).epsilon(1e-12));
+}

@@ -232,7 +232,7 @@ std::string front_end_text(const FrontEndReport& r, const Circuit& c) {
          "\n";
     const Largest z = largest(r, &SourceImpedance::out_ohm);
     t += "largest source          " + format_resistance(z.value, 4) + " ohm at " + celsius(z.t_k) + " " + kDeg +
-         (bridge ? " (between A and B)" : "") + "\n";
+         (bridge ? " (between A and B)" : "") + (r.amplifier ? ", at the amplifier's input" : "") + "\n";
     if (r.sampling) {
         const auto [worst, at] = worst_settling(r);
         const Sampling& s = *r.sampling;
