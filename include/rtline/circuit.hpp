@@ -74,6 +74,16 @@ struct OperatingPoint {
 [[nodiscard]] OperatingPoint operate(const Circuit& c, double r_t);
 [[nodiscard]] double output(const Circuit& c, double r_t);
 
+// The network's Thevenin source impedance at its output for thermistor resistance r_t, ohm: the drive
+// set to zero (a voltage source shorted, a current source open), the load included. What an amplifier's
+// input bias current or a converter's sampling capacitor sees.
+struct SourceImpedance {
+    double out_ohm = 0.0;  // at the output: to ground, or between A and B for bridges (differential)
+    double a_ohm = 0.0;    // bridges: node A to ground; otherwise the output to ground (= out_ohm)
+    double b_ohm = 0.0;    // bridges: node B to ground; otherwise 0 (the amplifier's other input is ground)
+};
+[[nodiscard]] SourceImpedance source_impedance(const Circuit& c, double r_t);
+
 // Resistance of a ∥ b, ohm (an infinite resistance is an open circuit).
 [[nodiscard]] double parallel(double a, double b);
 

@@ -1,9 +1,11 @@
 // rtline check: a candidate network analysed point by point against a straight reference line.
 #include <cmath>
+#include <iostream>
 #include <memory>
 
 #include "commands.hpp"
 #include "common.hpp"
+#include "frontend_report.hpp"
 #include "pictures.hpp"
 #include "rtline/analysis.hpp"
 #include "rtline/error.hpp"
@@ -20,6 +22,7 @@ struct CheckCommand {
     std::string line = "endpoint";
     OutputOptions out;
     std::string svg;  // --svg FILE
+    FrontEndOptions front_end;
 };
 
 std::string line_description(LineKind k) {
@@ -59,6 +62,8 @@ void run_check(const CheckCommand& o) {
     const Analysis a = analyze(grid, thermistor, circuit, line, dissipation_w_per_k);
     const std::string unit = output_unit(circuit);
     const bool ratiometric = circuit.excitation.drive == Drive::ratiometric;
+    std::optional<FrontEndReport> fe;
+    if (o.front_end.given()) fe = front_end_report(o.front_end, circuit, a, grid);
 
     std::string bytes;
     if (format == Format::json) {
@@ -84,6 +89,7 @@ void run_check(const CheckCommand& o) {
                            {"self_heating_k", number(p.self_heating_k)}});
         }
         doc["points"] = pts;
+        if (fe) doc["front_end"] = front_end_json(*fe, circuit);
         bytes = dump(doc);
     } else {
         const bool csv = format == Format::csv;
@@ -105,7 +111,9 @@ void run_check(const CheckCommand& o) {
                                     {"self-heating (K)", "self_heating_k", 4}};
         // CSV has no place for a title, so each row names the line its ideal and deviation refer to.
         if (csv) columns.push_back({"line", "line"});
+        if (csv && fe) add_front_end_columns(columns, circuit);
         Table table(columns);
+        std::size_t i = 0;
         for (const PointResult& p : a.points) {
             std::vector<Cell> row{kelvin_to_celsius(p.t_k),
                                   p.r_t_ohm,
@@ -117,6 +125,8 @@ void run_check(const CheckCommand& o) {
                                   csv ? p.power_w : 1e3 * p.power_w,
                                   p.self_heating_k};
             if (csv) row.emplace_back(std::string(line_name(line)));
+            if (csv && fe) add_front_end_cells(row, *fe, circuit, i);
+            ++i;
             table.add_row(std::move(row));
         }
         if (csv) {
@@ -144,12 +154,16 @@ void run_check(const CheckCommand& o) {
                 t += "largest self-heating    " + format_number(s.max_self_heating_k, 4) + " K (dissipation constant " +
                      format_number(1e3 * dissipation_w_per_k) + " mW/K)\n";
             }
+            if (fe) t += front_end_text(*fe, circuit);
             bytes = t;
         }
     }
     std::vector<Output> outputs{{o.out.output, bytes, "-o"}};
     if (!o.svg.empty()) outputs.push_back({o.svg, svg::render(check_figure(thermistor, circuit, a)), "--svg"});
     emit_all(outputs);
+    if (fe) {
+        for (const std::string& w : fe->warnings) std::cerr << "rtline: " << w << "\n";
+    }
 }
 
 }  // namespace
@@ -163,15 +177,19 @@ void setup_check(CLI::App& app) {
     sub->add_option("--dissipation", opt->dissipation, "Thermistor dissipation constant, mW/K (for self-heating)")
         ->group("Circuit");
     sub->add_option("--line", opt->line, "Reference line: endpoint (default), best-fit or minimax")->group("Analysis");
+    add_front_end_options(*sub, opt->front_end);
     add_output_options(*sub, opt->out);
     add_svg_option(*sub, opt->svg);
-    sub->footer(std::string("Example:\n"
-                            "  rtline check --r25 10k --beta 3950 --span 0:45 --step 5 --circuit divider-low --rs 5k6\n"
-                            "  rtline check --r25 10k --beta 3950 --span -20:60 --circuit bridge --r1 10k --load 100k "
-                            "--excitation 3.3 --format json\n"
-                            "Nonlinearity = (output - line) / |output(T_hi) - output(T_lo)| x 100 %FSD; "
-                            "error = deviation / line slope.\n\n") +
-                kSafetyNote);
+    sub->footer(
+        std::string("Example:\n"
+                    "  rtline check --r25 10k --beta 3950 --span 0:45 --step 5 --circuit divider-low --rs 5k6\n"
+                    "  rtline check --r25 10k --beta 3950 --span -20:60 --circuit bridge --r1 10k --load 100k "
+                    "--excitation 3.3 --format json\n"
+                    "  rtline check --r25 10k --beta 3950 --span -20:60 --circuit bridge --r1 10k --excitation 3.3 "
+                    "--auto-range --sample-cap 10p --acquisition 1u\n"
+                    "Nonlinearity = (output - line) / |output(T_hi) - output(T_lo)| x 100 %FSD; "
+                    "error = deviation / line slope.\n\n") +
+        kSafetyNote);
     sub->callback([opt] { run_check(*opt); });
 }
 

@@ -78,7 +78,54 @@ PerVolt per_volt(const Circuit& c, double r_t) {
     return {0.0, 0.0, 0.0};
 }
 
+// The network with its drive set to zero, seen from the output. A divider is an upper part (drive to
+// output) over a lower part (output to ground, the load across it); a shorted voltage source puts the
+// upper part in parallel, an open current source leaves it hanging. A bridge's sides are r1 over Rx
+// (node A) and r2 over r3 (node B), the load between A and B.
+SourceImpedance zeroed_drive(const Circuit& c, double r_t) {
+    const bool current = c.excitation.drive == Drive::current;
+    auto divider = [&](double upper, double lower) {
+        const double z = current ? lower : parallel(upper, lower);
+        return SourceImpedance{z, z, 0.0};
+    };
+    switch (c.topology) {
+        case Topology::bare:
+        case Topology::shunt: {
+            // The output is the top node itself: the network's resistance (a current drive is open).
+            const double z = per_volt(c, r_t).rin;
+            return {z, z, 0.0};
+        }
+        case Topology::divider_high: return divider(r_t, parallel(c.rs, c.load_ohm));
+        case Topology::divider_low: return divider(c.rs, parallel(r_t, c.load_ohm));
+        case Topology::shunt_divider: return divider(parallel(r_t, c.rp), parallel(c.rs, c.load_ohm));
+        case Topology::bridge:
+        case Topology::shunt_bridge: {
+            const double rx = c.topology == Topology::shunt_bridge ? parallel(r_t, c.rp) : r_t;
+            const double rl = c.load_ohm;
+            if (!current) {
+                // The top node is ground: A sees r1 ∥ Rx, B sees r2 ∥ r3, the load between them.
+                const double ra = parallel(c.r1, rx);
+                const double rb = parallel(c.r2, c.r3);
+                return {parallel(ra + rb, rl), parallel(ra, rl + rb), parallel(rb, rl + ra)};
+            }
+            // The top node floats: the delta r1, r2, load (top, A, B) becomes a star whose top leg
+            // dangles, leaving legs sa (A) and sb (B) in series between A and B.
+            double sa = c.r1;
+            double sb = c.r2;
+            if (std::isfinite(rl)) {
+                const double sum = c.r1 + c.r2 + rl;
+                sa = c.r1 * rl / sum;
+                sb = c.r2 * rl / sum;
+            }
+            return {parallel(sa + sb, rx + c.r3), parallel(rx, sa + sb + c.r3), parallel(c.r3, sa + sb + rx)};
+        }
+    }
+    return {};
+}
+
 }  // namespace
+
+SourceImpedance source_impedance(const Circuit& c, double r_t) { return zeroed_drive(c, r_t); }
 
 std::string_view topology_name(Topology t) {
     for (const Named& n : kNames) {

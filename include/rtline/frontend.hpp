@@ -1,0 +1,91 @@
+// The analog front end between the network and the converter: an amplifier stage (gain and output
+// offset; differential across a bridge's A and B, single-ended otherwise), the gain and offset that map
+// a span onto the converter's range, the amplifier's error terms, and the converter's input settling
+// against the source impedance that drives it.
+#pragma once
+
+#include <optional>
+
+#include "rtline/circuit.hpp"
+#include "rtline/converter.hpp"
+#include "rtline/grid.hpp"
+#include "rtline/units.hpp"
+
+namespace rtline {
+
+// An amplifier: out = gain·in + offset, `in` the network's output (V_A − V_B for bridges). Units are
+// the circuit's output unit: volts, or V/V of the excitation when ratiometric (the offset then is a
+// fraction of the excitation, as a reference derived from it is).
+struct Amplifier {
+    double gain = 1.0;        // V/V, finite and nonzero (negative: the inputs swapped)
+    double offset = 0.0;      // output offset, the reference the output sits on
+    double output_ohm = 0.0;  // output resistance into the converter, series resistor included; 0 = ideal
+};
+
+// Checks that the converter can read this circuit through `amp` (none: directly): a bridge needs an
+// amplifier (its output is a difference), and a bare or shunt thermistor needs a current drive (its
+// output is otherwise a resistance). Also checks the amplifier's own numbers. Throws InputError.
+void validate_front_end(const Circuit& c, const std::optional<Amplifier>& amp);
+
+// The value at the converter input for thermistor resistance r_t: the network's output, through the
+// amplifier when there is one. In output_unit(c).
+[[nodiscard]] double converter_input(const Circuit& c, const std::optional<Amplifier>& amp, double r_t);
+
+// The amplifier that maps the network's outputs over the grid onto [h·fs, (1 − h)·fs]: the lowest
+// output to h·fs and the highest to (1 − h)·fs, positive gain (the output keeps its sense), with the
+// resulting converter input at the span's low and high ends. fs is the converter's full scale in the
+// output unit (1 when ratiometric), h the headroom at each end. Requires fs > 0, 0 ≤ h < 0.5, and
+// outputs that change over the grid; throws InputError naming "--headroom" or "--auto-range".
+struct RangeFit {
+    Amplifier amplifier;
+    double at_lo = 0.0;  // converter input at the span's low end
+    double at_hi = 0.0;  // and at its high end
+};
+[[nodiscard]] RangeFit fit_range(const Circuit& c, const Grid& grid, double full_scale, double headroom);
+
+// The amplifier's error terms, each a bound (±): what the budget takes as causes.
+struct AmplifierErrors {
+    double gain_error = 0.0;             // fraction of the gain (0.001 = 0.1 %)
+    double offset_v = 0.0;               // input offset voltage at reference_t_k, V
+    double offset_drift_v_per_k = 0.0;   // its drift, V/K
+    double reference_t_k = k25CelsiusK;  // where offset_v is stated
+    double bias_current_a = 0.0;         // input bias current into each input, A
+    double offset_current_a = 0.0;       // difference between the two inputs' bias currents, A
+};
+
+// The output shift, volts, each term causes at one operating point, signed as the terms are given.
+struct AmplifierShift {
+    double gain_v = 0.0;    // gain_error·gain·in
+    double offset_v = 0.0;  // gain·V_os
+    double drift_v = 0.0;   // gain·drift·(T_board − T_ref)
+    double bias_v = 0.0;    // −gain·(I_b·(Z_A − Z_B) + I_os/2·Z_AB), the bias currents through the source
+    [[nodiscard]] double total() const { return gain_v + offset_v + drift_v + bias_v; }
+};
+// `in_v` the network's output in volts, `z` its source impedance there (source_impedance()),
+// `board_t_k` the amplifier's temperature.
+[[nodiscard]] AmplifierShift amplifier_shift(const Amplifier& amp, const AmplifierErrors& e, double in_v,
+                                             const SourceImpedance& z, double board_t_k);
+
+// The converter's sampling input: a capacitor that charges through the source during the acquisition.
+struct Sampling {
+    int bits = 12;                                 // resolution, 1..24
+    AdcTransfer transfer = AdcTransfer::rounding;  // sets the steps of full scale one LSB is
+    double capacitance_f = 0.0;                    // sampling capacitor, F (> 0)
+    double acquisition_s = 0.0;                    // acquisition time, s (> 0)
+};
+// Checks bits, capacitance and time; throws InputError naming "--adc-bits", "--sample-cap" or
+// "--acquisition".
+void validate(const Sampling& s);
+
+inline constexpr double kSettlingLimitLsb = 0.5;  // a sample within ½ LSB has settled (common practice)
+
+// The error left at the end of the acquisition when the sampling capacitor charges a full-scale step
+// through source_ohm, in LSB: steps·exp(−t_acq/(R·C_s)) (first-order RC charge, common practice).
+[[nodiscard]] double settling_error_lsb(const Sampling& s, double source_ohm);
+// The acquisition time that settles a full-scale step to ½ LSB through source_ohm: R·C_s·ln(2·steps).
+[[nodiscard]] double settling_time_s(const Sampling& s, double source_ohm);
+// The filter capacitor at the converter input that holds the charge-sharing step C_s/(C_s + C_f) of a
+// full-scale step to ½ LSB: C_f = C_s·(2·steps − 1) (common practice).
+[[nodiscard]] double filter_capacitance_f(const Sampling& s);
+
+}  // namespace rtline

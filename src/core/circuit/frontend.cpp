@@ -1,0 +1,101 @@
+#include "rtline/frontend.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <string>
+
+#include "rtline/error.hpp"
+
+namespace rtline {
+
+void validate_front_end(const Circuit& c, const std::optional<Amplifier>& amp) {
+    const std::string topo(topology_name(c.topology));
+    if (gives_resistance(c.topology) && c.excitation.drive != Drive::current) {
+        throw InputError("--current", "",
+                         "the " + topo +
+                             " circuit's output is a resistance; a converter reads it through a current "
+                             "drive (give --current)");
+    }
+    if (is_bridge(c.topology) && !amp) {
+        throw InputError("--gain", "",
+                         "the " + topo +
+                             " circuit's output is the difference V_A - V_B; a converter reads it "
+                             "through an amplifier (give --gain or --auto-range)");
+    }
+    if (!amp) return;
+    if (!std::isfinite(amp->gain) || amp->gain == 0.0) {
+        throw InputError("--gain", describe(amp->gain), "the gain must be a finite number other than 0");
+    }
+    if (!std::isfinite(amp->offset)) throw InputError("--offset", describe(amp->offset), "must be a finite number");
+    if (!std::isfinite(amp->output_ohm) || amp->output_ohm < 0.0) {
+        throw InputError("--amp-output", describe(amp->output_ohm), "the output resistance must be 0 or more");
+    }
+}
+
+double converter_input(const Circuit& c, const std::optional<Amplifier>& amp, double r_t) {
+    const double v = output(c, r_t);
+    return amp ? amp->gain * v + amp->offset : v;
+}
+
+RangeFit fit_range(const Circuit& c, const Grid& grid, double full_scale, double headroom) {
+    if (!(headroom >= 0.0 && headroom < 0.5)) {
+        throw InputError("--headroom", describe(100.0 * headroom), "the headroom at each end must be 0 to under 50 %");
+    }
+    if (!(full_scale > 0.0) || !std::isfinite(full_scale)) {
+        throw InputError("--adc-ref", describe(full_scale), "the converter's full scale must be positive");
+    }
+    double lo = INFINITY;
+    double hi = -INFINITY;
+    for (const double r : grid.r_ohm) {
+        const double v = output(c, r);
+        lo = std::min(lo, v);
+        hi = std::max(hi, v);
+    }
+    if (!(hi > lo)) throw InputError("--auto-range", "", "the network's output does not change over the span");
+    RangeFit fit;
+    fit.amplifier.gain = (1.0 - 2.0 * headroom) * full_scale / (hi - lo);
+    fit.amplifier.offset = headroom * full_scale - fit.amplifier.gain * lo;
+    const std::optional<Amplifier> amp = fit.amplifier;
+    fit.at_lo = converter_input(c, amp, grid.r_ohm.front());
+    fit.at_hi = converter_input(c, amp, grid.r_ohm.back());
+    return fit;
+}
+
+AmplifierShift amplifier_shift(const Amplifier& amp, const AmplifierErrors& e, double in_v, const SourceImpedance& z,
+                               double board_t_k) {
+    AmplifierShift s;
+    s.gain_v = e.gain_error * amp.gain * in_v;
+    s.offset_v = amp.gain * e.offset_v;
+    s.drift_v = amp.gain * e.offset_drift_v_per_k * (board_t_k - e.reference_t_k);
+    // Currents I_b ± I_os/2 into the two inputs: each input drops its own current through its node's
+    // impedance and the other's through the shared part; what remains across the pair is
+    // I_b·(Z_A − Z_B) + I_os/2·(Z_A + Z_B − 2·Z_AB) with Z_A + Z_B − 2·Z_AB the differential impedance.
+    s.bias_v = -amp.gain * (e.bias_current_a * (z.a_ohm - z.b_ohm) + 0.5 * e.offset_current_a * z.out_ohm);
+    return s;
+}
+
+void validate(const Sampling& s) {
+    if (s.bits < 1 || s.bits > 24) {
+        throw InputError("--adc-bits", std::to_string(s.bits), "a converter has 1 to 24 bits");
+    }
+    if (!(s.capacitance_f > 0.0) || !std::isfinite(s.capacitance_f)) {
+        throw InputError("--sample-cap", describe(s.capacitance_f), "the sampling capacitance must be positive");
+    }
+    if (!(s.acquisition_s > 0.0) || !std::isfinite(s.acquisition_s)) {
+        throw InputError("--acquisition", describe(s.acquisition_s), "the acquisition time must be positive");
+    }
+}
+
+double settling_error_lsb(const Sampling& s, double source_ohm) {
+    const double tau = source_ohm * s.capacitance_f;
+    if (!(tau > 0.0)) return 0.0;  // an ideal source settles at once
+    return adc_steps(s.bits, s.transfer) * std::exp(-s.acquisition_s / tau);
+}
+
+double settling_time_s(const Sampling& s, double source_ohm) {
+    return source_ohm * s.capacitance_f * std::log(2.0 * adc_steps(s.bits, s.transfer));
+}
+
+double filter_capacitance_f(const Sampling& s) { return s.capacitance_f * (2.0 * adc_steps(s.bits, s.transfer) - 1.0); }
+
+}  // namespace rtline
