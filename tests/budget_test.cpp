@@ -35,7 +35,7 @@ rtline::Circuit divider_low(double rs) {
 // A spec with every tolerance off and no Monte Carlo; tests switch on what they need.
 rtline::BudgetSpec nothing() {
     rtline::BudgetSpec s;
-    s.tolerance = {0.0, 0.0, 0.0, 0.0};
+    s.tolerance = rtline::Tolerances{0.0, 0.0, 0.0, 0.0};
     s.trials = 0;
     return s;
 }
@@ -94,13 +94,13 @@ TEST_CASE("a B-value tolerance alone, model reading: the worst case is the exact
             const double exact = std::max(std::abs(up), std::abs(down));
             CAPTURE(rtline::kelvin_to_celsius(t));
             CHECK(p.worst_case_k == doctest::Approx(exact).epsilon(1e-9));
-            CHECK(p.components.beta_k == doctest::Approx(exact).epsilon(1e-9));
+            CHECK(p.components[rtline::Cause::beta] == doctest::Approx(exact).epsilon(1e-9));
             const double u = d * std::abs(kT0 - t) / kT0;
             const double first_order = d * t * std::abs(kT0 - t) / kT0;
             CHECK(std::abs(p.worst_case_k - first_order) <= 1.01 * u * first_order / (1.0 - u) + 1e-12);
-            CHECK(p.components.r25_k == 0.0);
-            CHECK(p.components.resistors_k == 0.0);
-            CHECK(std::isnan(p.components.nonlinearity_k));
+            CHECK(p.components[rtline::Cause::r25] == 0.0);
+            CHECK(p.components[rtline::Cause::resistors] == 0.0);
+            CHECK(std::isnan(p.components[rtline::Cause::nonlinearity]));
         }
     }
 }
@@ -119,7 +119,7 @@ TEST_CASE("an R25 tolerance alone, model reading: the error is (dR/R)/|alpha| to
                                       std::abs(1.0 / (1.0 / t + std::log1p(-d) / kB) - t));
         CAPTURE(rtline::kelvin_to_celsius(t));
         CHECK(p.worst_case_k == doctest::Approx(exact).epsilon(1e-9));
-        CHECK(p.components.r25_k == doctest::Approx(d * t * t / kB).epsilon(0.006));
+        CHECK(p.components[rtline::Cause::r25] == doctest::Approx(d * t * t / kB).epsilon(0.006));
     }
 }
 
@@ -223,7 +223,7 @@ TEST_CASE("the line reading with zero tolerances equals rtline check's endpoint-
             const json& p = budget["points"][i];
             CAPTURE(p["t_c"].get<double>());
             CHECK(std::abs(p["worst_case_c"].get<double>() - std::abs(e)) < 1e-9);
-            CHECK(std::abs(p["components_c"]["nonlinearity"].get<double>() - std::abs(e)) < 1e-9);
+            CHECK(std::abs(p["components"]["nonlinearity_c"].get<double>() - std::abs(e)) < 1e-9);
             CHECK(std::abs(p["mc"]["mean_c"].get<double>() - e) < 1e-9);
             CHECK(p["mc"]["std_c"].get<double>() == 0.0);
         }
@@ -309,8 +309,8 @@ TEST_CASE("a converter's resolution is one LSB over the output's slope, and its 
         const double slope = 10e3 * r * (kB / (t * t)) / ((r + 10e3) * (r + 10e3));
         CAPTURE(rtline::kelvin_to_celsius(t));
         CHECK(p.resolution_k_per_lsb == doctest::Approx(1.0 / 4096.0 / slope).epsilon(1e-6));
-        CHECK(p.components.adc_k == doctest::Approx(2.0 * p.resolution_k_per_lsb).epsilon(0.01));
-        CHECK(p.worst_case_k == doctest::Approx(p.components.adc_k).epsilon(1e-9));
+        CHECK(p.components[rtline::Cause::quantization] == doctest::Approx(2.0 * p.resolution_k_per_lsb).epsilon(0.01));
+        CHECK(p.worst_case_k == doctest::Approx(p.components[rtline::Cause::quantization]).epsilon(1e-9));
     }
 }
 
@@ -356,10 +356,22 @@ TEST_CASE("the JSON carries the issue's keys, the assumptions, and null where a 
     CHECK(j["assumptions"]["tolerances_pct"]["excitation"].is_null());
     for (const char* key : {"worst_case_c", "p99_7_c", "at_t_c"}) CHECK(j["summary"][key].is_number());
     const json& p = j["points"][0];
-    for (const char* key : {"t_c", "worst_case_c", "resolution_c_per_lsb"}) CHECK(p.contains(key));
-    for (const char* key : {"mean_c", "std_c", "p95_c", "p99_7_c", "max_abs_c"}) CHECK(p["mc"][key].is_number());
-    for (const char* key : {"r25", "beta", "resistors"}) CHECK(p["components_c"][key].is_number());
-    for (const char* key : {"nonlinearity", "adc", "self_heating"}) CHECK(p["components_c"][key].is_null());
+    for (const char* key : {"t_c", "worst_case_c", "worst_low_c", "worst_high_c", "resolution_c_per_lsb"}) {
+        CHECK(p.contains(key));
+    }
+    for (const char* key :
+         {"mean_c", "std_c", "p95_c", "p99_7_c", "max_abs_c", "p0_135_c", "p2_5_c", "p97_5_c", "p99_865_c"}) {
+        CHECK(p["mc"][key].is_number());
+    }
+    for (const char* key : {"r25_c", "beta_c", "resistors_c"}) CHECK(p["components"][key].is_number());
+    for (const char* key : {"nonlinearity_c", "model_error_c", "thermistor_dt_c", "drift_c", "resistor_drift_c",
+                            "lead_c", "excitation_c", "reference_c", "adc_offset_c", "adc_gain_c", "adc_inl_c",
+                            "quantization_c", "self_heating_c"}) {
+        CHECK(p["components"][key].is_null());
+    }
+    CHECK(j["assumptions"]["truncated_at_tolerance"] == false);
+    CHECK(j["assumptions"]["board_temperature"] == "sensed");
+    CHECK(j["assumptions"]["lead"].is_null());
     CHECK(p["resolution_c_per_lsb"].is_null());
 
     const json none = run_json(with(design(), {"--trials", "0"}));
@@ -372,15 +384,21 @@ TEST_CASE("the text output has a table per temperature with units, then the summ
     REQUIRE(r.code == 0);
     for (const char* header : {"T (\xC2\xB0"
                                "C)",
-                               "worst case (\xC2\xB0"
+                               "worst low (\xC2\xB0"
                                "C)",
-                               "99.7 % bound (\xC2\xB0"
+                               "worst high (\xC2\xB0"
+                               "C)",
+                               "0.135 % (\xC2\xB0"
+                               "C)",
+                               "99.865 % (\xC2\xB0"
+                               "C)",
+                               "|e| 99.7 % (\xC2\xB0"
                                "C)",
                                "B-value (\xC2\xB0"
                                "C)",
                                "resolution (\xC2\xB0"
                                "C/LSB)",
-                               "normal, tolerance = 3 sigma", "2000 trials, seed 20250101", "worst case over the span",
+                               "normal, tolerance = 3 sigma, not truncated", "can exceed the worst case", "2000 trials, seed 20250101", "worst case over the span",
                                "largest cause there"}) {
         CHECK(r.out.find(header) != std::string::npos);
     }
@@ -403,7 +421,7 @@ TEST_CASE("bad budget flags exit 2, name the flag and the value, and print nothi
         {{"--excitation-tol", "1"},
          "--excitation-tol '1': applies only to a reading in volts (a drive read against a fixed --adc-ref); a "
          "ratiometric reading cancels the excitation"},
-        {{"--distribution", "gauss"}, "--distribution 'gauss': unknown distribution; choose normal or uniform"},
+        {{"--distribution", "gauss"}, "--distribution 'gauss': unknown distribution; choose normal, normal-truncated or uniform"},
         {{"--reading", "table"}, "--reading 'table': unknown reading; choose model or line"},
         {{"--dissipation", "2"},
          "--dissipation '2': self-heating needs the real drive; give --excitation V (with --adc-ref excitation for "
