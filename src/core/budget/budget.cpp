@@ -235,6 +235,10 @@ class BoxSearch {
 public:
     BoxSearch(const Channel& ch, std::size_t i, std::vector<Dim> dims, Adc mode, bool solve, Slots base = Slots{})
         : ch_(ch), i_(i), dims_(std::move(dims)), mode_(mode), solve_(solve), base_(base) {
+        // A range of one value (a cable at one temperature other than copper's 20 °C) is fixed there.
+        for (const Dim& d : dims_) {
+            if (d.hi == d.lo) base_[d.slot] = d.lo;
+        }
         std::erase_if(dims_, [](const Dim& d) { return !(d.hi > d.lo); });
     }
 
