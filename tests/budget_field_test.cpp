@@ -20,21 +20,77 @@ constexpr double kB = 3950.0;  // K; a common B25/85 (common practice, no source
 
 // A remote probe on a cold-chain logger: the sensor at -40..30 °C on 5 ohm of cable, the board at
 // 0..50 °C, every field cause on (our own scenario).
-const json kDesign = {{"r25_ohm", 10e3},   {"b_k", kB},          {"rs_ohm", 10e3},     {"lead_ohm", 5.0},
-                      {"lead_tol", 0.05},  {"cable_c", {-40, 30}}, {"v_exc", 3.3},      {"ref_tol", 0.002},
-                      {"ref_tc", 5e-5},    {"res_tol", 0.001},   {"res_tc", 2.5e-5},   {"board_c", {0, 50}},
-                      {"r25_tol", 0.01},   {"beta_tol", 0.01},   {"drift", 0.002},     {"gain", 0.001},
-                      {"offset_lsb", 1.0}, {"inl_lsb", 1.0},     {"delta_w_per_k", 0.0015},
+const json kDesign = {{"r25_ohm", 10e3},
+                      {"b_k", kB},
+                      {"rs_ohm", 10e3},
+                      {"lead_ohm", 5.0},
+                      {"lead_tol", 0.05},
+                      {"cable_c", {-40, 30}},
+                      {"v_exc", 3.3},
+                      {"ref_tol", 0.002},
+                      {"ref_tc", 5e-5},
+                      {"res_tol", 0.001},
+                      {"res_tc", 2.5e-5},
+                      {"board_c", {0, 50}},
+                      {"r25_tol", 0.01},
+                      {"beta_tol", 0.01},
+                      {"drift", 0.002},
+                      {"gain", 0.001},
+                      {"offset_lsb", 1.0},
+                      {"inl_lsb", 1.0},
+                      {"delta_w_per_k", 0.0015},
                       {"t_c", {-40, -5, 30}}};
 
 std::vector<std::string> field_args(int bits, const std::string& trials) {
-    return {"budget",      "--r25",        "10k",      "--beta",       "3950",      "--span",   "-40:30",
-            "--step",      "35",           "--circuit", "divider-low", "--rs",      "10k",      "--excitation",
-            "3.3",         "--adc-ref",    "excitation", "--lead",     "5",         "--lead-tol", "5",
-            "--cable-temp", "-40:30",      "--ref-tol", "0.2",         "--ref-tc",  "50",       "--resistor-tol",
-            "0.1",         "--resistor-tc", "25",       "--board-temp", "0:50",     "--drift",  "0.2",
-            "--adc-bits",  std::to_string(bits), "--adc-gain", "0.1",  "--adc-offset", "1",     "--adc-inl",
-            "1",           "--dissipation", "1.5",      "--trials",    trials,      "--format", "json"};
+    return {"budget",
+            "--r25",
+            "10k",
+            "--beta",
+            "3950",
+            "--span",
+            "-40:30",
+            "--step",
+            "35",
+            "--circuit",
+            "divider-low",
+            "--rs",
+            "10k",
+            "--excitation",
+            "3.3",
+            "--adc-ref",
+            "excitation",
+            "--lead",
+            "5",
+            "--lead-tol",
+            "5",
+            "--cable-temp",
+            "-40:30",
+            "--ref-tol",
+            "0.2",
+            "--ref-tc",
+            "50",
+            "--resistor-tol",
+            "0.1",
+            "--resistor-tc",
+            "25",
+            "--board-temp",
+            "0:50",
+            "--drift",
+            "0.2",
+            "--adc-bits",
+            std::to_string(bits),
+            "--adc-gain",
+            "0.1",
+            "--adc-offset",
+            "1",
+            "--adc-inl",
+            "1",
+            "--dissipation",
+            "1.5",
+            "--trials",
+            trials,
+            "--format",
+            "json"};
 }
 
 json run_json(const std::vector<std::string>& args) {
@@ -45,10 +101,9 @@ json run_json(const std::vector<std::string>& args) {
 }
 
 std::vector<std::string> bare(const std::vector<std::string>& more) {
-    std::vector<std::string> a = {"budget",    "--r25", "10k",       "--beta",    "3950",      "--span",
-                                  "-40:60",    "--step", "20",       "--circuit", "bare",      "--r25-tol",
-                                  "0",         "--beta-tol", "0",    "--trials",  "0",         "--format",
-                                  "json"};
+    std::vector<std::string> a = {"budget", "--r25",    "10k",       "--beta",   "3950",      "--span", "-40:60",
+                                  "--step", "20",       "--circuit", "bare",     "--r25-tol", "0",      "--beta-tol",
+                                  "0",      "--trials", "0",         "--format", "json"};
     a.insert(a.end(), more.begin(), more.end());
     return a;
 }
@@ -131,9 +186,11 @@ TEST_CASE("lead wires alone on a bare thermistor: the error is dR over dR/dT") {
 TEST_CASE("a resistor's coefficient with the board at the sensed temperature: c·|T − 25 °C|·T²/B") {
     // Divider-low read ratiometrically: the firmware infers R·rs_nominal/rs, so a drift of rs by
     // c·(T − 25 °C) reads ln(1 + cΔ)/|alpha| ≈ cΔ·T²/B (first order; second order cΔ, below 1e-2 here).
-    const json j = run_json({"budget", "--r25", "10k", "--beta", "3950", "--span", "-40:60", "--step", "20",
-                             "--circuit", "divider-low", "--rs", "10k", "--r25-tol", "0", "--beta-tol", "0",
-                             "--resistor-tol", "0", "--resistor-tc", "100", "--trials", "0", "--format", "json"});
+    const json j = run_json({"budget", "--r25",         "10k", "--beta",     "3950",        "--span",
+                             "-40:60", "--step",        "20",  "--circuit",  "divider-low", "--rs",
+                             "10k",    "--r25-tol",     "0",   "--beta-tol", "0",           "--resistor-tol",
+                             "0",      "--resistor-tc", "100", "--trials",   "0",           "--format",
+                             "json"});
     for (const json& p : j["points"]) {
         const double t = p["t_c"].get<double>() + 273.15;
         const double expected = 1e-4 * std::abs(t - 298.15) * t * t / kB;
@@ -149,10 +206,11 @@ TEST_CASE("a resistor's coefficient with the board at the sensed temperature: c�
 TEST_CASE("the reference: it cancels when ratiometric, and against a fixed reference is r·(R + rs)/(rs·|alpha|)") {
     // Divider-low v = R/(R + rs), dv/dT = rs·R·alpha/(R + rs)²; a reference off by r reads v/(1 + r),
     // so dT = r·v/|dv/dT| = r·(R + rs)/(rs·|alpha|) to first order (relative error about r).
-    const std::vector<std::string> base = {"budget", "--r25", "10k", "--beta", "3950", "--span", "0:40", "--step",
-                                           "20", "--circuit", "divider-low", "--rs", "10k", "--excitation", "3.3",
-                                           "--r25-tol", "0", "--beta-tol", "0", "--resistor-tol", "0",
-                                           "--ref-tol", "0.5", "--trials", "0", "--format", "json"};
+    const std::vector<std::string> base = {"budget", "--r25",          "10k", "--beta",    "3950",        "--span",
+                                           "0:40",   "--step",         "20",  "--circuit", "divider-low", "--rs",
+                                           "10k",    "--excitation",   "3.3", "--r25-tol", "0",           "--beta-tol",
+                                           "0",      "--resistor-tol", "0",   "--ref-tol", "0.5",         "--trials",
+                                           "0",      "--format",       "json"};
     std::vector<std::string> ratio = base;
     ratio.insert(ratio.end(), {"--adc-ref", "excitation"});
     std::vector<std::string> fixed = base;
@@ -173,9 +231,9 @@ TEST_CASE("interchangeability ±dT reads the shift itself, and drift is ln(1 + d
     // The part's curve is the nominal one shifted by dT, so the model reading is off by exactly dT.
     // Drift scales R by (1 + d): ln(1 + d)·T²/B for the beta equation (first order, error d/2 relative).
     // --dt-tol stands instead of --r25-tol and --beta-tol, which then default to 0.
-    const json j = run_json({"budget", "--r25", "10k", "--beta", "3950", "--span", "-40:60", "--step", "20",
-                             "--circuit", "bare", "--dt-tol", "0.2", "--dt-range", "-40:60", "--drift", "0.5",
-                             "--trials", "0", "--format", "json"});
+    const json j = run_json({"budget", "--r25",   "10k",       "--beta",   "3950",     "--span",   "-40:60",
+                             "--step", "20",      "--circuit", "bare",     "--dt-tol", "0.2",      "--dt-range",
+                             "-40:60", "--drift", "0.5",       "--trials", "0",        "--format", "json"});
     for (const json& p : j["points"]) {
         const double t = p["t_c"].get<double>() + 273.15;
         CAPTURE(t);
@@ -187,10 +245,11 @@ TEST_CASE("interchangeability ±dT reads the shift itself, and drift is ln(1 + d
 TEST_CASE("converter gain and offset alone: their change of reading over the output's slope") {
     // Divider-low, ratiometric, 12 bits: an offset of ±2 LSB reads 2/4096 over |dv/dT|, a gain error g
     // reads g·v/|dv/dT| (first order), dv/dT = rs·R·alpha/(R + rs)² (beta equation).
-    const json j = run_json({"budget", "--r25", "10k", "--beta", "3950", "--span", "0:40", "--step", "20",
-                             "--circuit", "divider-low", "--rs", "10k", "--r25-tol", "0", "--beta-tol", "0",
-                             "--resistor-tol", "0", "--adc-bits", "12", "--adc-offset", "2", "--adc-gain", "0.1",
-                             "--trials", "0", "--format", "json"});
+    const json j =
+        run_json({"budget", "--r25",          "10k",         "--beta",     "3950", "--span",       "0:40", "--step",
+                  "20",     "--circuit",      "divider-low", "--rs",       "10k",  "--r25-tol",    "0",    "--beta-tol",
+                  "0",      "--resistor-tol", "0",           "--adc-bits", "12",   "--adc-offset", "2",    "--adc-gain",
+                  "0.1",    "--trials",       "0",           "--format",   "json"});
     for (const json& p : j["points"]) {
         const double t = p["t_c"].get<double>() + 273.15;
         const double r = beta_r(t);

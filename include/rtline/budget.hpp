@@ -42,10 +42,10 @@ inline constexpr double kCopperAlphaPerK = 0.00393;
 // Part tolerances as fractions (0.01 = 1 %), each the half-width of the part's spread; coefficients
 // per kelvin, each ± like a tolerance.
 struct Tolerances {
-    double r25 = 0.01;        // thermistor resistance at T0 (the beta model's t0, else 25 °C)
-    double beta = 0.01;       // B-value: scales the local B = −alpha·T² at every temperature
-    double resistors = 0.01;  // every fixed resistor, each independently (the load is taken as exact)
-    double excitation = 0.0;  // the drive's voltage or current; counts only when the reading is in volts
+    double r25 = 0.01;                // thermistor resistance at T0 (the beta model's t0, else 25 °C)
+    double beta = 0.01;               // B-value: scales the local B = −alpha·T² at every temperature
+    double resistors = 0.01;          // every fixed resistor, each independently (the load is taken as exact)
+    double excitation = 0.0;          // the drive's voltage or current; counts only when the reading is in volts
     double resistor_tc_per_k = 0.0;   // every fixed resistor's temperature coefficient, ±1/K, independently
     double thermistor_dt_k = 0.0;     // interchangeability: the part's curve is the nominal one shifted by ±dT
     double thermistor_drift = 0.0;    // long-term drift of the thermistor's resistance, ± fraction
@@ -57,12 +57,12 @@ struct Tolerances {
 // The converter reading the output: quantization by its transfer, offset, gain and integral
 // nonlinearity, and a further error bound.
 struct Converter {
-    int bits = 0;                // resolution, 1..24; 0 = no converter (the reading is exact)
-    double error_lsb = 0.0;      // further converter error bound, ±LSB
-    double offset_lsb = 0.0;     // offset, ±LSB
-    double gain = 0.0;           // gain error, ± fraction of the reading
-    double inl_lsb = 0.0;        // integral nonlinearity, ±LSB (its shape unknown: a bound at every code)
-    double full_scale = 1.0;     // in the reading's unit: 1 V/V when ratiometric, the reference in V otherwise
+    int bits = 0;             // resolution, 1..24; 0 = no converter (the reading is exact)
+    double error_lsb = 0.0;   // further converter error bound, ±LSB
+    double offset_lsb = 0.0;  // offset, ±LSB
+    double gain = 0.0;        // gain error, ± fraction of the reading
+    double inl_lsb = 0.0;     // integral nonlinearity, ±LSB (its shape unknown: a bound at every code)
+    double full_scale = 1.0;  // in the reading's unit: 1 V/V when ratiometric, the reference in V otherwise
     AdcTransfer transfer = AdcTransfer::rounding;
     [[nodiscard]] double lsb() const;  // full_scale / adc_steps(bits, transfer); 0 without a converter
 };
@@ -105,7 +105,7 @@ struct BudgetSpec {
     // The part's real R–T curve when it is not the model the firmware inverts (the model error);
     // empty: the part follows the model.
     std::optional<Thermistor> part;
-    std::uint64_t trials = 100'000;    // Monte Carlo trials; 0 = worst case only
+    std::uint64_t trials = 100'000;  // Monte Carlo trials; 0 = worst case only
     std::uint64_t seed = kDefaultSeed;
     unsigned threads = 0;  // 0 = every core; the result does not depend on it
 };

@@ -1,9 +1,9 @@
 // rtline budget: the temperature error of a design with real parts — worst case over the tolerances,
 // Monte Carlo, and the split by cause (nonlinearity, R25, B, resistors, excitation, ADC, self-heating).
 #include <charconv>
-#include <tuple>
 #include <cmath>
 #include <memory>
+#include <tuple>
 
 #include "commands.hpp"
 #include "common.hpp"
@@ -36,9 +36,9 @@ struct BudgetOptions {
     std::string adc_gain;    // %
     std::string adc_inl;     // LSB
     std::string adc_transfer;
-    std::string ref_tol;  // %
-    std::string ref_tc;   // ppm/K
-    std::string excitation_tol;      // %; default 1 when the reading is in volts, else not applicable
+    std::string ref_tol;         // %
+    std::string ref_tc;          // ppm/K
+    std::string excitation_tol;  // %; default 1 when the reading is in volts, else not applicable
     std::string distribution = "normal";
     std::string reading = "model";
     std::string adc_bits;
@@ -113,21 +113,22 @@ BudgetSpec build_spec(const BudgetOptions& o, const Circuit& circuit) {
     BudgetSpec s;
     const bool dt = !o.dt_tol.empty();
     if (dt && (!o.r25_tol.empty() || !o.beta_tol.empty())) {
-        throw InputError(!o.r25_tol.empty() ? "--r25-tol" : "--beta-tol",
-                         !o.r25_tol.empty() ? o.r25_tol : o.beta_tol,
+        throw InputError(!o.r25_tol.empty() ? "--r25-tol" : "--beta-tol", !o.r25_tol.empty() ? o.r25_tol : o.beta_tol,
                          "--dt-tol already states the thermistor's tolerance; give it one way, not both");
     }
     s.tolerance.r25 = o.r25_tol.empty() ? (dt ? 0.0 : 0.01) : parse_percent(o.r25_tol, "--r25-tol");
     s.tolerance.beta = o.beta_tol.empty() ? (dt ? 0.0 : 0.01) : parse_percent(o.beta_tol, "--beta-tol");
     if (dt) {
         s.tolerance.thermistor_dt_k = parse_nonnegative(o.dt_tol, "--dt-tol", "K");
-        if (o.dt_range.empty()) throw InputError("--dt-range", "", "--dt-tol needs the range it holds over, LO:HI degC");
+        if (o.dt_range.empty())
+            throw InputError("--dt-range", "", "--dt-tol needs the range it holds over, LO:HI degC");
         std::tie(s.dt_lo_k, s.dt_hi_k) = parse_range(o.dt_range, "--dt-range");
     } else if (!o.dt_range.empty()) {
         throw InputError("--dt-range", o.dt_range, "applies only with --dt-tol");
     }
     if (!o.drift.empty()) s.tolerance.thermistor_drift = parse_percent(o.drift, "--drift");
-    if (!o.resistor_tc.empty()) s.tolerance.resistor_tc_per_k = 1e-6 * parse_nonnegative(o.resistor_tc, "--resistor-tc", "ppm/K");
+    if (!o.resistor_tc.empty())
+        s.tolerance.resistor_tc_per_k = 1e-6 * parse_nonnegative(o.resistor_tc, "--resistor-tc", "ppm/K");
     if (o.board_temp != "sensed") {
         s.board.sensed = false;
         std::tie(s.board.lo_k, s.board.hi_k) = parse_range(o.board_temp, "--board-temp");
@@ -135,7 +136,8 @@ BudgetSpec build_spec(const BudgetOptions& o, const Circuit& circuit) {
     if (!o.lead_tol.empty()) s.tolerance.lead = parse_percent(o.lead_tol, "--lead-tol");
     if (!o.cable_temp.empty()) std::tie(s.cable_lo_k, s.cable_hi_k) = parse_range(o.cable_temp, "--cable-temp");
     if (o.lead_compensation != "yes" && o.lead_compensation != "no") {
-        throw InputError("--lead-compensation", o.lead_compensation, "choose yes (the firmware subtracts --lead) or no");
+        throw InputError("--lead-compensation", o.lead_compensation,
+                         "choose yes (the firmware subtracts --lead) or no");
     }
     s.lead_compensated = o.lead_compensation == "yes";
     if (!o.part_sh.empty() && !o.part_points.empty()) {
@@ -298,12 +300,12 @@ Json budget_json(const Budget& b, const BudgetSpec& s, const Thermistor& model, 
                            {"reference", 100.0 * t.reference}};
     a["coefficients_ppm_per_k"] = {{"resistors", 1e6 * t.resistor_tc_per_k}, {"reference", 1e6 * t.reference_tc_per_k}};
     a["coefficients_from_c"] = kelvin_to_celsius(kCoefficientReferenceK);
-    a["board_temperature"] = s.board.sensed ? Json("sensed")
-                                            : Json({{"lo_c", kelvin_to_celsius(s.board.lo_k)},
-                                                    {"hi_c", kelvin_to_celsius(s.board.hi_k)}});
+    a["board_temperature"] =
+        s.board.sensed ? Json("sensed")
+                       : Json({{"lo_c", kelvin_to_celsius(s.board.lo_k)}, {"hi_c", kelvin_to_celsius(s.board.hi_k)}});
     a["thermistor_dt_k"] = t.thermistor_dt_k > 0.0 ? Json({{"tolerance_k", t.thermistor_dt_k},
-                                                             {"lo_c", kelvin_to_celsius(s.dt_lo_k)},
-                                                             {"hi_c", kelvin_to_celsius(s.dt_hi_k)}})
+                                                           {"lo_c", kelvin_to_celsius(s.dt_lo_k)},
+                                                           {"hi_c", kelvin_to_celsius(s.dt_hi_k)}})
                                                    : Json(nullptr);
     if (circuit.lead_ohm > 0.0) {
         a["lead"] = {{"loop_ohm_at_20_c", circuit.lead_ohm},
@@ -348,9 +350,9 @@ Json budget_json(const Budget& b, const BudgetSpec& s, const Thermistor& model, 
         j["worst_high_c"] = p.worst_high_k;
         j["nominal_error_c"] = p.nominal_error_k;
         if (mc) {
-            j["mc"] = {{"mean_c", p.mc.mean_k},       {"std_c", number(p.mc.std_k)},  {"p95_c", p.mc.p95_k},
-                       {"p99_7_c", p.mc.p99_7_k},     {"max_abs_c", p.mc.max_abs_k},  {"p0_135_c", p.mc.p0_135_k},
-                       {"p2_5_c", p.mc.p2_5_k},       {"p97_5_c", p.mc.p97_5_k},      {"p99_865_c", p.mc.p99_865_k}};
+            j["mc"] = {{"mean_c", p.mc.mean_k},   {"std_c", number(p.mc.std_k)}, {"p95_c", p.mc.p95_k},
+                       {"p99_7_c", p.mc.p99_7_k}, {"max_abs_c", p.mc.max_abs_k}, {"p0_135_c", p.mc.p0_135_k},
+                       {"p2_5_c", p.mc.p2_5_k},   {"p97_5_c", p.mc.p97_5_k},     {"p99_865_c", p.mc.p99_865_k}};
         } else {
             j["mc"] = nullptr;
         }
@@ -363,18 +365,29 @@ Json budget_json(const Budget& b, const BudgetSpec& s, const Thermistor& model, 
 }
 
 std::string budget_csv(const Budget& b) {
-    std::vector<Column> cols = {{"", "t_c"},         {"", "worst_case_c"}, {"", "worst_low_c"},  {"", "worst_high_c"},
-                                {"", "nominal_error_c"}, {"", "mc_mean_c"}, {"", "mc_std_c"},     {"", "mc_p95_c"},
-                                {"", "mc_p99_7_c"},  {"", "mc_max_abs_c"}, {"", "mc_p0_135_c"},  {"", "mc_p2_5_c"},
-                                {"", "mc_p97_5_c"},  {"", "mc_p99_865_c"}};
-    for (std::size_t c = 0; c < kCauses; ++c) cols.push_back({"", std::string(cause_key(static_cast<Cause>(c))) + "_c"});
+    std::vector<Column> cols = {
+        {"", "t_c"},         {"", "worst_case_c"}, {"", "worst_low_c"}, {"", "worst_high_c"}, {"", "nominal_error_c"},
+        {"", "mc_mean_c"},   {"", "mc_std_c"},     {"", "mc_p95_c"},    {"", "mc_p99_7_c"},   {"", "mc_max_abs_c"},
+        {"", "mc_p0_135_c"}, {"", "mc_p2_5_c"},    {"", "mc_p97_5_c"},  {"", "mc_p99_865_c"}};
+    for (std::size_t c = 0; c < kCauses; ++c)
+        cols.push_back({"", std::string(cause_key(static_cast<Cause>(c))) + "_c"});
     cols.push_back({"", "resolution_c_per_lsb"});
     Table t(cols);
     for (const BudgetPoint& p : b.points) {
-        std::vector<Cell> row = {kelvin_to_celsius(p.t_k), p.worst_case_k, p.worst_low_k,  p.worst_high_k,
-                                 p.nominal_error_k,        p.mc.mean_k,    p.mc.std_k,     p.mc.p95_k,
-                                 p.mc.p99_7_k,             p.mc.max_abs_k, p.mc.p0_135_k,  p.mc.p2_5_k,
-                                 p.mc.p97_5_k,             p.mc.p99_865_k};
+        std::vector<Cell> row = {kelvin_to_celsius(p.t_k),
+                                 p.worst_case_k,
+                                 p.worst_low_k,
+                                 p.worst_high_k,
+                                 p.nominal_error_k,
+                                 p.mc.mean_k,
+                                 p.mc.std_k,
+                                 p.mc.p95_k,
+                                 p.mc.p99_7_k,
+                                 p.mc.max_abs_k,
+                                 p.mc.p0_135_k,
+                                 p.mc.p2_5_k,
+                                 p.mc.p97_5_k,
+                                 p.mc.p99_865_k};
         for (const double v : p.components.k) row.push_back(v);
         row.push_back(p.resolution_k_per_lsb);
         t.add_row(row);
@@ -424,7 +437,8 @@ std::string budget_text(const Budget& b, const BudgetSpec& s, const Thermistor& 
     if (s.adc.bits > 0) {
         t += "converter:    " + std::to_string(s.adc.bits) + " bits, 1 LSB = " + format_number(b.lsb, 4) + " " + unit +
              "; " + describe_adc_transfer(s.adc.transfer, s.adc.bits) + "\n";
-        t += "              quantization \xC2\xB1" "0.5 LSB";
+        t += "              quantization \xC2\xB1"
+             "0.5 LSB";
         if (s.adc.offset_lsb > 0.0) t += ", offset \xC2\xB1" + format_number(s.adc.offset_lsb) + " LSB";
         if (s.adc.gain > 0.0) t += ", gain " + pm_pct(s.adc.gain);
         if (s.adc.inl_lsb > 0.0) t += ", INL \xC2\xB1" + format_number(s.adc.inl_lsb) + " LSB";
@@ -521,10 +535,7 @@ void run_budget(const BudgetOptions& o) {
     std::vector<Output> outputs{{o.out.output, bytes, "-o"}};
     if (!o.svg.empty()) {
         outputs.push_back(
-            {o.svg,
-             svg::render(budget_figure(thermistor, circuit, b,
-                                       distribution_text(spec.distribution))),
-             "--svg"});
+            {o.svg, svg::render(budget_figure(thermistor, circuit, b, distribution_text(spec.distribution))), "--svg"});
     }
     emit_all(outputs);
 }
@@ -586,7 +597,8 @@ void setup_budget(CLI::App& app) {
     sub->add_option("--adc-offset", opt->adc_offset, "Converter offset, +-LSB")->group(rd);
     sub->add_option("--adc-gain", opt->adc_gain, "Converter gain error, +-%")->group(rd);
     sub->add_option("--adc-inl", opt->adc_inl, "Converter integral nonlinearity, +-LSB")->group(rd);
-    sub->add_option("--adc-error", opt->adc_error, "Further converter error bound, +-LSB (needs --adc-bits)")->group(rd);
+    sub->add_option("--adc-error", opt->adc_error, "Further converter error bound, +-LSB (needs --adc-bits)")
+        ->group(rd);
     sub->add_option("--adc-ref", opt->adc_ref,
                     "Converter reference: excitation (ratiometric) or volts (default: the --excitation voltage as "
                     "a fixed reference; ratiometric without a drive)")

@@ -99,8 +99,7 @@ void check_coefficient(double c, const char* flag) {
 
 void check_range(double lo_k, double hi_k, const char* flag) {
     if (!std::isfinite(lo_k) || !std::isfinite(hi_k) || lo_k > hi_k || lo_k < 173.15 || hi_k > 473.15) {
-        throw InputError(flag, format_span(Span{lo_k, hi_k}),
-                         "give LO:HI in degC with LO <= HI, within -100:200");
+        throw InputError(flag, format_span(Span{lo_k, hi_k}), "give LO:HI in degC with LO <= HI, within -100:200");
     }
 }
 
@@ -138,7 +137,9 @@ void validate(const BudgetSpec& s, const Circuit& c) {
     }
     const bool converter_terms = s.adc.offset_lsb != 0.0 || s.adc.gain != 0.0 || s.adc.inl_lsb != 0.0;
     if (converter_terms && s.adc.bits == 0) {
-        throw InputError(s.adc.offset_lsb != 0.0 ? "--adc-offset" : s.adc.gain != 0.0 ? "--adc-gain" : "--adc-inl",
+        throw InputError(s.adc.offset_lsb != 0.0 ? "--adc-offset"
+                         : s.adc.gain != 0.0     ? "--adc-gain"
+                                                 : "--adc-inl",
                          "", "needs --adc-bits (a converter)");
     }
     for (const auto& [v, flag] : {std::pair{s.adc.offset_lsb, "--adc-offset"}, std::pair{s.adc.inl_lsb, "--adc-inl"}}) {
@@ -220,7 +221,9 @@ struct Dim {
 Dim sym(std::size_t slot, double half) { return {slot, -half, half}; }
 
 // The range of the factor (1 ± a)(1 ± b) − 1 over both signs (both factors positive).
-Dim product(std::size_t slot, double a, double b) { return {slot, (1.0 - a) * (1.0 - b) - 1.0, (1.0 + a) * (1.0 + b) - 1.0}; }
+Dim product(std::size_t slot, double a, double b) {
+    return {slot, (1.0 - a) * (1.0 - b) - 1.0, (1.0 + a) * (1.0 + b) - 1.0};
+}
 
 struct Extremes {
     double lo;
@@ -424,7 +427,8 @@ BudgetPoint point_bounds(const Channel& ch, const Channel& plain, const BudgetSp
         c[Cause::reference] = alone({product(kReference, tol.reference, ref_tc)}, Adc::none, ch.heats(), from);
     }
     if (adc) {
-        if (spec.adc.offset_lsb > 0.0) c[Cause::adc_offset] = alone({sym(kAdc, spec.adc.offset_lsb * lsb)}, Adc::offset);
+        if (spec.adc.offset_lsb > 0.0)
+            c[Cause::adc_offset] = alone({sym(kAdc, spec.adc.offset_lsb * lsb)}, Adc::offset);
         if (spec.adc.gain > 0.0) c[Cause::adc_gain] = alone({sym(kGain, spec.adc.gain)}, Adc::offset);
         if (spec.adc.inl_lsb > 0.0) c[Cause::adc_inl] = alone({sym(kAdc, spec.adc.inl_lsb * lsb)}, Adc::offset);
         c[Cause::quantization] = alone({sym(kAdc, (0.5 + spec.adc.error_lsb) * lsb)}, Adc::offset);

@@ -413,8 +413,8 @@ public:
                 const double inv_t = sh_inverse_t(psh_, big_l);
                 const double t_part = 1.0 / inv_t;
                 const double f = t_part - tr.shift_k - t_[i] - p * inv_dissipation_;
-                const double df = -t_part * t_part * (psh_.b + 3.0 * psh_.c * big_l * big_l) * inv1db -
-                                  dp * inv_dissipation_;
+                const double df =
+                    -t_part * t_part * (psh_.b + 3.0 * psh_.c * big_l * big_l) * inv1db - dp * inv_dissipation_;
                 l -= f / df;
             }
             return exp_fast(l);
@@ -438,7 +438,8 @@ public:
         } else {
             double y = tr.reading.at(x);
             if constexpr (kMode == Adc::offset) y = y * tr.gain + adc;
-            if constexpr (kMode == Adc::rounded) y = (round_even(y * tr.gain * inv_lsb_ + adc + code_in_) + code_out_) * lsb_;
+            if constexpr (kMode == Adc::rounded)
+                y = (round_even(y * tr.gain * inv_lsb_ + adc + code_in_) + code_out_) * lsb_;
             if constexpr (kInverse == Inverse::line) {
                 t_read = (y - line_.intercept) * inv_slope_;
             } else if constexpr (kClosed) {
@@ -562,7 +563,6 @@ private:
     double inv_slope_ = 0.0;
     double largest_reading_ = 0.0;
 };
-
 
 // Runs f(k, worker) for k in [0, n) on `threads` threads (the caller's included); rethrows the first
 // exception. Which worker runs which k varies; callers make their results independent of it.
