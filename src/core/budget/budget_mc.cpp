@@ -156,28 +156,25 @@ private:
 
 std::uint64_t block_state(std::uint64_t seed, std::uint64_t block) { return mix64(mix64(seed) + block); }
 
-// One tail a worker keeps of a key (|error|, error or −error): the samples above the threshold at
-// each temperature (kept[i][0, count[i])), and how many equal it (errors are discrete once a
-// converter quantizes the reading, so ties are common); the rest are below it.
-struct Tail {
-    explicit Tail(std::size_t n) : kept(n), count(n, 0), equal(n, 0) {}
+// What one worker keeps at each temperature: the errors beyond two thresholds, e > hi or e < lo
+// (kept[i][0, count[i])), and how many equal each (errors are discrete once a converter quantizes
+// the reading, so ties are common); the rest lie strictly between. One stored sample serves the signed
+// percentiles at both ends and the |error| bounds (hi and −lo are at most the |error| threshold). And
+// the largest |error|, and the trials this worker ran.
+struct Tails {
+    explicit Tails(std::size_t n) : kept(n), count(n, 0), equal_hi(n, 0), equal_lo(n, 0), max_abs(n, 0.0) {}
     std::vector<std::vector<double>> kept;
     std::vector<std::size_t> count;
-    std::vector<std::uint64_t> equal;
-};
-
-enum Key : std::size_t { kAbs = 0, kHigh = 1, kLow = 2, kKeys = 3 };
-
-// What one worker keeps: the three tails, the largest |error|, and the trials it ran (trials −
-// count[i] − equal[i] of a tail lie below its threshold).
-struct Tails {
-    explicit Tails(std::size_t n) : tail{Tail(n), Tail(n), Tail(n)}, max_abs(n, 0.0) {}
-    std::array<Tail, kKeys> tail;
+    std::vector<std::uint64_t> equal_hi;
+    std::vector<std::uint64_t> equal_lo;  // not counted where lo equals hi (equal_hi has them)
     std::uint64_t trials = 0;
     std::vector<double> max_abs;
 };
 
-using Thresholds = std::array<std::vector<double>, kKeys>;
+struct Thresholds {
+    std::vector<double> hi;
+    std::vector<double> lo;
+};
 
 // One block's work: where its samples go.
 struct BlockJob {
@@ -191,19 +188,6 @@ struct BlockJob {
 
 class Runner;
 using BlockFn = void (*)(const Runner&, const BlockJob&);
-
-// Keeps the samples of `key` (n of them) above `th` in `tail`: simple loops the compiler vectorizes.
-[[gnu::always_inline]] inline void keep_tail(const double* key, const double* th, Tail& tail, double* const* out,
-                                             std::size_t* flag, std::size_t n) {
-    std::uint64_t* const eq = tail.equal.data();
-    std::size_t* const kept = tail.count.data();
-    for (std::size_t i = 0; i < n; ++i) eq[i] += key[i] == th[i] ? 1 : 0;
-    for (std::size_t i = 0; i < n; ++i) flag[i] = key[i] > th[i] ? 1 : 0;
-    for (std::size_t i = 0; i < n; ++i) {
-        out[i][kept[i]] = key[i];
-        kept[i] += flag[i];
-    }
-}
 
 class Runner {
 public:
@@ -225,10 +209,8 @@ public:
     void run(std::uint64_t b, std::uint64_t count, double* s1, double* s2, const Thresholds& tau, Tails& tails) const {
         // Room for every trial of the block at every temperature, so that the loop stores without a
         // branch and advances the count by whether the sample is kept.
-        for (Tail& t : tails.tail) {
-            for (std::size_t i = 0; i < ch_.size(); ++i) {
-                if (t.kept[i].size() < t.count[i] + count) t.kept[i].resize(t.count[i] + count);
-            }
+        for (std::size_t i = 0; i < ch_.size(); ++i) {
+            if (tails.kept[i].size() < tails.count[i] + count) tails.kept[i].resize(tails.count[i] + count);
         }
         block_fn_(*this, BlockJob{b, count, s1, s2, &tau, &tails});
     }
@@ -240,20 +222,19 @@ public:
         SplitMix64 rng(block_state(seed_, job.block));
         const std::size_t n = ch_.size();
         std::vector<double> e(n);
-        std::vector<double> ae(n);
-        std::vector<double> ne(n);
         std::vector<std::size_t> flag(n);
-        std::array<std::vector<double*>, kKeys> out;
+        std::vector<double*> out(n);
         Tails& tails = *job.tails;
-        for (std::size_t k = 0; k < kKeys; ++k) {
-            out[k].resize(n);
-            for (std::size_t i = 0; i < n; ++i) out[k][i] = tails.tail[k].kept[i].data();
-        }
+        for (std::size_t i = 0; i < n; ++i) out[i] = tails.kept[i].data();
         double* const ep = e.data();
-        double* const ap = ae.data();
-        double* const np = ne.data();
+        std::size_t* const fp = flag.data();
         const double* const ref = e_ref_.data();
+        const double* const hi = job.tau->hi.data();
+        const double* const lo = job.tau->lo.data();
         double* const mx = tails.max_abs.data();
+        std::uint64_t* const eq_hi = tails.equal_hi.data();
+        std::uint64_t* const eq_lo = tails.equal_lo.data();
+        std::size_t* const kept = tails.count.data();
         double* const s1 = job.s1;
         double* const s2 = job.s2;
         const bool per_point = sampler_.per_point();
@@ -278,15 +259,15 @@ public:
                     s2[i] += dv * dv;
                 }
             }
+            // Simple loops, each of which the compiler vectorizes.
+            for (std::size_t i = 0; i < n; ++i) mx[i] = std::max(mx[i], std::abs(ep[i]));
+            for (std::size_t i = 0; i < n; ++i) eq_hi[i] += ep[i] == hi[i] ? 1 : 0;
+            for (std::size_t i = 0; i < n; ++i) eq_lo[i] += (ep[i] == lo[i]) & (lo[i] != hi[i]) ? 1 : 0;
+            for (std::size_t i = 0; i < n; ++i) fp[i] = (ep[i] > hi[i]) | (ep[i] < lo[i]) ? 1 : 0;
             for (std::size_t i = 0; i < n; ++i) {
-                const double a = std::abs(ep[i]);
-                ap[i] = a;
-                np[i] = -ep[i];
-                mx[i] = std::max(mx[i], a);
+                out[i][kept[i]] = ep[i];
+                kept[i] += fp[i];
             }
-            keep_tail(ap, (*job.tau)[kAbs].data(), tails.tail[kAbs], out[kAbs].data(), flag.data(), n);
-            keep_tail(ep, (*job.tau)[kHigh].data(), tails.tail[kHigh], out[kHigh].data(), flag.data(), n);
-            keep_tail(np, (*job.tau)[kLow].data(), tails.tail[kLow], out[kLow].data(), flag.data(), n);
         }
         tails.trials += job.count;
     }
@@ -340,38 +321,79 @@ std::uint64_t rank_of_1e5(std::uint64_t parts, std::uint64_t n) {
     return std::max<std::uint64_t>(1, (parts * n + 99999) / 100000);
 }
 
-// The bound at rank k when the samples above the threshold `tau` are `kept`, n_equal equal it and
-// n_below lie below it; kept[from, end) must hold the kept ranks from `from` on (nth_element leaves
-// that true above the rank it places, so a higher rank is searched there only). NaN when the rank
-// falls below the threshold (the pilot misled).
-double order_statistic(std::vector<double>& kept, std::size_t from, std::uint64_t k, std::uint64_t n_below,
-                       std::uint64_t n_equal, double tau) {
-    if (k > n_below + n_equal) {
-        const auto at = kept.begin() + static_cast<std::ptrdiff_t>(k - n_below - n_equal - 1);
-        std::nth_element(kept.begin() + static_cast<std::ptrdiff_t>(from), at, kept.end());
-        return *at;
-    }
-    if (k > n_below) return tau;
-    return NAN;
+// The k-th smallest (1-based) of the values in v[from, end) with nth_element; v[from, end) must hold
+// ranks from `from` on (nth_element leaves that true above the rank it places).
+double kth(std::vector<double>& v, std::size_t from, std::size_t k) {
+    const auto at = v.begin() + static_cast<std::ptrdiff_t>(k - 1);
+    std::nth_element(v.begin() + static_cast<std::ptrdiff_t>(from), at, v.end());
+    return *at;
 }
 
-// Two order statistics of one tail, ranks k1 ≤ k2, gathered from every worker's tail `key` at point i.
-std::pair<double, double> two_ranks(std::vector<Tails>& from, Key key, std::size_t i, double tau, std::uint64_t k1,
-                                    std::uint64_t k2, std::vector<double>& kept) {
-    std::uint64_t n_below = 0;
-    std::uint64_t n_equal = 0;
-    kept.clear();
-    for (Tails& t : from) {
-        Tail& tl = t.tail[key];
-        n_below += t.trials - tl.count[i] - tl.equal[i];
-        n_equal += tl.equal[i];
-        kept.insert(kept.end(), tl.kept[i].begin(), tl.kept[i].begin() + static_cast<std::ptrdiff_t>(tl.count[i]));
-        std::vector<double>().swap(tl.kept[i]);
+// The statistics of one temperature from every worker's tail: the samples above hi or below lo are
+// known, n_hi equal hi and n_lo equal lo, the rest lie strictly between (unknown). Sorted, the full set
+// is [below lo][lo × n_lo][between][hi × n_hi][above hi]. A rank that falls between is NaN (the pilot
+// misled; the caller runs that temperature again keeping all).
+struct Order {
+    std::vector<double> above, below, big;
+    std::uint64_t n = 0, n_hi = 0, n_lo = 0;
+    double hi = 0.0, lo = 0.0;
+
+    // The k-th smallest error.
+    double signed_rank(std::uint64_t k) {
+        const std::uint64_t nb = below.size();
+        const std::uint64_t na = above.size();
+        const std::uint64_t between = n - na - nb - n_hi - n_lo;
+        if (k <= nb) return kth(below, 0, static_cast<std::size_t>(k));
+        if (k <= nb + n_lo) return lo;
+        if (k <= nb + n_lo + between) return NAN;
+        if (k <= nb + n_lo + between + n_hi) return hi;
+        return kth(above, 0, static_cast<std::size_t>(k - (n - na)));
     }
-    const double v1 = order_statistic(kept, 0, k1, n_below, n_equal, tau);
-    const std::uint64_t placed = k1 > n_below + n_equal ? k1 - n_below - n_equal : 0;  // kept ranks below
-    const double v2 = order_statistic(kept, static_cast<std::size_t>(placed), k2, n_below, n_equal, tau);
-    return {v1, v2};
+
+    // The k-th smallest |error| for ranks k1 ≤ k2. Every sample between the thresholds has |e| < C =
+    // max(|lo|, |hi|); the samples with |e| ≥ C are the kept ones so large and the ties at ±C.
+    std::pair<double, double> abs_ranks(std::uint64_t k1, std::uint64_t k2) {
+        // Keeping every sample (hi = −∞): all are known, C = 0.
+        const double c = std::isfinite(hi) && std::isfinite(lo) ? std::max(std::abs(lo), std::abs(hi)) : 0.0;
+        big.clear();
+        for (const double v : above) {
+            if (std::abs(v) >= c) big.push_back(std::abs(v));
+        }
+        for (const double v : below) {
+            if (std::abs(v) >= c) big.push_back(std::abs(v));
+        }
+        const std::uint64_t ties = (std::abs(hi) == c ? n_hi : 0) + (std::abs(lo) == c ? n_lo : 0);
+        const std::uint64_t small = n - big.size() - ties;
+        auto at = [&](std::uint64_t k, std::size_t from) {
+            if (k <= small) return static_cast<double>(NAN);
+            if (k <= small + ties) return c;
+            return kth(big, from, static_cast<std::size_t>(k - small - ties));
+        };
+        const double v1 = at(k1, 0);
+        const std::uint64_t placed = k1 > small + ties ? k1 - small - ties : 0;
+        return {v1, at(k2, static_cast<std::size_t>(placed))};
+    }
+};
+
+// Gathers point i's samples from every worker's tails (and frees them there).
+void gather(std::vector<Tails>& from, std::size_t i, double hi, double lo, Order& o) {
+    o.above.clear();
+    o.below.clear();
+    o.n = 0;
+    o.n_hi = 0;
+    o.n_lo = 0;
+    o.hi = hi;
+    o.lo = lo;
+    for (Tails& t : from) {
+        o.n += t.trials;
+        o.n_hi += t.equal_hi[i];
+        o.n_lo += t.equal_lo[i];
+        for (std::size_t j = 0; j < t.count[i]; ++j) {
+            const double v = t.kept[i][j];
+            (v > hi ? o.above : o.below).push_back(v);
+        }
+        std::vector<double>().swap(t.kept[i]);
+    }
 }
 
 }  // namespace
@@ -382,23 +404,24 @@ std::vector<McStats> monte_carlo(const Channel& ch, const BudgetSpec& spec, unsi
     const std::uint64_t blocks = (trials + kBlockTrials - 1) / kBlockTrials;
     const Runner runner(ch, spec);
 
-    // The tail thresholds at each temperature: the pilot's 93 % point of |error| and its 3.5 % and
-    // 96.5 % points of the error (none for a small run). The bounds lie beyond them unless the pilot
-    // misleads; then that temperature is run again keeping all.
-    Thresholds tau;
-    for (std::vector<double>& v : tau) v.assign(n, -INFINITY);
+    // The thresholds at each temperature from the pilot (none for a small run): hi = the smaller of its
+    // 96.5 % point of the error and its 93 % point of |error|, lo = the larger of its 3.5 % point and
+    // minus that 93 % point. The bounds lie beyond them unless the pilot misleads; then that
+    // temperature is run again keeping all.
+    Thresholds tau{std::vector<double>(n, -INFINITY), std::vector<double>(n, INFINITY)};
     if (trials > kPilotTrials) {
         Tails pilot(n);
         runner.run(0, kPilotTrials, nullptr, nullptr, tau, pilot);
-        const std::array<std::uint64_t, kKeys> permille = {kPilotPermille, kPilotSignedPermille, kPilotSignedPermille};
         parallel_for(n, threads, [&](std::size_t i, unsigned) {
-            for (std::size_t k = 0; k < kKeys; ++k) {
-                std::vector<double>& v = pilot.tail[k].kept[i];
-                v.resize(pilot.tail[k].count[i]);
-                const auto at = v.begin() + static_cast<std::ptrdiff_t>(rank_of(permille[k], v.size()) - 1);
-                std::nth_element(v.begin(), at, v.end());
-                tau[k][i] = *at;
-            }
+            std::vector<double>& v = pilot.kept[i];
+            v.resize(pilot.count[i]);
+            std::vector<double> a(v.size());
+            for (std::size_t j = 0; j < v.size(); ++j) a[j] = std::abs(v[j]);
+            const double t_abs = kth(a, 0, static_cast<std::size_t>(rank_of(kPilotPermille, a.size())));
+            const double t_hi = kth(v, 0, static_cast<std::size_t>(rank_of(kPilotSignedPermille, v.size())));
+            const double t_lo = kth(v, 0, static_cast<std::size_t>(rank_of(1000 - kPilotSignedPermille, v.size())));
+            tau.hi[i] = std::min(t_hi, t_abs);
+            tau.lo[i] = std::min(std::max(t_lo, -t_abs), tau.hi[i]);
         });
     }
 
@@ -411,22 +434,18 @@ std::vector<McStats> monte_carlo(const Channel& ch, const BudgetSpec& spec, unsi
     });
 
     std::vector<McStats> out(n);
-    // Ranks: |error| at 95 % and 99.7 %; the error at 97.5 % and 99.865 % from the top tail, and at
-    // 2.5 % and 0.135 % as the (n − k + 1)-th smallest −error from the bottom one.
+    // Ranks: |error| at 95 % and 99.7 %; the error at 0.135 %, 2.5 %, 97.5 % and 99.865 %.
     const std::uint64_t k95 = rank_of(950, trials);
     const std::uint64_t k997 = rank_of(997, trials);
-    const std::uint64_t k975 = rank_of_1e5(97500, trials);
-    const std::uint64_t k99865 = rank_of_1e5(99865, trials);
-    const std::uint64_t k25 = trials - rank_of_1e5(2500, trials) + 1;
-    const std::uint64_t k0135 = trials - rank_of_1e5(135, trials) + 1;
-    auto bounds = [&](std::size_t i, std::vector<Tails>& from, const Thresholds& th, std::vector<double>& kept) {
-        std::tie(out[i].p95_k, out[i].p99_7_k) = two_ranks(from, kAbs, i, th[kAbs][i], k95, k997, kept);
-        std::tie(out[i].p97_5_k, out[i].p99_865_k) = two_ranks(from, kHigh, i, th[kHigh][i], k975, k99865, kept);
-        const auto [lo25, lo0135] = two_ranks(from, kLow, i, th[kLow][i], k25, k0135, kept);
-        out[i].p2_5_k = -lo25;
-        out[i].p0_135_k = -lo0135;
+    auto bounds = [&](std::size_t i, std::vector<Tails>& from, const Thresholds& th, Order& o) {
+        gather(from, i, th.hi[i], th.lo[i], o);
+        std::tie(out[i].p95_k, out[i].p99_7_k) = o.abs_ranks(k95, k997);
+        out[i].p0_135_k = o.signed_rank(rank_of_1e5(135, trials));
+        out[i].p2_5_k = o.signed_rank(rank_of_1e5(2500, trials));
+        out[i].p97_5_k = o.signed_rank(rank_of_1e5(97500, trials));
+        out[i].p99_865_k = o.signed_rank(rank_of_1e5(99865, trials));
     };
-    std::vector<std::vector<double>> scratch(workers);
+    std::vector<Order> scratch(workers);
     parallel_for(n, workers, [&](std::size_t i, unsigned w) {
         McStats& m = out[i];
         double s1 = 0.0;
@@ -452,11 +471,8 @@ std::vector<McStats> monte_carlo(const Channel& ch, const BudgetSpec& spec, unsi
     }
     if (!redo.empty()) {
         // Keep every sample at the temperatures the pilot misjudged, none elsewhere.
-        Thresholds keep_all;
-        for (std::vector<double>& v : keep_all) v.assign(n, INFINITY);
-        for (const std::size_t i : redo) {
-            for (std::vector<double>& v : keep_all) v[i] = -INFINITY;
-        }
+        Thresholds keep_all{std::vector<double>(n, INFINITY), std::vector<double>(n, -INFINITY)};
+        for (const std::size_t i : redo) keep_all.hi[i] = -INFINITY;
         std::vector<Tails> again(workers, Tails(n));
         parallel_for(blocks, workers, [&](std::size_t b, unsigned w) {
             runner.run(b, trials_in(b, trials), nullptr, nullptr, keep_all, again[w]);
