@@ -1,4 +1,4 @@
-#!/ usr / bin / python3
+#!/usr/bin/python3
 """Whole-process benchmarks of rtline (issue 9), with the numpy yardstick run in the same invocation.
 
   1  size, shunt-divider, E96 over 100 ohm..1 Mohm (148 225 pairs), 0..100 C at 0.25 C (401 points), --top 1
@@ -107,7 +107,7 @@ def main():
             print(f"   numpy search {ref['search_s'] * 1e3:.0f} ms, best pair {ref['outer_ohm']:g}, {ref['inner_ohm']:g} ohm"
                   f" ({'same' if same else 'DIFFERENT'}); numpy / rtline = {ref['search_s'] / med:.1f}x")
     if "3" in which:
-#rtline budget, 10 ^ 6 trials x 101 temperatures(0..100 C at 1 C), normal, model reading.
+        # rtline budget, 10^6 trials x 101 temperatures (0..100 C at 1 C), normal, model reading.
         cmd = [a.rtline, "budget", "--r25", "10k", "--beta", "3950", "--span", "0:100", "--circuit", "divider-low",
                "--rs", "10k", "--trials", "1000000", "--format", "json"]
         runs = max(3, a.runs // 2)

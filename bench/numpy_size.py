@@ -1,25 +1,17 @@
-#!/ usr / bin / python3
-""
-    "A straightforward vectorized numpy search over standard resistor pairs, the yardstick for rtline size.
+#!/usr/bin/python3
+"""A straightforward vectorized numpy search over standard resistor pairs, the yardstick for rtline size.
 
-    Written from the published equations,
-    not from rtline's code: beta model R_T = R25 * exp(B * (1 / T - 1 / T25))(REFERENCES.md) E - series IEC 60063
-    : E48..E192 mantissas 10 * *(i / n) rounded to three figures,
-                                       E192 i = 185 is 9.20 shunt - divider v =
-                                                    rs / (rs + R_T || rp)(Pallas - Areny & Webster eq.2.32) shunt -
-                                                    bridge v = Rx / (r1 + Rx) - r3 / (r2 + r3),
-                                       Rx = R_T || rp,
-                                       r2 = r1 and r3 =
-                                           Rx at the span's low end(the bridge nulls there
-                                                                    : r1 / Rx = r2 / r3) objective largest |
-                                           v - endpoint line | over the span as % FSD of | v(T_hi) - v(T_lo) |
-                                           (Bentley, 2.1)The best pair has the least objective;
-objectives equal to 1e-9 relative are a tie,
-    won by the larger span.
+Written from the published equations, not from rtline's code:
+  beta model      R_T = R25 * exp(B * (1/T - 1/T25))                        (REFERENCES.md)
+  E-series        IEC 60063: E48..E192 mantissas 10**(i/n) rounded to three figures, E192 i = 185 is 9.20
+  shunt-divider   v = rs / (rs + R_T || rp)                                 (Pallas-Areny & Webster eq. 2.32)
+  shunt-bridge    v = Rx/(r1 + Rx) - r3/(r2 + r3), Rx = R_T || rp, r2 = r1 and r3 = Rx at the span's
+                  low end (the bridge nulls there: r1/Rx = r2/r3)
+  objective       largest |v - endpoint line| over the span as %FSD of |v(T_hi) - v(T_lo)| (Bentley, 2.1)
+The best pair has the least objective; objectives equal to 1e-9 relative are a tie, won by the larger span.
 
-    One outer resistor at a time,
-    the inner resistor and the temperatures as a 2 - D array : no pruning, no threads,
-    the whole space.Run : numpy_size.py shunt - divider E96[--json]; prints the best pair and the time
+One outer resistor at a time, the inner resistor and the temperatures as a 2-D array: no pruning, no
+threads, the whole space. Run: numpy_size.py shunt-divider E96 [--json]; prints the best pair and the time
 of the search alone (interpreter start-up and imports not counted).
 """
 import json
@@ -74,7 +66,7 @@ def search(circuit, n, r25=10e3, beta=3950.0, lo_c=0.0, hi_c=100.0, step=0.25, l
         line = v[:, :1] + (fs / (t[-1] - t[0]))[:, None] * (t - t[0])[None, :]
         obj = np.max(np.abs(v - line), axis=1) / np.abs(fs) * 100.0
         objs.append((obj, np.abs(fs)))
-#The least objective, then among the pairs within 1e-9 of it the largest span.
+    # The least objective, then among the pairs within 1e-9 of it the largest span.
     m = min(o.min() for o, _ in objs)
     win = None
     for k, (o, s) in enumerate(objs):
