@@ -8,6 +8,7 @@
 #include <vector>
 
 #include "rtline/budget.hpp"
+#include "rtline/circuit.hpp"
 #include "support.hpp"
 
 using nlohmann::json;
@@ -259,4 +260,105 @@ TEST_CASE("converter gain and offset alone: their change of reading over the out
         CHECK(p["components"]["adc_offset_c"].get<double>() == doctest::Approx(2.0 / 4096.0 / slope).epsilon(5e-3));
         CHECK(p["components"]["adc_gain_c"].get<double>() == doctest::Approx(0.001 * v / slope).epsilon(5e-3));
     }
+}
+
+TEST_CASE("the lead resistance is part of the circuit: check shows its shift, the table's inverse subtracts it") {
+    // A bare thermistor on 5 ohm of loop read by firmware that ignores the wires reads the model's
+    // temperature at R + 5: to first order 5/(alpha·R) (beta equation), negative (reads cold).
+    const auto r = run_rtline({"check", "--r25", "10k", "--beta", "3950", "--span", "20:60", "--step", "40",
+                               "--circuit", "divider-low", "--rs", "10k", "--lead", "5", "--format", "json"});
+    INFO(r.err);
+    REQUIRE(r.code == 0);
+    const json j = json::parse(r.out);
+    const double t_hi = 333.15;
+    const double first_order = -5.0 / (kB / (t_hi * t_hi) * beta_r(t_hi));
+    CHECK(j["summary"]["lead_shift_c"]["min"].get<double>() == doctest::Approx(first_order).epsilon(3e-3));
+    CHECK(j["circuit"]["lead_ohm"] == 5.0);
+    // The firmware's inverse of the divider gives back R_T with the lead subtracted (v = (R + L)/(rs + R + L)).
+    rtline::Circuit c;
+    c.topology = rtline::Topology::divider_low;
+    c.rs = 10e3;
+    c.lead_ohm = 5.0;
+    const double v = (4000.0 + 5.0) / (10e3 + 4000.0 + 5.0);
+    CHECK(rtline::output(c, 4000.0) == doctest::Approx(v).epsilon(1e-14));
+    // The thermistor's power excludes the wires: P = V²·R/(rs + R + L)² at 1 V.
+    CHECK(rtline::operate(c, 4000.0).power_w == doctest::Approx(4000.0 / ((14005.0) * (14005.0))).epsilon(1e-12));
+}
+
+TEST_CASE("size refuses --lead with its reason") {
+    const auto r = run_rtline(
+        {"size", "--r25", "10k", "--beta", "3950", "--span", "0:50", "--circuit", "divider-low", "--lead", "5"});
+    CHECK(r.code == 2);
+    CHECK(r.out.empty());
+    CHECK(r.err.find("--lead '5': size chooses resistors for a thermistor on the board") != std::string::npos);
+}
+
+TEST_CASE("the model error: a part on its Steinhart-Hart curve read through a beta model") {
+    // The part follows 1/T = A + B·ln R + C·ln³R (Steinhart & Hart 1968); the firmware inverts the beta
+    // model, T = 1/(1/T0 + ln(R/R0)/B). The part's R at T is the real root of the cubic (Cardano),
+    // computed here by bisection on the explicit 1/T(ln R); its reading minus T is the model error.
+    const double a = 1.009249522e-3;  // a Steinhart–Hart set near 10k/3950 K (from memory)
+    const double b = 2.378405444e-4;
+    const double c = 2.019202697e-7;
+    const json j =
+        run_json({"budget",      "--r25",    "10k",        "--beta",    "3950",
+                  "--span",      "0:50",     "--step",     "25",        "--circuit",
+                  "divider-low", "--rs",     "10k",        "--part-sh", "1.009249522e-3,2.378405444e-4,2.019202697e-7",
+                  "--r25-tol",   "0",        "--beta-tol", "0",         "--resistor-tol",
+                  "0",           "--trials", "0",          "--format",  "json"});
+    for (const json& p : j["points"]) {
+        const double t = p["t_c"].get<double>() + 273.15;
+        double lo = std::log(10.0);
+        double hi = std::log(1e7);
+        for (int k = 0; k < 200; ++k) {
+            const double m = 0.5 * (lo + hi);
+            (1.0 / (a + b * m + c * m * m * m) > t ? lo : hi) = m;  // T falls as ln R rises
+        }
+        const double r = std::exp(0.5 * (lo + hi));
+        const double read = 1.0 / (1.0 / 298.15 + std::log(r / 10e3) / kB);
+        CAPTURE(t);
+        CHECK(p["nominal_error_c"].get<double>() == doctest::Approx(read - t).epsilon(1e-6));
+        CHECK(p["components"]["model_error_c"].get<double>() == doctest::Approx(std::abs(read - t)).epsilon(1e-6));
+    }
+}
+
+TEST_CASE("a truncated normal never exceeds the worst case; the untruncated one may") {
+    // Truncated at the tolerance every draw lies inside the worst case's box, so no sample can exceed
+    // it (by construction of the worst case as the box's extremes). Untruncated, 0.27 % of each part
+    // lies beyond 3σ: with 200 000 trials some board reads beyond the worst case (here R25 alone,
+    // whose error is monotonic in the part).
+    const std::vector<std::string> base = {"budget", "--r25",      "10k", "--beta",         "3950",        "--span",
+                                           "0:50",   "--step",     "25",  "--circuit",      "divider-low", "--rs",
+                                           "10k",    "--beta-tol", "0",   "--resistor-tol", "0",           "--trials",
+                                           "200000", "--format",   "json"};
+    std::vector<std::string> cut = base;
+    cut.insert(cut.end(), {"--distribution", "normal-truncated"});
+    const json t = run_json(cut);
+    const json u = run_json(base);
+    CHECK(t["assumptions"]["truncated_at_tolerance"] == true);
+    bool beyond = false;
+    for (std::size_t i = 0; i < t["points"].size(); ++i) {
+        CHECK(t["points"][i]["mc"]["max_abs_c"].get<double>() <= t["points"][i]["worst_case_c"].get<double>() + 1e-12);
+        beyond =
+            beyond || u["points"][i]["mc"]["max_abs_c"].get<double>() > u["points"][i]["worst_case_c"].get<double>();
+    }
+    CHECK(beyond);
+}
+
+TEST_CASE("the budget's converter transfer: full-scale makes one LSB 1/(2^N - 1) and is stated") {
+    // 8 bits: 1 LSB = 1/256 (rounding) or 1/255 (full-scale) of the reference (the converter's three
+    // conventions, common practice); the resolution scales by 256/255.
+    auto run = [](const char* transfer) {
+        return run_json({"budget", "--r25",      "10k", "--beta",         "3950",        "--span",
+                         "0:50",   "--step",     "25",  "--circuit",      "divider-low", "--rs",
+                         "10k",    "--adc-bits", "8",   "--adc-transfer", transfer,      "--trials",
+                         "0",      "--format",   "json"});
+    };
+    const json r = run("rounding");
+    const json f = run("full-scale");
+    CHECK(r["assumptions"]["adc"]["lsb"].get<double>() == doctest::Approx(1.0 / 256.0).epsilon(1e-15));
+    CHECK(f["assumptions"]["adc"]["lsb"].get<double>() == doctest::Approx(1.0 / 255.0).epsilon(1e-15));
+    CHECK(f["assumptions"]["adc"]["transfer"] == "full-scale");
+    CHECK(f["points"][1]["resolution_c_per_lsb"].get<double>() ==
+          doctest::Approx(r["points"][1]["resolution_c_per_lsb"].get<double>() * 256.0 / 255.0).epsilon(1e-12));
 }
