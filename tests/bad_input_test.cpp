@@ -206,7 +206,7 @@ TEST_CASE("a mistyped trial count, tolerance or converter figure in a budget is 
          "--seed '-1': the seed must be a whole number from 0 to 18446744073709551615"},
         {"zero threads", with(kBudget, {"--threads", "0"}), "--threads '0': give 1 to 256 threads"},
         {"an unknown distribution", with(kBudget, {"--distribution", "gauss"}),
-         "--distribution 'gauss': unknown distribution; choose normal or uniform"},
+         "--distribution 'gauss': unknown distribution; choose normal, normal-truncated or uniform"},
         {"a converter error without a converter", with(kBudget, {"--adc-error", "1"}),
          "--adc-error '1': needs --adc-bits (an LSB needs a resolution)"},
         {"a zero dissipation constant", with(kBudget, {"--dissipation", "0"}),

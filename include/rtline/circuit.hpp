@@ -48,6 +48,10 @@ struct Circuit {
     double r2 = 0.0;
     double r3 = 0.0;
     double load_ohm = kNoLoad;  // input resistance across the output (between A and B for bridges)
+    // Loop resistance of the wires to a remote thermistor, ohm, in series with it (inside any rp,
+    // which sits on the board): the network sees R_T + lead_ohm, the thermistor's power excludes the
+    // wires. 0 = the thermistor sits on the board.
+    double lead_ohm = 0.0;
     Excitation excitation;
 };
 
@@ -70,12 +74,17 @@ struct OperatingPoint {
     double power_w = 0.0;       // thermistor dissipation, W; NaN when the circuit has no drive
 };
 
-// The operating point for thermistor resistance r_t (ohm).
+// The operating point for thermistor resistance r_t (ohm), the lead wires included.
 [[nodiscard]] OperatingPoint operate(const Circuit& c, double r_t);
 [[nodiscard]] double output(const Circuit& c, double r_t);
 
+// What the lead wires alone do to a reading at t_k: the temperature of the model at R_T(t_k) +
+// c.lead_ohm minus t_k, kelvin (negative for an NTC: the wires read cold). This is the error of a
+// firmware that does not subtract the leads; 0 without them.
+[[nodiscard]] double lead_shift_k(const Circuit& c, const Thermistor& model, double t_k);
+
 // The network's Thevenin source impedance at its output for thermistor resistance r_t, ohm: the drive
-// set to zero (a voltage source shorted, a current source open), the load included. What an amplifier's
+// set to zero (a voltage source shorted, a current source open), the load and the lead wires included. What an amplifier's
 // input bias current or a converter's sampling capacitor sees.
 struct SourceImpedance {
     double out_ohm = 0.0;  // at the output: to ground, or between A and B for bridges (differential)

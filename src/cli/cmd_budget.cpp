@@ -3,6 +3,7 @@
 #include <charconv>
 #include <cmath>
 #include <memory>
+#include <tuple>
 
 #include "commands.hpp"
 #include "common.hpp"
@@ -18,10 +19,26 @@ struct BudgetOptions {
     ModelOptions model;
     SpanOptions span;
     CircuitOptions circuit;
-    std::string r25_tol = "1";       // %
-    std::string beta_tol = "1";      // %
+    std::string r25_tol;             // %; default 1, or 0 with --dt-tol
+    std::string beta_tol;            // %; default 1, or 0 with --dt-tol
     std::string resistor_tol = "1";  // %
-    std::string excitation_tol;      // %; default 1 when the reading is in volts, else not applicable
+    std::string resistor_tc;         // ppm/K
+    std::string board_temp = "sensed";
+    std::string dt_tol;    // K
+    std::string dt_range;  // °C LO:HI
+    std::string drift;     // %
+    std::string part_sh;
+    std::string part_points;
+    std::string lead_tol;  // %
+    std::string cable_temp;
+    std::string lead_compensation = "yes";
+    std::string adc_offset;  // LSB
+    std::string adc_gain;    // %
+    std::string adc_inl;     // LSB
+    std::string adc_transfer;
+    std::string ref_tol;         // %
+    std::string ref_tc;          // ppm/K
+    std::string excitation_tol;  // %; default 1 when the reading is in volts, else not applicable
     std::string distribution = "normal";
     std::string reading = "model";
     std::string adc_bits;
@@ -71,10 +88,82 @@ std::uint64_t parse_seed(const std::string& text) {
     return v;
 }
 
+// A number with an optional unit suffix (e.g. "2LSB", "50ppm/K"), at least 0.
+double parse_nonnegative(const std::string& text, const std::string& flag, const std::string& suffix) {
+    std::string t = text;
+    if (t.size() > suffix.size() && t.compare(t.size() - suffix.size(), suffix.size(), suffix) == 0) {
+        t.resize(t.size() - suffix.size());
+    }
+    const double v = parse_number(t, flag);
+    if (!(v >= 0.0)) throw InputError(flag, text, "must be 0 or more");
+    return v;
+}
+
+// A temperature range LO:HI or a single temperature, °C, as kelvin.
+std::pair<double, double> parse_range(const std::string& text, const std::string& flag) {
+    if (text.find(':') == std::string::npos) {
+        const double t = parse_temperature(text, flag);
+        return {t, t};
+    }
+    const Span sp = parse_span(text, flag);
+    return {sp.lo_k, sp.hi_k};
+}
+
 BudgetSpec build_spec(const BudgetOptions& o, const Circuit& circuit) {
     BudgetSpec s;
-    s.tolerance.r25 = parse_percent(o.r25_tol, "--r25-tol");
-    s.tolerance.beta = parse_percent(o.beta_tol, "--beta-tol");
+    const bool dt = !o.dt_tol.empty();
+    if (dt && (!o.r25_tol.empty() || !o.beta_tol.empty())) {
+        throw InputError(!o.r25_tol.empty() ? "--r25-tol" : "--beta-tol", !o.r25_tol.empty() ? o.r25_tol : o.beta_tol,
+                         "--dt-tol already states the thermistor's tolerance; give it one way, not both");
+    }
+    s.tolerance.r25 = o.r25_tol.empty() ? (dt ? 0.0 : 0.01) : parse_percent(o.r25_tol, "--r25-tol");
+    s.tolerance.beta = o.beta_tol.empty() ? (dt ? 0.0 : 0.01) : parse_percent(o.beta_tol, "--beta-tol");
+    if (dt) {
+        s.tolerance.thermistor_dt_k = parse_nonnegative(o.dt_tol, "--dt-tol", "K");
+        if (o.dt_range.empty())
+            throw InputError("--dt-range", "", "--dt-tol needs the range it holds over, LO:HI degC");
+        std::tie(s.dt_lo_k, s.dt_hi_k) = parse_range(o.dt_range, "--dt-range");
+    } else if (!o.dt_range.empty()) {
+        throw InputError("--dt-range", o.dt_range, "applies only with --dt-tol");
+    }
+    if (!o.drift.empty()) s.tolerance.thermistor_drift = parse_percent(o.drift, "--drift");
+    if (!o.resistor_tc.empty())
+        s.tolerance.resistor_tc_per_k = 1e-6 * parse_nonnegative(o.resistor_tc, "--resistor-tc", "ppm/K");
+    if (o.board_temp != "sensed") {
+        s.board.sensed = false;
+        std::tie(s.board.lo_k, s.board.hi_k) = parse_range(o.board_temp, "--board-temp");
+    }
+    if (!o.lead_tol.empty()) s.tolerance.lead = parse_percent(o.lead_tol, "--lead-tol");
+    if (!o.cable_temp.empty()) std::tie(s.cable_lo_k, s.cable_hi_k) = parse_range(o.cable_temp, "--cable-temp");
+    if (o.lead_compensation != "yes" && o.lead_compensation != "no") {
+        throw InputError("--lead-compensation", o.lead_compensation,
+                         "choose yes (the firmware subtracts --lead) or no");
+    }
+    s.lead_compensated = o.lead_compensation == "yes";
+    if (!o.part_sh.empty() && !o.part_points.empty()) {
+        throw InputError("--part-points", o.part_points, "give the part's curve one way: --part-sh or --part-points");
+    }
+    if (!o.part_sh.empty()) {
+        ModelOptions m;
+        m.sh = o.part_sh;
+        try {
+            s.part = build_model(m);
+        } catch (const InputError& e) {
+            throw InputError("--part-sh", o.part_sh, e.why());
+        }
+    }
+    if (!o.part_points.empty()) {
+        ModelOptions m;
+        m.points = o.part_points;
+        m.model = "table";
+        s.part = build_model(m);
+    }
+    if (!o.adc_offset.empty()) s.adc.offset_lsb = parse_nonnegative(o.adc_offset, "--adc-offset", "LSB");
+    if (!o.adc_inl.empty()) s.adc.inl_lsb = parse_nonnegative(o.adc_inl, "--adc-inl", "LSB");
+    if (!o.adc_gain.empty()) s.adc.gain = parse_percent(o.adc_gain, "--adc-gain");
+    s.adc.transfer = build_adc_transfer(o.adc_transfer);
+    if (!o.ref_tol.empty()) s.tolerance.reference = parse_percent(o.ref_tol, "--ref-tol");
+    if (!o.ref_tc.empty()) s.tolerance.reference_tc_per_k = 1e-6 * parse_nonnegative(o.ref_tc, "--ref-tc", "ppm/K");
     s.tolerance.resistors = parse_percent(o.resistor_tol, "--resistor-tol");
     s.distribution = parse_distribution(o.distribution, "--distribution");
     s.reading = parse_reading(o.reading, "--reading");
@@ -144,30 +233,53 @@ std::string reading_description(const BudgetSpec& s, const Circuit& circuit, con
     return t;
 }
 
+std::string pm_pct(double f) { return "\xC2\xB1" + format_number(100.0 * f) + " %"; }
+std::string pm_ppm(double c) { return "\xC2\xB1" + format_number(1e6 * c) + " ppm/K"; }
+std::string range_text(double lo_k, double hi_k) {
+    return lo_k == hi_k ? celsius(lo_k, 1) + " " + kDegC : celsius(lo_k, 1) + " to " + celsius(hi_k, 1) + " " + kDegC;
+}
+
+std::string distribution_text(Distribution d) {
+    switch (d) {
+        case Distribution::normal:
+            return "normal, tolerance = 3 sigma, not truncated: 0.27 % of the draws lie beyond a tolerance, so a "
+                   "Monte Carlo maximum can exceed the worst case";
+        case Distribution::normal_truncated:
+            return "normal, tolerance = 3 sigma, truncated at the tolerance (screened parts)";
+        case Distribution::uniform: break;
+    }
+    return "uniform over the tolerance";
+}
+
 std::string parts_description(const BudgetSpec& s, bool volts) {
-    auto p = [](double f) { return "\xC2\xB1" + format_number(100.0 * f) + " %"; };
-    std::string t =
-        "R25 " + p(s.tolerance.r25) + ", B " + p(s.tolerance.beta) + ", resistors " + p(s.tolerance.resistors);
-    if (volts) t += ", excitation " + p(s.tolerance.excitation);
-    return t + (s.distribution == Distribution::normal ? " (normal, tolerance = 3 sigma)"
-                                                       : " (uniform over the tolerance)");
+    const Tolerances& t = s.tolerance;
+    std::string out;
+    if (t.thermistor_dt_k > 0.0) {
+        out = "thermistor \xC2\xB1" + format_number(t.thermistor_dt_k) + " K over " + range_text(s.dt_lo_k, s.dt_hi_k);
+        if (t.r25 > 0.0 || t.beta > 0.0) out += ", R25 " + pm_pct(t.r25) + ", B " + pm_pct(t.beta);
+    } else {
+        out = "R25 " + pm_pct(t.r25) + ", B " + pm_pct(t.beta);
+    }
+    if (t.thermistor_drift > 0.0) out += ", drift " + pm_pct(t.thermistor_drift);
+    out += ", resistors " + pm_pct(t.resistors);
+    if (t.resistor_tc_per_k > 0.0) out += " and " + pm_ppm(t.resistor_tc_per_k);
+    if (volts) out += ", excitation " + pm_pct(t.excitation);
+    return out + " (" + distribution_text(s.distribution) + ")";
 }
 
 Json components_json(const BudgetComponents& k) {
-    return {{"nonlinearity", number(k.nonlinearity_k)},
-            {"r25", number(k.r25_k)},
-            {"beta", number(k.beta_k)},
-            {"resistors", number(k.resistors_k)},
-            {"excitation", number(k.excitation_k)},
-            {"adc", number(k.adc_k)},
-            {"self_heating", number(k.self_heating_k)}};
+    Json j = Json::object();
+    for (std::size_t c = 0; c < kCauses; ++c) j[std::string(cause_key(static_cast<Cause>(c))) + "_c"] = number(k.k[c]);
+    return j;
 }
 
 Json budget_json(const Budget& b, const BudgetSpec& s, const Thermistor& model, const Span& span,
                  const Circuit& circuit, const std::string& unit) {
     const bool volts = unit == "V";
+    const Tolerances& t = s.tolerance;
     Json doc = document("budget");
     doc["model"] = model_json(model);
+    doc["part"] = s.part ? model_json(*s.part) : Json(nullptr);
     doc["span"] = {{"lo_c", kelvin_to_celsius(span.lo_k)}, {"hi_c", kelvin_to_celsius(span.hi_k)}};
     doc["circuit"] = circuit_json(circuit);
     Json a;
@@ -175,17 +287,45 @@ Json budget_json(const Budget& b, const BudgetSpec& s, const Thermistor& model, 
     a["reading_unit"] = unit;
     a["ratiometric"] = unit == "V/V";
     a["distribution"] = std::string(distribution_name(s.distribution));
-    a["sigmas_per_tolerance"] = s.distribution == Distribution::normal ? Json(3) : Json(nullptr);
+    a["sigmas_per_tolerance"] = s.distribution == Distribution::uniform ? Json(nullptr) : Json(3);
+    a["truncated_at_tolerance"] = s.distribution != Distribution::normal;
     a["trials"] = s.trials;
     a["seed"] = s.seed;
-    a["tolerances_pct"] = {{"r25", 100.0 * s.tolerance.r25},
-                           {"beta", 100.0 * s.tolerance.beta},
-                           {"resistors", 100.0 * s.tolerance.resistors},
-                           {"excitation", volts ? Json(100.0 * s.tolerance.excitation) : Json(nullptr)}};
-    a["r25_at_t_c"] = kelvin_to_celsius(tolerance_reference_k(model));
+    a["tolerances_pct"] = {{"r25", 100.0 * t.r25},
+                           {"beta", 100.0 * t.beta},
+                           {"resistors", 100.0 * t.resistors},
+                           {"excitation", volts ? Json(100.0 * t.excitation) : Json(nullptr)},
+                           {"thermistor_drift", 100.0 * t.thermistor_drift},
+                           {"lead", 100.0 * t.lead},
+                           {"reference", 100.0 * t.reference}};
+    a["coefficients_ppm_per_k"] = {{"resistors", 1e6 * t.resistor_tc_per_k}, {"reference", 1e6 * t.reference_tc_per_k}};
+    a["coefficients_from_c"] = kelvin_to_celsius(kCoefficientReferenceK);
+    a["board_temperature"] =
+        s.board.sensed ? Json("sensed")
+                       : Json({{"lo_c", kelvin_to_celsius(s.board.lo_k)}, {"hi_c", kelvin_to_celsius(s.board.hi_k)}});
+    a["thermistor_dt_k"] = t.thermistor_dt_k > 0.0 ? Json({{"tolerance_k", t.thermistor_dt_k},
+                                                           {"lo_c", kelvin_to_celsius(s.dt_lo_k)},
+                                                           {"hi_c", kelvin_to_celsius(s.dt_hi_k)}})
+                                                   : Json(nullptr);
+    if (circuit.lead_ohm > 0.0) {
+        a["lead"] = {{"loop_ohm_at_20_c", circuit.lead_ohm},
+                     {"compensated", s.lead_compensated},
+                     {"copper_alpha_per_k", kCopperAlphaPerK},
+                     {"cable_lo_c", kelvin_to_celsius(s.cable_lo_k)},
+                     {"cable_hi_c", kelvin_to_celsius(s.cable_hi_k)}};
+    } else {
+        a["lead"] = nullptr;
+    }
+    a["r25_at_t_c"] = kelvin_to_celsius(tolerance_reference_k(s.part ? *s.part : model));
     if (s.adc.bits > 0) {
-        a["adc"] = {
-            {"bits", s.adc.bits}, {"error_lsb", s.adc.error_lsb}, {"full_scale", s.adc.full_scale}, {"lsb", b.lsb}};
+        a["adc"] = {{"bits", s.adc.bits},
+                    {"transfer", std::string(adc_transfer_name(s.adc.transfer))},
+                    {"error_lsb", s.adc.error_lsb},
+                    {"offset_lsb", s.adc.offset_lsb},
+                    {"gain_pct", 100.0 * s.adc.gain},
+                    {"inl_lsb", s.adc.inl_lsb},
+                    {"full_scale", s.adc.full_scale},
+                    {"lsb", b.lsb}};
     } else {
         a["adc"] = nullptr;
     }
@@ -197,6 +337,8 @@ Json budget_json(const Budget& b, const BudgetSpec& s, const Thermistor& model, 
     const bool mc = s.trials > 0;
     doc["summary"] = {{"worst_case_c", b.summary.worst_case_k},
                       {"at_t_c", kelvin_to_celsius(b.summary.at_t_k)},
+                      {"worst_low_c", b.summary.worst_low_k},
+                      {"worst_high_c", b.summary.worst_high_k},
                       {"p99_7_c", number(b.summary.p99_7_k)},
                       {"p99_7_at_t_c", mc ? Json(kelvin_to_celsius(b.summary.p99_7_at_t_k)) : Json(nullptr)}};
     Json pts = Json::array();
@@ -204,17 +346,17 @@ Json budget_json(const Budget& b, const BudgetSpec& s, const Thermistor& model, 
         Json j;
         j["t_c"] = kelvin_to_celsius(p.t_k);
         j["worst_case_c"] = p.worst_case_k;
+        j["worst_low_c"] = p.worst_low_k;
+        j["worst_high_c"] = p.worst_high_k;
         j["nominal_error_c"] = p.nominal_error_k;
         if (mc) {
-            j["mc"] = {{"mean_c", p.mc.mean_k},
-                       {"std_c", number(p.mc.std_k)},
-                       {"p95_c", p.mc.p95_k},
-                       {"p99_7_c", p.mc.p99_7_k},
-                       {"max_abs_c", p.mc.max_abs_k}};
+            j["mc"] = {{"mean_c", p.mc.mean_k},   {"std_c", number(p.mc.std_k)}, {"p95_c", p.mc.p95_k},
+                       {"p99_7_c", p.mc.p99_7_k}, {"max_abs_c", p.mc.max_abs_k}, {"p0_135_c", p.mc.p0_135_k},
+                       {"p2_5_c", p.mc.p2_5_k},   {"p97_5_c", p.mc.p97_5_k},     {"p99_865_c", p.mc.p99_865_k}};
         } else {
             j["mc"] = nullptr;
         }
-        j["components_c"] = components_json(p.components);
+        j["components"] = components_json(p.components);
         j["resolution_c_per_lsb"] = number(p.resolution_k_per_lsb);
         pts.push_back(j);
     }
@@ -223,114 +365,131 @@ Json budget_json(const Budget& b, const BudgetSpec& s, const Thermistor& model, 
 }
 
 std::string budget_csv(const Budget& b) {
-    Table t({{"", "t_c"},
-             {"", "worst_case_c"},
-             {"", "nominal_error_c"},
-             {"", "mc_mean_c"},
-             {"", "mc_std_c"},
-             {"", "mc_p95_c"},
-             {"", "mc_p99_7_c"},
-             {"", "mc_max_abs_c"},
-             {"", "nonlinearity_c"},
-             {"", "r25_c"},
-             {"", "beta_c"},
-             {"", "resistors_c"},
-             {"", "excitation_c"},
-             {"", "adc_c"},
-             {"", "self_heating_c"},
-             {"", "resolution_c_per_lsb"}});
+    std::vector<Column> cols = {
+        {"", "t_c"},         {"", "worst_case_c"}, {"", "worst_low_c"}, {"", "worst_high_c"}, {"", "nominal_error_c"},
+        {"", "mc_mean_c"},   {"", "mc_std_c"},     {"", "mc_p95_c"},    {"", "mc_p99_7_c"},   {"", "mc_max_abs_c"},
+        {"", "mc_p0_135_c"}, {"", "mc_p2_5_c"},    {"", "mc_p97_5_c"},  {"", "mc_p99_865_c"}};
+    for (std::size_t c = 0; c < kCauses; ++c)
+        cols.push_back({"", std::string(cause_key(static_cast<Cause>(c))) + "_c"});
+    cols.push_back({"", "resolution_c_per_lsb"});
+    Table t(cols);
     for (const BudgetPoint& p : b.points) {
-        const BudgetComponents& k = p.components;
-        t.add_row({kelvin_to_celsius(p.t_k), p.worst_case_k, p.nominal_error_k, p.mc.mean_k, p.mc.std_k, p.mc.p95_k,
-                   p.mc.p99_7_k, p.mc.max_abs_k, k.nonlinearity_k, k.r25_k, k.beta_k, k.resistors_k, k.excitation_k,
-                   k.adc_k, k.self_heating_k, p.resolution_k_per_lsb});
+        std::vector<Cell> row = {kelvin_to_celsius(p.t_k),
+                                 p.worst_case_k,
+                                 p.worst_low_k,
+                                 p.worst_high_k,
+                                 p.nominal_error_k,
+                                 p.mc.mean_k,
+                                 p.mc.std_k,
+                                 p.mc.p95_k,
+                                 p.mc.p99_7_k,
+                                 p.mc.max_abs_k,
+                                 p.mc.p0_135_k,
+                                 p.mc.p2_5_k,
+                                 p.mc.p97_5_k,
+                                 p.mc.p99_865_k};
+        for (const double v : p.components.k) row.push_back(v);
+        row.push_back(p.resolution_k_per_lsb);
+        t.add_row(row);
     }
     return t.csv();
 }
 
 // The cause with the largest share at point p, for the summary line.
 std::string largest_cause(const BudgetPoint& p) {
-    const BudgetComponents& k = p.components;
-    const std::pair<const char*, double> causes[] = {
-        {"nonlinearity", k.nonlinearity_k}, {"thermistor R25", k.r25_k},    {"thermistor B-value", k.beta_k},
-        {"fixed resistors", k.resistors_k}, {"excitation", k.excitation_k}, {"ADC", k.adc_k},
-        {"self-heating", k.self_heating_k}};
-    const char* name = "";
-    double best = -1.0;
-    for (const auto& [n, v] : causes) {
-        if (std::isfinite(v) && v > best) {
-            best = v;
-            name = n;
-        }
+    std::size_t best = kCauses;
+    for (std::size_t c = 0; c < kCauses; ++c) {
+        if (std::isfinite(p.components.k[c]) && (best == kCauses || p.components.k[c] > p.components.k[best])) best = c;
     }
-    return std::string(name) + " (" + format_fixed(best, 4) + " " + kDegC + ")";
+    if (best == kCauses) return "none";
+    return std::string(cause_label(static_cast<Cause>(best))) + " (" + format_fixed(p.components.k[best], 4) + " " +
+           kDegC + ")";
 }
 
 std::string budget_text(const Budget& b, const BudgetSpec& s, const Thermistor& model, const Circuit& circuit,
                         const std::string& unit) {
     const bool mc = s.trials > 0;
+    const Tolerances& tl = s.tolerance;
     const std::string deg = std::string(" (") + kDegC + ")";
-    std::string t = "model:        " + describe_model(model) + "\n";
+    std::string t = "model:        " + describe_model(model) + (s.part ? " (the firmware inverts this)" : "") + "\n";
+    if (s.part) t += "part:         " + describe_model(*s.part) + " (its real curve: the model error)\n";
     t += "circuit:      " + describe_circuit(circuit) + "\n";
     t += "reading:      " + reading_description(s, circuit, unit) + "\n";
     t += "parts:        " + parts_description(s, unit == "V") + "; R25 at " +
-         format_number(kelvin_to_celsius(tolerance_reference_k(model))) + " " + kDegC + "\n";
-    if (s.adc.bits > 0) {
-        t += "converter:    " + std::to_string(s.adc.bits) + " bits, 1 LSB = " + format_number(b.lsb, 4) + " " + unit +
-             "; quantization \xC2\xB1"
-             "0.5 LSB" +
-             (s.adc.error_lsb > 0.0 ? " + converter error \xC2\xB1" + format_number(s.adc.error_lsb) + " LSB" : "") +
+         format_number(kelvin_to_celsius(tolerance_reference_k(s.part ? *s.part : model))) + " " + kDegC + "\n";
+    if (tl.resistor_tc_per_k > 0.0 || tl.reference_tc_per_k > 0.0) {
+        t += "board:        " +
+             (s.board.sensed ? std::string("at the sensed temperature (a probe inside the product)")
+                             : range_text(s.board.lo_k, s.board.hi_k) + " (uniform in the Monte Carlo)") +
+             "; coefficients from " + format_number(kelvin_to_celsius(kCoefficientReferenceK)) + " " + kDegC + "\n";
+    }
+    if (circuit.lead_ohm > 0.0) {
+        t += "leads:        " + format_resistance(circuit.lead_ohm, 6) + " ohm loop at 20 " + kDegC + " " +
+             pm_pct(tl.lead) + ", copper " + format_number(100.0 * kCopperAlphaPerK) + " %/K (IEC 60028) at " +
+             range_text(s.cable_lo_k, s.cable_hi_k) + "; " +
+             (s.lead_compensated ? "the firmware subtracts the nominal loop" : "not compensated: all of it counts") +
              "\n";
     }
+    if (tl.reference > 0.0 || tl.reference_tc_per_k > 0.0) {
+        t += "reference:    " + pm_pct(tl.reference) + " and " + pm_ppm(tl.reference_tc_per_k) +
+             (unit == "V" ? "" : " (ratiometric: it is the excitation too, so it cancels in the reading)") + "\n";
+    }
+    if (s.adc.bits > 0) {
+        t += "converter:    " + std::to_string(s.adc.bits) + " bits, 1 LSB = " + format_number(b.lsb, 4) + " " + unit +
+             "; " + describe_adc_transfer(s.adc.transfer, s.adc.bits) + "\n";
+        t += "              quantization \xC2\xB1"
+             "0.5 LSB";
+        if (s.adc.offset_lsb > 0.0) t += ", offset \xC2\xB1" + format_number(s.adc.offset_lsb) + " LSB";
+        if (s.adc.gain > 0.0) t += ", gain " + pm_pct(s.adc.gain);
+        if (s.adc.inl_lsb > 0.0) t += ", INL \xC2\xB1" + format_number(s.adc.inl_lsb) + " LSB";
+        if (s.adc.error_lsb > 0.0) t += ", further error \xC2\xB1" + format_number(s.adc.error_lsb) + " LSB";
+        t += " (uniform in the Monte Carlo)\n";
+    }
     if (s.dissipation_w_per_k > 0.0) {
-        t += "self-heating: dissipation constant " + format_number(1e3 * s.dissipation_w_per_k) + " mW/K\n";
+        t += "self-heating: dissipation constant " + format_number(1e3 * s.dissipation_w_per_k) +
+             " mW/K, body temperature solved exactly (reads warm)\n";
     }
     t += "Monte Carlo:  " +
          (mc ? std::to_string(s.trials) + " trials, seed " + std::to_string(s.seed) : std::string("off (--trials 0)")) +
          "\n\n";
 
-    std::vector<Column> cols = {{"T" + deg, "", 2}, {"worst case" + deg, "", 4}};
+    std::vector<Column> cols = {{"T" + deg, "", 2}, {"worst low" + deg, "", 4}, {"worst high" + deg, "", 4}};
     if (mc) {
         cols.insert(cols.end(), {{"MC mean" + deg, "", 4},
                                  {"MC std" + deg, "", 4},
-                                 {"95 % bound" + deg, "", 4},
-                                 {"99.7 % bound" + deg, "", 4},
-                                 {"MC max |error|" + deg, "", 4}});
+                                 {"0.135 %" + deg, "", 4},
+                                 {"2.5 %" + deg, "", 4},
+                                 {"97.5 %" + deg, "", 4},
+                                 {"99.865 %" + deg, "", 4},
+                                 {"|e| 99.7 %" + deg, "", 4},
+                                 {"MC max |e|" + deg, "", 4}});
     }
     Table errors(cols);
     for (const BudgetPoint& p : b.points) {
-        std::vector<Cell> row = {kelvin_to_celsius(p.t_k), p.worst_case_k};
-        if (mc) row.insert(row.end(), {p.mc.mean_k, p.mc.std_k, p.mc.p95_k, p.mc.p99_7_k, p.mc.max_abs_k});
+        std::vector<Cell> row = {kelvin_to_celsius(p.t_k), p.worst_low_k, p.worst_high_k};
+        if (mc) {
+            row.insert(row.end(), {p.mc.mean_k, p.mc.std_k, p.mc.p0_135_k, p.mc.p2_5_k, p.mc.p97_5_k, p.mc.p99_865_k,
+                                   p.mc.p99_7_k, p.mc.max_abs_k});
+        }
         errors.add_row(row);
     }
     t += errors.text() + "\n";
 
     // The split: one column per cause that applies.
     const BudgetComponents& k0 = b.points.front().components;
-    struct Cause {
-        const char* header;
-        double BudgetComponents::*field;
-    };
-    const Cause causes[] = {{"nonlinearity", &BudgetComponents::nonlinearity_k},
-                            {"R25", &BudgetComponents::r25_k},
-                            {"B-value", &BudgetComponents::beta_k},
-                            {"resistors", &BudgetComponents::resistors_k},
-                            {"excitation", &BudgetComponents::excitation_k},
-                            {"ADC", &BudgetComponents::adc_k},
-                            {"self-heating", &BudgetComponents::self_heating_k}};
     std::vector<Column> split_cols = {{"T" + deg, "", 2}};
-    std::vector<const Cause*> shown;
-    for (const Cause& cause : causes) {
-        if (!std::isnan(k0.*cause.field)) {
-            split_cols.push_back({cause.header + deg, "", 4});
-            shown.push_back(&cause);
+    std::vector<std::size_t> shown;
+    for (std::size_t c = 0; c < kCauses; ++c) {
+        if (!std::isnan(k0.k[c])) {
+            split_cols.push_back({std::string(cause_label(static_cast<Cause>(c))) + deg, "", 4});
+            shown.push_back(c);
         }
     }
     if (s.adc.bits > 0) split_cols.push_back({std::string("resolution (") + kDegC + "/LSB)", "", 5});
     Table split(split_cols);
     for (const BudgetPoint& p : b.points) {
         std::vector<Cell> row = {kelvin_to_celsius(p.t_k)};
-        for (const Cause* cause : shown) row.push_back(p.components.*(cause->field));
+        for (const std::size_t c : shown) row.push_back(p.components.k[c]);
         if (s.adc.bits > 0) row.push_back(p.resolution_k_per_lsb);
         split.add_row(row);
     }
@@ -338,7 +497,8 @@ std::string budget_text(const Budget& b, const BudgetSpec& s, const Thermistor& 
 
     const BudgetSummary& sm = b.summary;
     t += "worst case over the span   " + format_fixed(sm.worst_case_k, 4) + " " + kDegC + " at " + celsius(sm.at_t_k) +
-         " " + kDegC + "\n";
+         " " + kDegC + " (signed: " + format_fixed(sm.worst_low_k, 4) + " to +" + format_fixed(sm.worst_high_k, 4) +
+         " " + kDegC + ")\n";
     if (mc) {
         t += "99.7 % bound over the span " + format_fixed(sm.p99_7_k, 4) + " " + kDegC + " at " +
              celsius(sm.p99_7_at_t_k) + " " + kDegC + "\n";
@@ -375,11 +535,7 @@ void run_budget(const BudgetOptions& o) {
     std::vector<Output> outputs{{o.out.output, bytes, "-o"}};
     if (!o.svg.empty()) {
         outputs.push_back(
-            {o.svg,
-             svg::render(budget_figure(thermistor, circuit, b,
-                                       spec.distribution == Distribution::normal ? "normal, tolerance = 3 sigma"
-                                                                                 : "uniform over the tolerance")),
-             "--svg"});
+            {o.svg, svg::render(budget_figure(thermistor, circuit, b, distribution_text(spec.distribution))), "--svg"});
     }
     emit_all(outputs);
 }
@@ -394,14 +550,42 @@ void setup_budget(CLI::App& app) {
     add_span_options(*sub, opt->span);
     add_circuit_options(*sub, opt->circuit);
     const char* tol = "Tolerances";
-    sub->add_option("--r25-tol", opt->r25_tol, "Thermistor resistance at T0, +-% (default 1)")->group(tol);
-    sub->add_option("--beta-tol", opt->beta_tol, "Thermistor B-value, +-% (default 1)")->group(tol);
+    sub->add_option("--r25-tol", opt->r25_tol, "Thermistor resistance at T0, +-% (default 1; 0 with --dt-tol)")
+        ->group(tol);
+    sub->add_option("--beta-tol", opt->beta_tol, "Thermistor B-value, +-% (default 1; 0 with --dt-tol)")->group(tol);
+    sub->add_option("--dt-tol", opt->dt_tol,
+                    "Thermistor interchangeability, +-K over --dt-range (instead of --r25-tol and --beta-tol)")
+        ->group(tol);
+    sub->add_option("--dt-range", opt->dt_range, "The range --dt-tol holds over, LO:HI degC")->group(tol);
+    sub->add_option("--drift", opt->drift, "Thermistor long-term drift, +-% of R (default 0)")->group(tol);
+    sub->add_option("--part-sh", opt->part_sh,
+                    "The part's real curve, Steinhart-Hart A,B,C, while the firmware inverts the model (model error)")
+        ->group(tol);
+    sub->add_option("--part-points", opt->part_points,
+                    "The part's real curve as R-T points (CSV t_c,r_ohm, interpolated) while the firmware inverts the "
+                    "model (model error)")
+        ->check(non_empty_file_name)
+        ->group(tol);
     sub->add_option("--resistor-tol", opt->resistor_tol, "Every fixed resistor, +-% (default 1)")->group(tol);
+    sub->add_option("--resistor-tc", opt->resistor_tc, "Every fixed resistor's temperature coefficient, +-ppm/K")
+        ->group(tol);
+    sub->add_option("--board-temp", opt->board_temp,
+                    "Where the resistors and reference sit: sensed (a probe inside the product, default) or LO:HI "
+                    "degC (a remote probe)")
+        ->group(tol);
+    sub->add_option("--lead-tol", opt->lead_tol, "Lead wires' loop resistance (--lead), +-%")->group(tol);
+    sub->add_option("--cable-temp", opt->cable_temp,
+                    "Lead wires' temperature, degC or LO:HI (default 20; copper 0.393 %/K, IEC 60028)")
+        ->group(tol);
+    sub->add_option("--lead-compensation", opt->lead_compensation,
+                    "yes: the firmware subtracts --lead (default); no: the whole lead is an error")
+        ->group(tol);
     sub->add_option("--excitation-tol", opt->excitation_tol,
                     "Drive voltage or current, +-% (default 1; only for a reading in volts)")
         ->group(tol);
     sub->add_option("--distribution", opt->distribution,
-                    "Monte Carlo spread: normal (tolerance = 3 sigma, default) or uniform")
+                    "Monte Carlo spread: normal (tolerance = 3 sigma, default), normal-truncated (screened at the "
+                    "tolerance) or uniform")
         ->group(tol);
     const char* rd = "Reading";
     sub->add_option("--reading", opt->reading,
@@ -409,11 +593,18 @@ void setup_budget(CLI::App& app) {
         ->group(rd);
     sub->add_option("--adc-bits", opt->adc_bits, "Converter resolution, 1 to 24 bits (default: no converter)")
         ->group(rd);
-    sub->add_option("--adc-error", opt->adc_error, "Converter error bound, +-LSB (needs --adc-bits)")->group(rd);
+    add_adc_transfer_option(*sub, opt->adc_transfer, rd);
+    sub->add_option("--adc-offset", opt->adc_offset, "Converter offset, +-LSB")->group(rd);
+    sub->add_option("--adc-gain", opt->adc_gain, "Converter gain error, +-%")->group(rd);
+    sub->add_option("--adc-inl", opt->adc_inl, "Converter integral nonlinearity, +-LSB")->group(rd);
+    sub->add_option("--adc-error", opt->adc_error, "Further converter error bound, +-LSB (needs --adc-bits)")
+        ->group(rd);
     sub->add_option("--adc-ref", opt->adc_ref,
                     "Converter reference: excitation (ratiometric) or volts (default: the --excitation voltage as "
                     "a fixed reference; ratiometric without a drive)")
         ->group(rd);
+    sub->add_option("--ref-tol", opt->ref_tol, "Reference voltage, +-%")->group(rd);
+    sub->add_option("--ref-tc", opt->ref_tc, "Reference temperature coefficient, +-ppm/K")->group(rd);
     sub->add_option("--dissipation", opt->dissipation, "Thermistor dissipation constant, mW/K (self-heating)")
         ->group(rd);
     const char* mc = "Monte Carlo";

@@ -1,4 +1,5 @@
 // rtline check: a candidate network analysed point by point against a straight reference line.
+#include <algorithm>
 #include <cmath>
 #include <iostream>
 #include <memory>
@@ -44,6 +45,19 @@ Json summary_json(const AnalysisSummary& s) {
             {"max_self_heating_k", number(s.max_self_heating_k)}};
 }
 
+// The nominal shift of the lead wires over the span, K (lowest, highest): what a firmware that does
+// not subtract them would read.
+std::pair<double, double> lead_shift_range(const Circuit& c, const Thermistor& model, const Grid& grid) {
+    double lo = INFINITY;
+    double hi = -INFINITY;
+    for (const double t_k : grid.t_k) {
+        const double d = lead_shift_k(c, model, t_k);
+        lo = std::min(lo, d);
+        hi = std::max(hi, d);
+    }
+    return {lo, hi};
+}
+
 void run_check(const CheckCommand& o) {
     const Format format = parse_format(o.out.format);
     const Thermistor thermistor = build_model(o.model);
@@ -75,6 +89,10 @@ void run_check(const CheckCommand& o) {
         doc["line_coefficients"] = {{"slope_per_k", a.line.slope}, {"intercept_at_0_c", a.line.at(kZeroCelsiusK)}};
         if (dissipation_w_per_k > 0.0) doc["dissipation_mw_per_k"] = 1e3 * dissipation_w_per_k;
         doc["summary"] = summary_json(a.summary);
+        if (circuit.lead_ohm > 0.0) {
+            const auto [lo, hi] = lead_shift_range(circuit, thermistor, grid);
+            doc["summary"]["lead_shift_c"] = {{"min", lo}, {"max", hi}};
+        }
         Json pts = Json::array();
         for (const PointResult& p : a.points) {
             pts.push_back({{"t_c", kelvin_to_celsius(p.t_k)},
@@ -146,6 +164,13 @@ void run_check(const CheckCommand& o) {
             t += "output span             " + format_number(s.output_span, 5) + " " + unit + "\n";
             t += "sensitivity             " + format_number(s.sensitivity_min_per_k, 4) + " to " +
                  format_number(s.sensitivity_max_per_k, 4) + " " + unit + " per K\n";
+            if (circuit.lead_ohm > 0.0) {
+                const auto [lo, hi] = lead_shift_range(circuit, thermistor, grid);
+                t += "lead wires              " + format_fixed(lo, 3) + " to " + format_fixed(hi, 3) +
+                     " \xC2\xB0"
+                     "C if the firmware does not subtract their " +
+                     format_resistance(circuit.lead_ohm, 6) + " ohm\n";
+            }
             if (std::isfinite(s.max_power_w)) {
                 t += "largest power           " + format_number(1e3 * s.max_power_w, 4) + " mW" +
                      (ratiometric ? " (at 1 V excitation; give --excitation for the real figure)" : "") + "\n";

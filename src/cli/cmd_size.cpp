@@ -390,6 +390,13 @@ void run_size(const SizeCommand& o) {
     if (o.compare && !o.circuit.circuit.empty()) {
         throw InputError("--compare", o.circuit.circuit, "compares every topology; leave out --circuit");
     }
+    if (!o.circuit.lead.empty()) {
+        // The search kernels scan the thermistor's own resistance; sizing for a remote probe would need
+        // the wires in every kernel. Size the board, then check or budget the design with its leads.
+        throw InputError("--lead", o.circuit.lead,
+                         "size chooses resistors for a thermistor on the board; size without the leads, then give "
+                         "--lead to check, table or budget");
+    }
     if (o.compare && o.tradeoff) throw InputError("--tradeoff", "", "give either --compare or --tradeoff, not both");
     if (!o.compare && o.circuit.circuit.empty()) {
         throw InputError("--circuit", "", "name the topology to size, or give --compare for all of them");

@@ -217,6 +217,10 @@ void add_circuit_options(CLI::App& app, CircuitOptions& o, bool circuit_optional
     app.add_option("--excitation", o.excitation, "Supply voltage, V (default: ratiometric output, V/V)")
         ->group("Circuit");
     app.add_option("--current", o.current, "Current-source drive, A (e.g. 100u)")->group("Circuit");
+    app.add_option("--lead", o.lead,
+                   "Loop resistance of the wires to a remote thermistor, ohm, in series with it (default 0); "
+                   "the firmware's inverse subtracts it")
+        ->group("Circuit");
     if (!with_resistors) return;
     app.add_option("--rs", o.rs, "Series resistor of a divider, ohm (e.g. 10k)")->group("Circuit");
     app.add_option("--rp", o.rp, "Resistor in parallel with the thermistor, ohm")->group("Circuit");
@@ -250,6 +254,10 @@ double null_temperature(const CircuitOptions& o, const Span& span) {
 
 Circuit build_circuit(const CircuitOptions& o, const Thermistor& model, const Span& span) {
     Circuit c = build_drive(o, o.circuit);
+    if (!o.lead.empty()) {
+        c.lead_ohm = parse_resistance(o.lead, "--lead");
+        if (!(c.lead_ohm >= 0.0)) throw InputError("--lead", o.lead, "a lead resistance must be 0 or positive");
+    }
     const std::vector<std::string> names = resistor_names(c.topology);
     const std::pair<const char*, const std::string*> given[] = {
         {"rs", &o.rs}, {"rp", &o.rp}, {"r1", &o.r1}, {"r2", &o.r2}, {"r3", &o.r3}};
@@ -288,6 +296,7 @@ Json circuit_json(const Circuit& c) {
     for (const std::string& name : resistor_names(c.topology)) r[name] = resistor_value(c, name);
     j["resistors_ohm"] = r;
     if (std::isfinite(c.load_ohm)) j["load_ohm"] = c.load_ohm;
+    if (c.lead_ohm > 0.0) j["lead_ohm"] = c.lead_ohm;
     switch (c.excitation.drive) {
         case Drive::ratiometric:
             // Power and self-heating figures of a ratiometric design are those at 1 V of excitation
@@ -308,6 +317,7 @@ std::string describe_circuit(const Circuit& c) {
         if (v > 0.0) s += ", " + name + " = " + format_resistance(v, 6);
     }
     if (std::isfinite(c.load_ohm)) s += ", load = " + format_resistance(c.load_ohm, 6);
+    if (c.lead_ohm > 0.0) s += ", leads = " + format_resistance(c.lead_ohm, 6) + " (loop, in series with the thermistor)";
     switch (c.excitation.drive) {
         case Drive::ratiometric:
             s += gives_resistance(c.topology) ? "; output in ohm" : "; ratiometric output (V/V)";

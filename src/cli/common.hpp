@@ -54,6 +54,7 @@ struct CircuitOptions {
     std::string load;        // ohm
     std::string excitation;  // V
     std::string current;     // A
+    std::string lead;        // loop resistance of the wires to a remote thermistor, ohm
 };
 // Declares --circuit (required unless `circuit_optional`), the resistor flags (unless not
 // `with_resistors`: sizing chooses them), --null-at, --load and the drive flags.

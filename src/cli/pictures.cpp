@@ -330,12 +330,12 @@ svg::Figure budget_figure(const Thermistor& model, const Circuit& circuit, const
     bool have_mc = false;
     for (const BudgetPoint& p : b.points) {
         t.push_back(kelvin_to_celsius(p.t_k));
-        wc_hi.push_back(p.worst_case_k);
-        wc_lo.push_back(-p.worst_case_k);
-        p997_hi.push_back(p.mc.p99_7_k);
-        p997_lo.push_back(-p.mc.p99_7_k);
-        p95_hi.push_back(p.mc.p95_k);
-        p95_lo.push_back(-p.mc.p95_k);
+        wc_hi.push_back(p.worst_high_k);
+        wc_lo.push_back(p.worst_low_k);
+        p997_hi.push_back(p.mc.p99_865_k);
+        p997_lo.push_back(p.mc.p0_135_k);
+        p95_hi.push_back(p.mc.p97_5_k);
+        p95_lo.push_back(p.mc.p2_5_k);
         mean.push_back(p.mc.mean_k);
         nominal.push_back(p.nominal_error_k);
         have_mc = have_mc || std::isfinite(p.mc.p99_7_k);
@@ -348,18 +348,19 @@ svg::Figure budget_figure(const Thermistor& model, const Circuit& circuit, const
     f.notes = {describe_model(model), "circuit: " + describe_circuit(circuit),
                have_mc ? "Monte Carlo: " + distribution : std::string("no Monte Carlo trials: the worst case only")};
     f.description = provenance("budget") + " " + std::to_string(b.points.size()) +
-                    " temperatures: the worst case, the Monte Carlo bounds and mean, the nominal error.";
+                    " temperatures: the signed worst case (low and high), the Monte Carlo percentiles and mean, the nominal "
+                    "error.";
     svg::Plot plot;
     plot.title = "Error band: reading " + kMinus + " true temperature";
     plot.x.label = "temperature (" + kDeg + ")";
     plot.y.label = "error (" + kDeg + ")";
     plot.zero_line = true;
-    plot.lines.push_back({"worst case (" + kMinus + "/+)", t, wc_hi, kRed, 2.0, true});
+    plot.lines.push_back({"worst case, low and high", t, wc_hi, kRed, 2.0, true});
     plot.lines.push_back({"", t, wc_lo, kRed, 2.0, true});
     if (have_mc) {
-        plot.lines.push_back({"99.7 % bound of |error|", t, p997_hi, kBlue, 2.0, false});
+        plot.lines.push_back({"0.135 % and 99.865 % of the error", t, p997_hi, kBlue, 2.0, false});
         plot.lines.push_back({"", t, p997_lo, kBlue, 2.0, false});
-        plot.lines.push_back({"95 % bound of |error|", t, p95_hi, kPurple, 1.5, false});
+        plot.lines.push_back({"2.5 % and 97.5 % of the error", t, p95_hi, kPurple, 1.5, false});
         plot.lines.push_back({"", t, p95_lo, kPurple, 1.5, false});
         plot.lines.push_back({"Monte Carlo mean", t, mean, kGreen, 2.0, false});
     }
@@ -368,7 +369,9 @@ svg::Figure budget_figure(const Thermistor& model, const Circuit& circuit, const
     worst.label = "largest worst case " + format_fixed(b.summary.worst_case_k, 3) + " " + kDeg + " at " +
                   with_minus(format_number(kelvin_to_celsius(b.summary.at_t_k), 5)) + " " + kDeg;
     worst.x = {kelvin_to_celsius(b.summary.at_t_k)};
-    worst.y = {b.summary.worst_case_k};
+    for (const BudgetPoint& p : b.points) {
+        if (p.t_k == b.summary.at_t_k) worst.y = {p.worst_high_k >= -p.worst_low_k ? p.worst_high_k : p.worst_low_k};
+    }
     worst.colour = kRed;
     plot.markers.push_back(worst);
     f.plots.push_back(plot);

@@ -12,13 +12,51 @@ namespace rtline {
 
 using namespace budget_detail;
 
-std::string_view distribution_name(Distribution d) { return d == Distribution::normal ? "normal" : "uniform"; }
+std::string_view distribution_name(Distribution d) {
+    switch (d) {
+        case Distribution::normal: return "normal";
+        case Distribution::normal_truncated: return "normal-truncated";
+        case Distribution::uniform: break;
+    }
+    return "uniform";
+}
 
 Distribution parse_distribution(std::string_view text, std::string_view field) {
     if (text == "normal") return Distribution::normal;
+    if (text == "normal-truncated") return Distribution::normal_truncated;
     if (text == "uniform") return Distribution::uniform;
-    throw InputError(std::string(field), std::string(text), "unknown distribution; choose normal or uniform");
+    throw InputError(std::string(field), std::string(text),
+                     "unknown distribution; choose normal, normal-truncated or uniform");
 }
+
+namespace {
+
+struct CauseName {
+    std::string_view key;
+    std::string_view label;
+};
+
+constexpr std::array<CauseName, kCauses> kCauseNames = {{{"nonlinearity", "nonlinearity"},
+                                                         {"model_error", "model error"},
+                                                         {"r25", "R25"},
+                                                         {"beta", "B-value"},
+                                                         {"thermistor_dt", "thermistor dT"},
+                                                         {"drift", "thermistor drift"},
+                                                         {"resistors", "resistors"},
+                                                         {"resistor_drift", "resistor TC"},
+                                                         {"lead", "leads"},
+                                                         {"excitation", "excitation"},
+                                                         {"reference", "reference"},
+                                                         {"adc_offset", "ADC offset"},
+                                                         {"adc_gain", "ADC gain"},
+                                                         {"adc_inl", "ADC INL"},
+                                                         {"quantization", "quantization"},
+                                                         {"self_heating", "self-heating"}}};
+
+}  // namespace
+
+std::string_view cause_key(Cause c) { return kCauseNames[static_cast<std::size_t>(c)].key; }
+std::string_view cause_label(Cause c) { return kCauseNames[static_cast<std::size_t>(c)].label; }
 
 std::string_view reading_name(Reading r) { return r == Reading::model ? "model" : "line"; }
 
@@ -28,7 +66,7 @@ Reading parse_reading(std::string_view text, std::string_view field) {
     throw InputError(std::string(field), std::string(text), "unknown reading; choose model or line");
 }
 
-double Converter::lsb() const { return bits > 0 ? full_scale / std::ldexp(1.0, bits) : 0.0; }
+double Converter::lsb() const { return bits > 0 ? full_scale / adc_steps(bits, transfer) : 0.0; }
 
 double tolerance_reference_k(const Thermistor& model) {
     if (const auto* b = std::get_if<BetaModel>(&model.model())) return b->t0_k;
@@ -51,6 +89,20 @@ void check_tolerance(double t, const char* flag) {
     }
 }
 
+// A coefficient in 1/K, given in ppm/K; at most 0.1 %/K (1000 ppm/K) keeps every factor positive
+// over any board span a budget takes.
+void check_coefficient(double c, const char* flag) {
+    if (!std::isfinite(c) || c < 0.0 || c > 1e-3) {
+        throw InputError(flag, describe(1e6 * c), "a temperature coefficient must be 0 to 1000 ppm/K");
+    }
+}
+
+void check_range(double lo_k, double hi_k, const char* flag) {
+    if (!std::isfinite(lo_k) || !std::isfinite(hi_k) || lo_k > hi_k || lo_k < 173.15 || hi_k > 473.15) {
+        throw InputError(flag, format_span(Span{lo_k, hi_k}), "give LO:HI in degC with LO <= HI, within -100:200");
+    }
+}
+
 }  // namespace
 
 std::string reading_unit(const Circuit& circuit, const BudgetSpec& spec) {
@@ -63,6 +115,37 @@ void validate(const BudgetSpec& s, const Circuit& c) {
     check_tolerance(s.tolerance.beta, "--beta-tol");
     check_tolerance(s.tolerance.resistors, "--resistor-tol");
     check_tolerance(s.tolerance.excitation, "--excitation-tol");
+    check_tolerance(s.tolerance.thermistor_drift, "--drift");
+    check_tolerance(s.tolerance.lead, "--lead-tol");
+    check_tolerance(s.tolerance.reference, "--ref-tol");
+    check_coefficient(s.tolerance.resistor_tc_per_k, "--resistor-tc");
+    check_coefficient(s.tolerance.reference_tc_per_k, "--ref-tc");
+    if (!s.board.sensed) check_range(s.board.lo_k, s.board.hi_k, "--board-temp");
+    check_range(s.cable_lo_k, s.cable_hi_k, "--cable-temp");
+    if (!std::isfinite(s.tolerance.thermistor_dt_k) || s.tolerance.thermistor_dt_k < 0.0 ||
+        s.tolerance.thermistor_dt_k > 5.0) {
+        throw InputError("--dt-tol", describe(s.tolerance.thermistor_dt_k), "give 0 to 5 K");
+    }
+    if ((s.tolerance.lead > 0.0 || s.cable_lo_k != kCopperReferenceK || s.cable_hi_k != kCopperReferenceK) &&
+        !(c.lead_ohm > 0.0)) {
+        throw InputError(s.tolerance.lead > 0.0 ? "--lead-tol" : "--cable-temp",
+                         s.tolerance.lead > 0.0 ? pct(s.tolerance.lead) : format_span(Span{s.cable_lo_k, s.cable_hi_k}),
+                         "applies to lead wires; give their loop resistance with --lead");
+    }
+    if (!s.lead_compensated && !(c.lead_ohm > 0.0)) {
+        throw InputError("--lead-compensation", "no", "applies to lead wires; give their loop resistance with --lead");
+    }
+    const bool converter_terms = s.adc.offset_lsb != 0.0 || s.adc.gain != 0.0 || s.adc.inl_lsb != 0.0;
+    if (converter_terms && s.adc.bits == 0) {
+        throw InputError(s.adc.offset_lsb != 0.0 ? "--adc-offset"
+                         : s.adc.gain != 0.0     ? "--adc-gain"
+                                                 : "--adc-inl",
+                         "", "needs --adc-bits (a converter)");
+    }
+    for (const auto& [v, flag] : {std::pair{s.adc.offset_lsb, "--adc-offset"}, std::pair{s.adc.inl_lsb, "--adc-inl"}}) {
+        if (!std::isfinite(v) || v < 0.0 || v > 1e6) throw InputError(flag, describe(v), "give 0 or more LSB");
+    }
+    check_tolerance(s.adc.gain, "--adc-gain");
     const Drive drive = c.excitation.drive;
     if (drive == Drive::ratiometric && !s.ratiometric) {
         throw InputError("--adc-ref", describe(s.adc.full_scale) + " V",
@@ -127,42 +210,55 @@ void out_of_range(double t_k) {
 
 namespace {
 
-// One varied parameter of the worst case: its slot and the half-width of its range.
+// One varied parameter of the worst case: its slot and its range.
 struct Dim {
     std::size_t slot;
-    double half_width;
+    double lo;
+    double hi;
 };
+
+// The symmetric range ±half.
+Dim sym(std::size_t slot, double half) { return {slot, -half, half}; }
+
+// The range of the factor (1 ± a)(1 ± b) − 1 over both signs (both factors positive).
+Dim product(std::size_t slot, double a, double b) {
+    return {slot, (1.0 - a) * (1.0 - b) - 1.0, (1.0 + a) * (1.0 + b) - 1.0};
+}
 
 struct Extremes {
     double lo;
     double hi;
 };
 
-// The smallest and largest error at point i over the box of `dims` (every other slot nominal).
-// Every corner first; then, from the best corner, a scan of each parameter alone over its range
-// (nine points, then golden-section search when the best is inside), repeated while it improves:
-// this finds the interior extremes of an error that is not monotonic in a parameter.
+// The smallest and largest error at point i over the box of `dims` (every other slot nominal, or as
+// in `base`). Every corner first; then, from the best corner, a scan of each parameter alone over its
+// range (nine points, then golden-section search when the best is inside), repeated while it
+// improves: this finds the interior extremes of an error that is not monotonic in a parameter.
 class BoxSearch {
 public:
-    BoxSearch(const Channel& ch, std::size_t i, std::vector<Dim> dims, Adc mode, bool heat)
-        : ch_(ch), i_(i), dims_(std::move(dims)), mode_(mode), heat_(heat) {
-        std::erase_if(dims_, [](const Dim& d) { return !(d.half_width > 0.0); });
+    BoxSearch(const Channel& ch, std::size_t i, std::vector<Dim> dims, Adc mode, bool solve, Slots base = Slots{})
+        : ch_(ch), i_(i), dims_(std::move(dims)), mode_(mode), solve_(solve), base_(base) {
+        // A range of one value (a cable at one temperature other than copper's 20 °C) is fixed there.
+        for (const Dim& d : dims_) {
+            if (d.hi == d.lo) base_[d.slot] = d.lo;
+        }
+        std::erase_if(dims_, [](const Dim& d) { return !(d.hi > d.lo); });
     }
 
     [[nodiscard]] Extremes run() const {
-        Slots s{};
+        Slots s = base_;
         if (dims_.empty()) {
             const double e = eval(s);
             return {e, e};
         }
-        Slots s_hi{};
-        Slots s_lo{};
+        Slots s_hi = s;
+        Slots s_lo = s;
         double hi = -INFINITY;
         double lo = INFINITY;
         const std::size_t corners = std::size_t{1} << dims_.size();
         for (std::size_t mask = 0; mask < corners; ++mask) {
             for (std::size_t j = 0; j < dims_.size(); ++j) {
-                s[dims_[j].slot] = ((mask >> j) & 1U) ? dims_[j].half_width : -dims_[j].half_width;
+                s[dims_[j].slot] = ((mask >> j) & 1U) ? dims_[j].hi : dims_[j].lo;
             }
             const double e = eval(s);
             if (e > hi) {
@@ -179,7 +275,7 @@ public:
 
 private:
     [[nodiscard]] double eval(const Slots& s) const {
-        const double e = ch_.error(ch_.trial(s), i_, mode_, s[kAdc], heat_);
+        const double e = ch_.error(ch_.trial(s), i_, mode_, s[kAdc], solve_);
         if (!std::isfinite(e)) out_of_range(ch_.t(i_));
         return e;
     }
@@ -195,7 +291,7 @@ private:
                 std::array<double, kScan + 1> v{};
                 int k_best = 0;
                 for (int k = 0; k <= kScan; ++k) {
-                    u[k] = d.half_width * (2.0 * k / kScan - 1.0);
+                    u[k] = d.lo + (d.hi - d.lo) * k / kScan;
                     Slots t = s;
                     t[d.slot] = u[k];
                     v[k] = sign * eval(t);
@@ -247,49 +343,98 @@ private:
     std::size_t i_;
     std::vector<Dim> dims_;
     Adc mode_;
-    bool heat_;
+    bool solve_;
+    Slots base_;
 };
 
 // Rounding leaves about 1e−13 K where an error is zero in exact arithmetic (the model reading with
 // nominal parts, the line reading at the span's ends).
 double clean(double e_k) { return std::abs(e_k) < 1e-12 ? 0.0 : e_k; }
 
-// Worst case, nominal error, the split by cause and the resolution at point i.
-BudgetPoint point_bounds(const Channel& ch, const BudgetSpec& spec, std::size_t i) {
+// The largest |board temperature − kCoefficientReferenceK| at sensed temperature t_k.
+double board_excursion_k(const BoardTemperature& b, double t_k) {
+    if (b.sensed) return std::abs(t_k - kCoefficientReferenceK);
+    return std::max(std::abs(b.lo_k - kCoefficientReferenceK), std::abs(b.hi_k - kCoefficientReferenceK));
+}
+
+// Worst case, nominal error, the split by cause and the resolution at point i. `plain` is the channel
+// with the part following the model (the same as `ch` without a model error).
+BudgetPoint point_bounds(const Channel& ch, const Channel& plain, const BudgetSpec& spec, std::size_t i) {
     const Tolerances& tol = spec.tolerance;
     const bool adc = ch.lsb() > 0.0;
-    const double q = (0.5 + spec.adc.error_lsb) * ch.lsb();  // the converter's bound, reading units
+    const double lsb = ch.lsb();
+    const double board = board_excursion_k(spec.board, ch.t(i));
+    // The board's range enters through its largest excursion: for each board temperature the
+    // coefficients' box is symmetric, so the box at the largest excursion holds all the others.
+    const double tc = tol.resistor_tc_per_k * board;
+    const double ref_tc = tol.reference_tc_per_k * board;
+    const Dim lead_dim{kLead, (1.0 - tol.lead) * (1.0 + kCopperAlphaPerK * (spec.cable_lo_k - kCopperReferenceK)) - 1.0,
+                       (1.0 + tol.lead) * (1.0 + kCopperAlphaPerK * (spec.cable_hi_k - kCopperReferenceK)) - 1.0};
     std::vector<Dim> resistors;
-    for (std::size_t k = 0; k < ch.resistors(); ++k) resistors.push_back({kResistor0 + k, tol.resistors});
-    const Dim r25{kR25, tol.r25};
-    const Dim beta{kBeta, tol.beta};
-    const Dim excitation{kExcitation, ch.volts() ? tol.excitation : 0.0};
-    const Dim converter{kAdc, q};
+    std::vector<Dim> resistor_tol;
+    std::vector<Dim> resistor_tc;
+    for (std::size_t k = 0; k < ch.resistors(); ++k) {
+        resistors.push_back(product(kResistor0 + k, tol.resistors, tc));
+        resistor_tol.push_back(sym(kResistor0 + k, tol.resistors));
+        resistor_tc.push_back(sym(kResistor0 + k, tc));
+    }
+    const double converter_lsb = 0.5 + spec.adc.error_lsb + spec.adc.offset_lsb + spec.adc.inl_lsb;
 
     std::vector<Dim> all = resistors;
-    all.insert(all.end(), {r25, beta, excitation, converter});
+    all.insert(all.end(), {sym(kR25, tol.r25), sym(kBeta, tol.beta), sym(kDrift, tol.thermistor_drift),
+                           sym(kShift, tol.thermistor_dt_k), sym(kExcitation, ch.volts() ? tol.excitation : 0.0),
+                           product(kReference, tol.reference, ref_tc)});
+    if (ch.has_lead()) all.push_back(lead_dim);
+    if (adc) all.insert(all.end(), {sym(kGain, spec.adc.gain), sym(kAdc, converter_lsb * lsb)});
 
     BudgetPoint p;
     p.t_k = ch.t(i);
-    const Extremes whole = BoxSearch(ch, i, all, adc ? Adc::offset : Adc::none, ch.heats()).run();
-    p.worst_case_k = clean(std::max(std::abs(whole.lo), std::abs(whole.hi)));
+    const Extremes whole = BoxSearch(ch, i, all, adc ? Adc::offset : Adc::none, ch.solves()).run();
+    p.worst_low_k = clean(whole.lo);
+    p.worst_high_k = clean(whole.hi);
+    p.worst_case_k = std::max(std::abs(p.worst_low_k), std::abs(p.worst_high_k));
     p.nominal_error_k = clean(ch.error(ch.nominal(), i, Adc::none, 0.0, ch.heats()));
 
     // Each cause alone against the baseline: nominal parts, no converter, no self-heating.
     const double e0 = clean(ch.error(ch.nominal(), i, Adc::none, 0.0, false));
-    auto alone = [&](std::vector<Dim> dims, Adc mode) {
-        const Extremes x = BoxSearch(ch, i, std::move(dims), mode, false).run();
-        return clean(std::max({0.0, x.hi - e0, e0 - x.lo}));
+    auto alone = [&](std::vector<Dim> dims, Adc mode, bool solve = false, double from = NAN) {
+        const double ref = std::isnan(from) ? e0 : from;
+        const Extremes x = BoxSearch(ch, i, std::move(dims), mode, solve).run();
+        return clean(std::max({0.0, x.hi - ref, ref - x.lo}));
     };
     BudgetComponents& c = p.components;
-    c.nonlinearity_k = spec.reading == Reading::line ? std::abs(e0) : NAN;
-    c.r25_k = alone({r25}, Adc::none);
-    c.beta_k = alone({beta}, Adc::none);
-    c.resistors_k = resistors.empty() ? NAN : alone(resistors, Adc::none);
-    c.excitation_k = ch.volts() ? alone({excitation}, Adc::none) : NAN;
-    c.adc_k = adc ? alone({converter}, Adc::offset) : NAN;
-    c.self_heating_k = ch.heats() ? clean(std::abs(ch.error(ch.nominal(), i, Adc::none, 0.0, true) - e0)) : NAN;
-    p.resolution_k_per_lsb = adc ? ch.lsb() / ch.sensitivity(i) : NAN;
+    c.k.fill(NAN);
+    const double plain_e0 = clean(plain.error(plain.nominal(), i, Adc::none, 0.0, false));
+    if (spec.reading == Reading::line) c[Cause::nonlinearity] = std::abs(plain_e0);
+    if (spec.part) c[Cause::model_error] = clean(std::abs(e0 - plain_e0));
+    c[Cause::r25] = alone({sym(kR25, tol.r25)}, Adc::none);
+    c[Cause::beta] = alone({sym(kBeta, tol.beta)}, Adc::none);
+    if (tol.thermistor_dt_k > 0.0) c[Cause::thermistor_dt] = alone({sym(kShift, tol.thermistor_dt_k)}, Adc::none, true);
+    if (tol.thermistor_drift > 0.0) c[Cause::drift] = alone({sym(kDrift, tol.thermistor_drift)}, Adc::none);
+    if (!resistors.empty()) c[Cause::resistors] = alone(resistor_tol, Adc::none);
+    if (!resistors.empty() && tol.resistor_tc_per_k > 0.0) c[Cause::resistor_drift] = alone(resistor_tc, Adc::none);
+    if (ch.has_lead()) {
+        // Uncompensated, the whole lead counts: its error against the circuit without wires.
+        Slots none{};
+        none[kLead] = -1.0;
+        const double from = spec.lead_compensated ? e0 : clean(ch.error(ch.trial(none), i, Adc::none, 0.0, false));
+        c[Cause::lead] = alone({lead_dim}, Adc::none, false, from);
+    }
+    if (ch.volts()) c[Cause::excitation] = alone({sym(kExcitation, tol.excitation)}, Adc::none);
+    if (tol.reference > 0.0 || tol.reference_tc_per_k > 0.0) {
+        // With self-heating on: the ratiometric reading's cancellation leaves only the power's change.
+        const double from = clean(ch.error(ch.nominal(), i, Adc::none, 0.0, ch.heats()));
+        c[Cause::reference] = alone({product(kReference, tol.reference, ref_tc)}, Adc::none, ch.heats(), from);
+    }
+    if (adc) {
+        if (spec.adc.offset_lsb > 0.0)
+            c[Cause::adc_offset] = alone({sym(kAdc, spec.adc.offset_lsb * lsb)}, Adc::offset);
+        if (spec.adc.gain > 0.0) c[Cause::adc_gain] = alone({sym(kGain, spec.adc.gain)}, Adc::offset);
+        if (spec.adc.inl_lsb > 0.0) c[Cause::adc_inl] = alone({sym(kAdc, spec.adc.inl_lsb * lsb)}, Adc::offset);
+        c[Cause::quantization] = alone({sym(kAdc, (0.5 + spec.adc.error_lsb) * lsb)}, Adc::offset);
+    }
+    if (ch.heats()) c[Cause::self_heating] = clean(std::abs(ch.error(ch.nominal(), i, Adc::none, 0.0, true) - e0));
+    p.resolution_k_per_lsb = adc ? lsb / ch.sensitivity(i) : NAN;
     return p;
 }
 
@@ -306,7 +451,17 @@ Budget compute_budget(const Grid& grid, const Thermistor& model, const Circuit& 
                          "with " + std::to_string(grid.size()) + " temperatures that is more than " +
                              std::to_string(kMaxSamples) + " samples; use fewer trials or a larger --step");
     }
+    const Span span{grid.t_k.front(), grid.t_k.back()};
+    if (spec.tolerance.thermistor_dt_k > 0.0 && (span.lo_k < spec.dt_lo_k - 1e-9 || span.hi_k > spec.dt_hi_k + 1e-9)) {
+        throw InputError("--dt-range", format_span(Span{spec.dt_lo_k, spec.dt_hi_k}),
+                         "the thermistor's +-dT holds over this range only, and the span " + format_span(span) +
+                             " reaches beyond it; give the range the part is specified over");
+    }
+    if (spec.part) spec.part->check_span(span, "--part");
     const Channel ch(grid, model, circuit, spec);
+    BudgetSpec plain_spec = spec;
+    plain_spec.part.reset();
+    const Channel plain(grid, model, circuit, plain_spec);
     if (spec.adc.bits > 0 && ch.largest_reading() > spec.adc.full_scale) {
         throw InputError("--adc-ref", describe(spec.adc.full_scale) + (spec.ratiometric ? "" : " V"),
                          "the output reaches " + describe(ch.largest_reading()) + " " + reading_unit(circuit, spec) +
@@ -330,12 +485,12 @@ Budget compute_budget(const Grid& grid, const Thermistor& model, const Circuit& 
     b.line = ch.line();
     b.lsb = ch.lsb();
     b.points.resize(ch.size());
-    parallel_for(ch.size(), threads, [&](std::size_t i, unsigned) { b.points[i] = point_bounds(ch, spec, i); });
+    parallel_for(ch.size(), threads, [&](std::size_t i, unsigned) { b.points[i] = point_bounds(ch, plain, spec, i); });
     if (spec.trials > 0) {
         const std::vector<McStats> mc = monte_carlo(ch, spec, threads);
         for (std::size_t i = 0; i < ch.size(); ++i) b.points[i].mc = mc[i];
     } else {
-        for (BudgetPoint& p : b.points) p.mc = {NAN, NAN, NAN, NAN, NAN};
+        for (BudgetPoint& p : b.points) p.mc = {NAN, NAN, NAN, NAN, NAN, NAN, NAN, NAN, NAN};
     }
 
     BudgetSummary& s = b.summary;
@@ -347,6 +502,8 @@ Budget compute_budget(const Grid& grid, const Thermistor& model, const Circuit& 
             s.worst_case_k = p.worst_case_k;
             s.at_t_k = p.t_k;
         }
+        if (i == 0 || p.worst_low_k < s.worst_low_k) s.worst_low_k = p.worst_low_k;
+        if (i == 0 || p.worst_high_k > s.worst_high_k) s.worst_high_k = p.worst_high_k;
         if (spec.trials > 0 && (i == 0 || p.mc.p99_7_k > s.p99_7_k)) {
             s.p99_7_k = p.mc.p99_7_k;
             s.p99_7_at_t_k = p.t_k;

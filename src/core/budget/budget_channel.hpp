@@ -88,8 +88,23 @@ private:
 
 // ---------------------------------------------------------------------------------- the channel
 
-// The parameters a trial varies, as fractions of nominal, and the converter slot.
-enum Slot : std::size_t { kR25 = 0, kBeta = 1, kResistor0 = 2, kExcitation = 6, kAdc = 7, kSlots = 8 };
+// The parameters a trial varies and the converter slot. Each part slot is its final factor minus 1
+// (a resistor's tolerance and temperature coefficient together, the reference's likewise, the lead
+// wires' tolerance and copper's coefficient); kShift is the interchangeability shift in kelvin; kAdc
+// an offset in the reading's unit (worst case) or in LSB (Monte Carlo).
+enum Slot : std::size_t {
+    kR25 = 0,
+    kBeta = 1,
+    kResistor0 = 2,
+    kExcitation = 6,
+    kAdc = 7,
+    kShift = 8,
+    kDrift = 9,
+    kLead = 10,
+    kReference = 11,
+    kGain = 12,
+    kSlots = 13
+};
 constexpr std::size_t kMaxResistors = kExcitation - kResistor0;
 using Slots = std::array<double, kSlots>;
 
@@ -195,17 +210,19 @@ using Slots = std::array<double, kSlots>;
 enum class Adc { none, offset, rounded };
 
 // How the firmware's temperature comes from the reading: the endpoint line, the closed-form inverse
-// of a beta or Steinhart–Hart model, or Newton on a table model. `scaled` is `closed` for a circuit
-// whose nominal inverse returns R_T times one factor per trial (see Channel::scales).
+// of a beta or Steinhart–Hart model, or the general path (a table model as the part or the
+// firmware's model: Newton on the model's own functions). `scaled` is `closed` for a circuit whose
+// nominal inverse returns R_T times one factor per trial (see Channel::scales).
 enum class Inverse { line, closed, scaled, table };
 
-// A compile-time choice of the error's branches, so that each loop is straight-line code.
-template <bool kHeat, Adc kMode, Inverse kInverse>
+// A compile-time choice of the error's branches, so that each loop is straight-line code. kSolve:
+// the body temperature is solved (self-heating, or an interchangeability shift).
+template <bool kSolve, Adc kMode, Inverse kInverse>
 struct Kernel {};
 
-// Calls f(Kernel<heat, mode, inverse>{}) with the run-time choices made compile-time constants.
+// Calls f(Kernel<solve, mode, inverse>{}) with the run-time choices made compile-time constants.
 template <class F>
-decltype(auto) with_kernel(bool heat, Adc mode, Inverse inverse, F&& f) {
+decltype(auto) with_kernel(bool solve, Adc mode, Inverse inverse, F&& f) {
     auto by_inverse = [&](auto h, auto m) -> decltype(auto) {
         constexpr bool kH = decltype(h)::value;
         constexpr Adc kM = decltype(m)::value;
@@ -225,71 +242,90 @@ decltype(auto) with_kernel(bool heat, Adc mode, Inverse inverse, F&& f) {
         }
         return by_inverse(h, std::integral_constant<Adc, Adc::rounded>{});
     };
-    return heat ? by_mode(std::true_type{}) : by_mode(std::false_type{});
+    return solve ? by_mode(std::true_type{}) : by_mode(std::false_type{});
 }
 
-// One set of fixed parts: the circuit's maps with its resistors and drive as drawn.
+// One set of parts: the circuit's maps with its resistors, leads, drive and reference as drawn.
 struct Trial {
-    double g = 1.0;         // 1 + dr
+    double g = 1.0;         // (1 + dr)(1 + drift): the thermistor's resistance factor
+    double ln_g = 0.0;      // its logarithm
     double db = 0.0;        // B-value fraction
-    Bilinear reading;       // reading against R_T
+    double shift_k = 0.0;   // interchangeability shift
+    double gain = 1.0;      // the converter's gain
+    Bilinear reading;       // reading against R_T (in the firmware's units: the reference as nominal)
     Bilinear vt;            // thermistor volts against R_T (self-heating)
-    Bilinear to_r;          // R_T ↦ the R_T the nominal circuit gives for the same reading
-    double ln_scale = 0.0;  // Inverse::scaled: ln(1 + dr) + ln(to_r(x)/x)
+    Bilinear to_r;          // R_T ↦ the R_T the firmware's circuit gives for the same reading
+    double ln_scale = 0.0;  // Inverse::scaled: ln g + ln(to_r(x)/x)
 };
 
-// The design with everything that does not change from trial to trial precomputed.
+// 1/T of Steinhart–Hart at L = ln R.
+[[nodiscard]] [[gnu::always_inline]] inline double sh_inverse_t(const SteinhartHart& m, double l) {
+    return m.a + l * (m.b + m.c * l * l);
+}
+
+// The design with everything that does not change from trial to trial precomputed. `model` is what
+// the firmware inverts; spec.part (else the model) is the part's real curve.
 class Channel {
 public:
     Channel(const Grid& grid, const Thermistor& model, const Circuit& circuit, const BudgetSpec& spec)
-        : model_(model), t_(grid.t_k), r_(grid.r_ohm) {
+        : model_(model), part_(spec.part ? *spec.part : model), t_(grid.t_k) {
         const std::size_t n = grid.size();
         power_ = circuit;
         reading_ = circuit;
         if (circuit.excitation.drive == Drive::voltage && spec.ratiometric) reading_.excitation = Excitation{};
         volts_ = reads_volts(circuit, spec);
+        ratiometric_ = !volts_;
+        lead_ohm_ = circuit.lead_ohm;
         for (const std::string& name : resistor_names(circuit.topology)) fields_.push_back(field_of(name));
         heat_ = spec.dissipation_w_per_k > 0.0;
+        solve_ = heat_ || spec.tolerance.thermistor_dt_k > 0.0;
         inv_dissipation_ = heat_ ? 1.0 / spec.dissipation_w_per_k : 0.0;
         lsb_ = spec.adc.lsb();
         inv_lsb_ = lsb_ > 0.0 ? 1.0 / lsb_ : 0.0;
+        // Truncating: code k = floor(z) stands for k + ½, i.e. round(z − ½) + ½ (ties have measure 0).
+        if (spec.adc.transfer == AdcTransfer::truncating) {
+            code_in_ = -0.5;
+            code_out_ = 0.5;
+        }
 
-        const double r0 = model.resistance(tolerance_reference_k(model));
+        const double r0 = part_.resistance(tolerance_reference_k(part_));
+        ln_r0_ = std::log(r0);
+        r_.resize(n);
+        lnr_.resize(n);
         lnq_.resize(n);
         alpha_.resize(n);
-        alpha_dot_.resize(n);
         for (std::size_t i = 0; i < n; ++i) {
-            lnq_[i] = std::log(r_[i] / r0);
-            alpha_[i] = model.alpha(t_[i]);
-            const double h = 0.01;  // K; alpha is smooth on this scale
-            alpha_dot_[i] = (model.alpha(t_[i] + h) - model.alpha(t_[i] - h)) / (2.0 * h);
+            r_[i] = part_.resistance(t_[i]);
+            lnr_[i] = std::log(r_[i]);
+            lnq_[i] = lnr_[i] - ln_r0_;
+            alpha_[i] = part_.alpha(t_[i]);
         }
         // The bilinear maps are fitted through three values of R_T: the span's ends and centre, spread
         // to at least a factor 3 from the centre so that a narrow span still fits well-conditioned.
         const Span span{t_.front(), t_.back()};
-        const double r_mid = model.resistance(span.centre_k());
-        fit_x_ = {std::max(model.resistance(span.lo_k), 3.0 * r_mid), r_mid,
-                  std::min(model.resistance(span.hi_k), r_mid / 3.0)};
-        inverse_ = Inverse::table;
-        if (const auto* b = std::get_if<BetaModel>(&model.model())) {
-            sh_ = to_steinhart_hart(*b);
-            inverse_ = Inverse::closed;
-        } else if (const auto* s = std::get_if<SteinhartHart>(&model.model())) {
-            sh_ = *s;
-            inverse_ = Inverse::closed;
-        }
-        if (spec.reading == Reading::line) inverse_ = Inverse::line;
+        const double r_mid = part_.resistance(span.centre_k());
+        fit_x_ = {std::max(part_.resistance(span.lo_k), 3.0 * r_mid), r_mid,
+                  std::min(part_.resistance(span.hi_k), r_mid / 3.0)};
+        const bool part_closed = closed_form(part_, psh_);
+        const bool model_closed = closed_form(model_, sh_);
+        inverse_ = part_closed && model_closed ? Inverse::closed : Inverse::table;
+        if (spec.reading == Reading::line && part_closed) inverse_ = Inverse::line;
+        line_general_ = spec.reading == Reading::line && !part_closed;
         if (inverse_ == Inverse::closed && scales(circuit, volts_)) inverse_ = Inverse::scaled;
-        lnr_.resize(n);
-        for (std::size_t i = 0; i < n; ++i) lnr_[i] = std::log(r_[i]);
+
+        // The firmware's circuit: nominal parts, and the leads only when it subtracts them.
+        firmware_ = reading_;
+        if (!spec.lead_compensated) firmware_.lead_ohm = 0.0;
+        fw_reading_ = maps(firmware_, power_, Slots{}).reading;
         nominal_ = trial(Slots{});
-        nominal_ = trial(Slots{});  // again, now that the nominal map it inverts exists
-        Analysis a = analyze(grid, model, reading_, LineKind::endpoint, 0.0);
+        Analysis a = analyze(grid, model, firmware_, LineKind::endpoint, 0.0);
         line_ = a.line;
         inv_slope_ = 1.0 / line_.slope;
         sensitivity_.resize(n);
         for (std::size_t i = 0; i < n; ++i) sensitivity_[i] = a.points[i].sensitivity_per_k;
-        for (const PointResult& p : a.points) largest_reading_ = std::max(largest_reading_, std::abs(p.output));
+        for (std::size_t i = 0; i < n; ++i) {
+            largest_reading_ = std::max(largest_reading_, std::abs(nominal_.reading.at(r_[i])));
+        }
     }
 
     [[nodiscard]] std::size_t size() const { return t_.size(); }
@@ -297,106 +333,126 @@ public:
     [[nodiscard]] std::size_t resistors() const { return fields_.size(); }
     [[nodiscard]] bool volts() const { return volts_; }
     [[nodiscard]] bool heats() const { return heat_; }
+    [[nodiscard]] bool solves() const { return solve_; }
+    [[nodiscard]] bool has_lead() const { return lead_ohm_ > 0.0; }
     [[nodiscard]] double lsb() const { return lsb_; }
     [[nodiscard]] const Line& line() const { return line_; }
     [[nodiscard]] double sensitivity(std::size_t i) const { return sensitivity_[i]; }
     [[nodiscard]] double largest_reading() const { return largest_reading_; }
     [[nodiscard]] const Trial& nominal() const { return nominal_; }
+    [[nodiscard]] Inverse inverse() const { return inverse_; }
 
     // The circuit's maps with the parts in `s`.
     [[nodiscard]] Trial trial(const Slots& s) const {
         Circuit rc = reading_;
+        for (std::size_t k = 0; k < fields_.size(); ++k) rc.*fields_[k] *= 1.0 + s[kResistor0 + k];
+        rc.lead_ohm = lead_ohm_ * (1.0 + s[kLead]);
         Circuit pc = power_;
-        for (std::size_t k = 0; k < fields_.size(); ++k) {
-            const double f = 1.0 + s[kResistor0 + k];
-            rc.*fields_[k] *= f;
-            pc.*fields_[k] *= f;
-        }
-        const double drive = 1.0 + s[kExcitation];
-        std::array<double, 3> y{};
-        std::array<double, 3> v{};
-        for (std::size_t k = 0; k < 3; ++k) {
-            y[k] = operate(rc, fit_x_[k]).output * (volts_ ? drive : 1.0);
-            if (heat_) v[k] = operate(pc, fit_x_[k]).thermistor_v * drive;
-        }
-        Trial tr;
-        tr.g = 1.0 + s[kR25];
+        for (std::size_t k = 0; k < fields_.size(); ++k) pc.*fields_[k] *= 1.0 + s[kResistor0 + k];
+        pc.lead_ohm = rc.lead_ohm;
+        Trial tr = maps(rc, pc, s);
+        tr.g = (1.0 + s[kR25]) * (1.0 + s[kDrift]);
+        tr.ln_g = std::log(tr.g);
         tr.db = s[kBeta];
-        tr.reading = through(fit_x_, y);
-        tr.to_r = inverse_after(nominal_.reading, tr.reading);
-        if (heat_) tr.vt = through(fit_x_, v);
-        if (inverse_ == Inverse::scaled) tr.ln_scale = std::log(tr.g) + std::log(tr.to_r.at(fit_x_[1]) / fit_x_[1]);
+        tr.shift_k = s[kShift];
+        tr.gain = 1.0 + s[kGain];
+        tr.to_r = inverse_after(fw_reading_, tr.reading);
+        if (inverse_ == Inverse::scaled) tr.ln_scale = tr.ln_g + std::log(tr.to_r.at(fit_x_[1]) / fit_x_[1]);
         return tr;
     }
 
-    // True when the nominal inverse of a trial's reading is R_T times a factor of the trial's parts:
-    // a divider without a load read ratiometrically (v = x/(x + rs) or rs/(rs + x) depends on x/rs
-    // only, so x̂ = x·rs_nominal/rs), or the bare thermistor without a load (x̂ = x, or x·I/I_nominal
-    // with a current drive).
+    // True when the firmware's inverse of a trial's reading is R_T times a factor of the trial's
+    // parts: a divider without a load or leads read ratiometrically (v = x/(x + rs) or rs/(rs + x)
+    // depends on x/rs only, so x̂ = x·rs_nominal/rs), or the bare thermistor without a load or leads
+    // (x̂ = x, or x·I/I_nominal with a current drive).
     [[nodiscard]] static bool scales(const Circuit& c, bool volts) {
-        if (std::isfinite(c.load_ohm)) return false;
+        if (std::isfinite(c.load_ohm) || c.lead_ohm > 0.0) return false;
         if (c.topology == Topology::bare) return true;
         return (c.topology == Topology::divider_low || c.topology == Topology::divider_high) && !volts;
     }
 
     // The temperature read minus the true one at grid point i, kelvin, with the parts of `tr`.
     // `adc` is an offset in the reading's unit (Adc::offset) or a converter error in LSB (Adc::rounded).
-    [[nodiscard]] double error(const Trial& tr, std::size_t i, Adc mode, double adc, bool heat) const {
-        return with_kernel(heat, mode, inverse_, [&](auto kernel) { return point_error(kernel, tr, i, adc); });
+    [[nodiscard]] double error(const Trial& tr, std::size_t i, Adc mode, double adc, bool solve) const {
+        return with_kernel(solve, mode, inverse_, [&](auto kernel) { return point_error(kernel, tr, i, adc); });
     }
 
-    [[nodiscard]] Inverse inverse() const { return inverse_; }
+    // The thermistor's resistance in the circuit at grid point i: its body runs warm by
+    // P(R(T_b))/δ, and its curve is the part's with R25, B, drift and the shift as drawn.
+    template <bool kSolve, Inverse kInverse>
+    [[nodiscard]] [[gnu::always_inline]] inline double body_resistance(const Trial& tr, std::size_t i) const {
+        // ln R' = ln g + ln R + db·(ln R − ln R0), R the part's nominal curve.
+        const double l0 = lnr_[i] + tr.ln_g + tr.db * lnq_[i];
+        if constexpr (!kSolve) {
+            return exp_fast(l0);
+        } else if constexpr (kInverse == Inverse::table) {
+            return body_resistance_general(tr, i);
+        } else {
+            // Newton on l = ln R' for f(l) = T_part(l) − shift − T − P(e^l)/δ, where T_part(l) is the
+            // part's temperature at that resistance, explicit for Steinhart–Hart (and the beta model):
+            // 1/T = a + b·L + c·L³ with L = (l − ln g + db·ln R0)/(1 + db). From the first-order
+            // estimate, Newton converges quadratically: three steps reach rounding (below 1e-12 K).
+            const double inv1db = 1.0 / (1.0 + tr.db);
+            const double lshift = -tr.ln_g + tr.db * ln_r0_;
+            const Bilinear& v = tr.vt;
+            const double det = v.a * v.d - v.b * v.c;
+            auto power = [&](double x, double& dp_dl) {
+                const double den = v.c * x + v.d;
+                const double vx = (v.a * x + v.b) / den;
+                const double p = vx * vx / x;
+                dp_dl = 2.0 * vx * det / (den * den) - p;
+                return p;
+            };
+            double dp = 0.0;
+            const double p0 = power(exp_fast(l0), dp);
+            double l = l0 + (1.0 + tr.db) * alpha_[i] * (tr.shift_k + p0 * inv_dissipation_);
+            for (int step = 0; step < kNewtonSteps; ++step) {
+                const double x = exp_fast(l);
+                const double p = power(x, dp);
+                const double big_l = (l + lshift) * inv1db;
+                const double inv_t = sh_inverse_t(psh_, big_l);
+                const double t_part = 1.0 / inv_t;
+                const double f = t_part - tr.shift_k - t_[i] - p * inv_dissipation_;
+                const double df =
+                    -t_part * t_part * (psh_.b + 3.0 * psh_.c * big_l * big_l) * inv1db - dp * inv_dissipation_;
+                l -= f / df;
+            }
+            return exp_fast(l);
+        }
+    }
 
     // error() with its branches chosen at compile time: straight-line code that vectorizes.
-    template <bool kHeat, Adc kMode, Inverse kInverse>
-    [[nodiscard]] [[gnu::always_inline]] inline double point_error(Kernel<kHeat, kMode, kInverse>, const Trial& tr,
+    template <bool kSolve, Adc kMode, Inverse kInverse>
+    [[nodiscard]] [[gnu::always_inline]] inline double point_error(Kernel<kSolve, kMode, kInverse>, const Trial& tr,
                                                                    std::size_t i, double adc) const {
-        if constexpr (kInverse == Inverse::scaled && kMode == Adc::none && !kHeat) {
-            // ln of the R_T the firmware infers: ln R + ln(1 + dr) + db·ln(R/R0) + ln(factor).
+        if constexpr (kInverse == Inverse::scaled && kMode == Adc::none && !kSolve) {
+            // ln of the R_T the firmware infers: ln R + ln g + db·ln(R/R0) + ln(factor).
             const double l = lnr_[i] + tr.ln_scale + tr.db * lnq_[i];
-            return 1.0 / (sh_.a + l * (sh_.b + sh_.c * l * l)) - t_[i];
+            return 1.0 / sh_inverse_t(sh_, l) - t_[i];
         }
-        // R'(T) = R(T)·(1 + dr)·(R(T)/R(T0))^db.
-        double x = r_[i] * tr.g * exp_fast(tr.db * lnq_[i]);
-        if constexpr (kHeat) {
-            // The body runs warm by dT = P/δ; R' there from its Taylor series in ln R (dln R'/dT is
-            // (1 + db)·alpha). Three fixed-point steps from dT = 0.
-            const double k1 = (1.0 + tr.db) * alpha_[i];
-            const double k2 = 0.5 * (1.0 + tr.db) * alpha_dot_[i];
-            // P = v²/x with v = (a·x + b)/(c·x + d): one division a step. The exponent is below 0.25
-            // in size (alpha ≤ 0.1/K, dT ≤ 2 K by the limit), where exp_small is exact.
-            const Bilinear& v = tr.vt;
-            double xh = x;
-            for (int step = 0; step < kHeatSteps; ++step) {
-                const double num = v.a * xh + v.b;
-                const double den = v.c * xh + v.d;
-                const double dt = num * num / (den * den * xh) * inv_dissipation_;
-                xh = x * exp_small(dt * (k1 + k2 * dt));
-            }
-            x = xh;
-        }
+        const double x = body_resistance<kSolve, kInverse>(tr, i);
         double t_read = 0.0;
         constexpr bool kClosed = kInverse == Inverse::closed || kInverse == Inverse::scaled;
         if constexpr (kClosed && kMode == Adc::none) {
-            const double l = log_fast(tr.to_r.at(x));
-            t_read = 1.0 / (sh_.a + l * (sh_.b + sh_.c * l * l));
+            t_read = 1.0 / sh_inverse_t(sh_, log_fast(tr.to_r.at(x)));
         } else {
             double y = tr.reading.at(x);
-            if constexpr (kMode == Adc::offset) y += adc;
-            if constexpr (kMode == Adc::rounded) y = round_even(y * inv_lsb_ + adc) * lsb_;
+            if constexpr (kMode == Adc::offset) y = y * tr.gain + adc;
+            if constexpr (kMode == Adc::rounded)
+                y = (round_even(y * tr.gain * inv_lsb_ + adc + code_in_) + code_out_) * lsb_;
             if constexpr (kInverse == Inverse::line) {
                 t_read = (y - line_.intercept) * inv_slope_;
             } else if constexpr (kClosed) {
-                const double l = log_fast(nominal_.reading.inverse(y));
-                t_read = 1.0 / (sh_.a + l * (sh_.b + sh_.c * l * l));
+                t_read = 1.0 / sh_inverse_t(sh_, log_fast(fw_reading_.inverse(y)));
             } else {
-                t_read = table_temperature(nominal_.reading.inverse(y), i);
+                t_read = line_general_ ? (y - line_.intercept) * inv_slope_
+                                       : firmware_temperature(fw_reading_.inverse(y), i);
             }
         }
         return t_read - t_[i];
     }
 
-    static constexpr int kHeatSteps = 3;
+    static constexpr int kNewtonSteps = 3;
 
 private:
     static double Circuit::*field_of(const std::string& name) {
@@ -407,11 +463,67 @@ private:
         return &Circuit::r3;
     }
 
-    // A table model's temperature at resistance x: Newton on ln R(T) = ln x from the grid
-    // temperature (R and its derivative are the table's own monotone cubic, so this converges to
-    // its exact inverse); the table's bisection if Newton stalls.
-    [[nodiscard]] double table_temperature(double x, std::size_t i) const {
+    // A beta or Steinhart–Hart model as Steinhart–Hart coefficients; false for a table.
+    static bool closed_form(const Thermistor& m, SteinhartHart& out) {
+        if (const auto* b = std::get_if<BetaModel>(&m.model())) {
+            out = to_steinhart_hart(*b);
+            return true;
+        }
+        if (const auto* s = std::get_if<SteinhartHart>(&m.model())) {
+            out = *s;
+            return true;
+        }
+        return false;
+    }
+
+    // The reading and thermistor-voltage maps of a reading circuit `rc` and a driven circuit `pc` with
+    // the drive and reference of `s`. In volts the code is the reading over the reference, so the
+    // firmware sees y·(1 + excitation)/(1 + reference); ratiometric, the excitation is the reference:
+    // y·(1 + reference)/(1 + reference), computed as such so that the cancellation is a figure.
+    [[nodiscard]] Trial maps(const Circuit& rc, const Circuit& pc, const Slots& s) const {
+        const double ref = 1.0 + s[kReference];
+        const double drive = volts_ ? 1.0 + s[kExcitation] : ref;
+        std::array<double, 3> y{};
+        std::array<double, 3> v{};
+        for (std::size_t k = 0; k < 3; ++k) {
+            y[k] = operate(rc, fit_x_[k]).output * drive / ref;
+            if (heat_) v[k] = operate(pc, fit_x_[k]).thermistor_v * drive;
+        }
+        Trial tr;
+        tr.reading = through(fit_x_, y);
+        if (heat_) tr.vt = through(fit_x_, v);
+        return tr;
+    }
+
+    // The general body resistance (a table model as the part): Newton on T_b = T + P/δ with the
+    // part's own functions, R'(T_b) = g·R(T_b + shift)^(1+db)/R0^db.
+    [[nodiscard]] double body_resistance_general(const Trial& tr, std::size_t i) const {
+        const Bilinear& v = tr.vt;
+        auto resistance = [&](double tb) {
+            return std::exp(tr.ln_g + (1.0 + tr.db) * std::log(part_.resistance(tb + tr.shift_k)) - tr.db * ln_r0_);
+        };
+        double tb = t_[i];
+        for (int k = 0; k < 60; ++k) {
+            const double x = resistance(tb);
+            const double den = v.c * x + v.d;
+            const double vx = (v.a * x + v.b) / den;
+            const double p = vx * vx / x;
+            const double dp_dl = 2.0 * vx * (v.a * v.d - v.b * v.c) / (den * den) - p;
+            const double dl_dt = (1.0 + tr.db) * part_.alpha(tb + tr.shift_k);
+            const double f = tb - t_[i] - p * inv_dissipation_;
+            const double step = f / (1.0 - dp_dl * dl_dt * inv_dissipation_);
+            tb -= step;
+            if (std::abs(step) < 1e-13) break;
+        }
+        return resistance(tb);
+    }
+
+    // The firmware model's temperature at resistance x: closed form, or Newton on ln R(T) = ln x from
+    // the grid temperature (R and its derivative are the table's own monotone cubic, so this converges
+    // to its exact inverse); the table's bisection if Newton stalls.
+    [[nodiscard]] double firmware_temperature(double x, std::size_t i) const {
         if (!(x > 0.0) || !std::isfinite(x)) return std::numeric_limits<double>::quiet_NaN();
+        if (!std::holds_alternative<TableModel>(model_.model())) return 1.0 / sh_inverse_t(sh_, std::log(x));
         const double lx = std::log(x);
         double t = t_[i];
         for (int k = 0; k < 12; ++k) {
@@ -423,18 +535,29 @@ private:
     }
 
     const Thermistor& model_;
+    const Thermistor& part_;
     Circuit power_;                          // the circuit as driven (self-heating)
     Circuit reading_;                        // the circuit whose output is the reading (per volt when ratiometric)
+    Circuit firmware_;                       // the circuit the firmware inverts
     std::vector<double Circuit::*> fields_;  // the topology's resistors
     bool volts_ = false;
+    bool ratiometric_ = true;
     bool heat_ = false;
+    bool solve_ = false;
+    bool line_general_ = false;
+    double lead_ohm_ = 0.0;
     double inv_dissipation_ = 0.0;
     double lsb_ = 0.0;
     double inv_lsb_ = 0.0;
-    std::vector<double> t_, r_, lnr_, lnq_, alpha_, alpha_dot_, sensitivity_;
+    double code_in_ = 0.0;
+    double code_out_ = 0.0;
+    double ln_r0_ = 0.0;
+    std::vector<double> t_, r_, lnr_, lnq_, alpha_, sensitivity_;
     std::array<double, 3> fit_x_{};
     Inverse inverse_ = Inverse::closed;
-    SteinhartHart sh_;
+    SteinhartHart sh_;   // the firmware's model
+    SteinhartHart psh_;  // the part's curve
+    Bilinear fw_reading_;
     Trial nominal_;
     Line line_;
     double inv_slope_ = 0.0;

@@ -7,6 +7,7 @@
 #include <cmath>
 #include <limits>
 #include <numbers>
+#include <tuple>
 
 #include "budget/budget_channel.hpp"
 #include "rtline/error.hpp"
@@ -20,63 +21,159 @@ constexpr std::uint64_t kPilotTrials = kBlockTrials;  // block 0; a run of more 
 // The pilot's 93 % point is the tail threshold: from 4096 samples its estimate of the 93 % point has a
 // standard deviation of √(0.93·0.07/4096) = 0.4 %, so the 95 % bound lies five of them above it.
 constexpr std::uint64_t kPilotPermille = 930;
+// The signed tails' thresholds: the pilot's 3.5 % and 96.5 % points of the error, below the 2.5 % and
+// above the 97.5 % points by 1 %, 3.5 standard deviations of the pilot's estimate (√(0.965·0.035/4096)).
+constexpr std::uint64_t kPilotSignedPermille = 965;
 
-// The parts of one trial drawn from a generator: normal with σ = tolerance/3 or uniform over
-// ±tolerance; the converter error always uniform over ±error_lsb. Only the parts with a tolerance are
-// drawn, in slot order, a fixed count per trial.
+// One trial's draws: each part's deviation (fractions, K for the shift, 1/K for coefficients), the
+// board and cable temperatures, the converter's gain and its offset in LSB.
+enum Field : std::size_t {
+    kFR25,
+    kFBeta,
+    kFShift,
+    kFDrift,
+    kFRes0,
+    kFTc0 = kFRes0 + kMaxResistors,
+    kFExcitation = kFTc0 + kMaxResistors,
+    kFLead,
+    kFRef,
+    kFRefTc,
+    kFields
+};
+struct Draw {
+    std::array<double, kFields> f{};
+    double board_k = 0.0;
+    double cable_k = 0.0;
+    double gain = 0.0;
+    double adc = 0.0;
+};
+
+// The parts of one trial drawn from a generator. The parts with a tolerance (thermistor R25, B, dT
+// and drift; each resistor's tolerance and coefficient; excitation; the leads; the reference and its
+// coefficient) as the distribution says: normal with σ = tolerance/3 (normal-truncated: a pair of
+// draws with either beyond 3σ drawn again, which leaves each a normal truncated at ±3σ), or uniform
+// over ±tolerance. Always uniform: the board and cable temperatures over their ranges and the
+// converter's offset, gain, INL and further error over their bounds. Only what applies is drawn, in
+// a fixed order.
 class Sampler {
 public:
-    Sampler(const Channel& ch, const BudgetSpec& spec) : normal_(spec.distribution == Distribution::normal) {
+    Sampler(const Channel& ch, const BudgetSpec& spec)
+        : dist_(spec.distribution), board_(spec.board), cable_lo_(spec.cable_lo_k), cable_hi_(spec.cable_hi_k) {
         const Tolerances& tol = spec.tolerance;
-        Slots half{};
-        half[kR25] = tol.r25;
-        half[kBeta] = tol.beta;
-        for (std::size_t k = 0; k < ch.resistors(); ++k) half[kResistor0 + k] = tol.resistors;
-        half[kExcitation] = ch.volts() ? tol.excitation : 0.0;
-        for (std::size_t k = 0; k < kAdc; ++k) {
-            if (half[k] > 0.0) active_.push_back({k, normal_ ? half[k] / 3.0 : half[k]});
+        const double scale = dist_ == Distribution::uniform ? 1.0 : 1.0 / 3.0;
+        auto add = [&](Field f, double half) {
+            if (half > 0.0) parts_.push_back({f, half * scale});
+        };
+        add(kFR25, tol.r25);
+        add(kFBeta, tol.beta);
+        add(kFShift, tol.thermistor_dt_k);
+        add(kFDrift, tol.thermistor_drift);
+        for (std::size_t k = 0; k < ch.resistors(); ++k) {
+            add(static_cast<Field>(kFRes0 + k), tol.resistors);
+            add(static_cast<Field>(kFTc0 + k), tol.resistor_tc_per_k);
         }
-        adc_ = ch.lsb() > 0.0 ? spec.adc.error_lsb : 0.0;
+        add(kFExcitation, ch.volts() ? tol.excitation : 0.0);
+        if (ch.has_lead()) add(kFLead, tol.lead);
+        add(kFRef, tol.reference);
+        add(kFRefTc, tol.reference_tc_per_k);
+        resistors_ = ch.resistors();
+        lead_ = ch.has_lead();
+        if (ch.lsb() > 0.0) {
+            gain_ = spec.adc.gain;
+            for (const double h : {spec.adc.offset_lsb, spec.adc.inl_lsb, spec.adc.error_lsb}) {
+                if (h > 0.0) adc_.push_back(h);
+            }
+        }
+        coefficients_ = tol.resistor_tc_per_k > 0.0 || tol.reference_tc_per_k > 0.0;
     }
 
-    void draw(SplitMix64& rng, Slots& s) const {
-        const std::size_t m = active_.size();
-        if (normal_) {
+    // True when the parts differ from one temperature of the span to the next (the board at the
+    // sensed temperature with a coefficient): then compose() is called at each point.
+    [[nodiscard]] bool per_point() const { return board_.sensed && coefficients_; }
+
+    // Draws one trial's parts into `d`.
+    void draw(SplitMix64& rng, Draw& d) const {
+        const std::size_t m = parts_.size();
+        if (dist_ == Distribution::uniform) {
+            for (const Part& p : parts_) d.f[p.field] = p.scale * (2.0 * rng.uniform01() - 1.0);
+        } else {
             // Box–Muller: two independent standard normals from two uniforms.
             for (std::size_t j = 0; j < m; j += 2) {
-                const double r = std::sqrt(-2.0 * std::log(rng.uniform01_open()));
-                const double phi = 2.0 * std::numbers::pi * rng.uniform01();
-                s[active_[j].slot] = active_[j].scale * r * std::cos(phi);
-                if (j + 1 < m) s[active_[j + 1].slot] = active_[j + 1].scale * r * std::sin(phi);
+                double z0 = 0.0;
+                double z1 = 0.0;
+                do {
+                    const double r = std::sqrt(-2.0 * std::log(rng.uniform01_open()));
+                    const double phi = 2.0 * std::numbers::pi * rng.uniform01();
+                    z0 = r * std::cos(phi);
+                    z1 = j + 1 < m ? r * std::sin(phi) : 0.0;
+                } while (dist_ == Distribution::normal_truncated && (std::abs(z0) > 3.0 || std::abs(z1) > 3.0));
+                d.f[parts_[j].field] = parts_[j].scale * z0;
+                if (j + 1 < m) d.f[parts_[j + 1].field] = parts_[j + 1].scale * z1;
             }
-        } else {
-            for (const Part& p : active_) s[p.slot] = p.scale * (2.0 * rng.uniform01() - 1.0);
         }
-        if (adc_ > 0.0) s[kAdc] = adc_ * (2.0 * rng.uniform01() - 1.0);
+        d.board_k = board_.sensed ? NAN : board_.lo_k + (board_.hi_k - board_.lo_k) * rng.uniform01();
+        d.cable_k = lead_ ? cable_lo_ + (cable_hi_ - cable_lo_) * rng.uniform01() : kCopperReferenceK;
+        d.gain = gain_ > 0.0 ? gain_ * (2.0 * rng.uniform01() - 1.0) : 0.0;
+        d.adc = 0.0;
+        for (const double h : adc_) d.adc += h * (2.0 * rng.uniform01() - 1.0);
+    }
+
+    // The slots of a drawn trial with the board at board_k.
+    [[nodiscard]] Slots compose(const Draw& d, double board_k) const {
+        Slots s{};
+        const double dtb = board_k - kCoefficientReferenceK;
+        s[kR25] = d.f[kFR25];
+        s[kBeta] = d.f[kFBeta];
+        s[kShift] = d.f[kFShift];
+        s[kDrift] = d.f[kFDrift];
+        for (std::size_t k = 0; k < resistors_; ++k) {
+            s[kResistor0 + k] = (1.0 + d.f[kFRes0 + k]) * (1.0 + d.f[kFTc0 + k] * dtb) - 1.0;
+        }
+        s[kExcitation] = d.f[kFExcitation];
+        s[kLead] = (1.0 + d.f[kFLead]) * (1.0 + kCopperAlphaPerK * (d.cable_k - kCopperReferenceK)) - 1.0;
+        s[kReference] = (1.0 + d.f[kFRef]) * (1.0 + d.f[kFRefTc] * dtb) - 1.0;
+        s[kGain] = d.gain;
+        s[kAdc] = d.adc;
+        return s;
     }
 
 private:
     struct Part {
-        std::size_t slot;
-        double scale;  // σ (normal) or the half-width (uniform), as a fraction
+        Field field;
+        double scale;  // σ (normal) or the half-width (uniform)
     };
-    bool normal_;
-    std::vector<Part> active_;
-    double adc_ = 0.0;
+    Distribution dist_;
+    BoardTemperature board_;
+    double cable_lo_;
+    double cable_hi_;
+    std::vector<Part> parts_;
+    std::size_t resistors_ = 0;
+    bool lead_ = false;
+    double gain_ = 0.0;
+    std::vector<double> adc_;
+    bool coefficients_ = false;
 };
 
 std::uint64_t block_state(std::uint64_t seed, std::uint64_t block) { return mix64(mix64(seed) + block); }
 
-// What one worker keeps: |error| above the threshold at each temperature (kept[i][0, count[i])), and
-// how many equal it (errors are discrete once a converter quantizes the reading, so ties are common);
-// the rest are below it. And the largest |error|.
+// What one worker keeps at each temperature: the errors beyond two thresholds, e > hi or e < lo
+// (kept[i][0, count[i])), and how many equal each (errors are discrete once a converter quantizes
+// the reading, so ties are common); the rest lie strictly between. One stored sample serves the signed
+// percentiles at both ends and the |error| bounds (hi and −lo are at most the |error| threshold). And
+// the largest |error|, and the trials this worker ran.
 struct Tails {
-    explicit Tails(std::size_t n) : kept(n), count(n, 0), equal(n, 0), max_abs(n, 0.0) {}
+    explicit Tails(std::size_t n) : kept(n), count(n, 0), equal_hi(n, 0), equal_lo(n, 0), max_abs(n, 0.0) {}
     std::vector<std::vector<double>> kept;
     std::vector<std::size_t> count;
-    std::vector<std::uint64_t> equal;
-    std::uint64_t trials = 0;  // run by this worker: trials − count[i] − equal[i] lie below the threshold
+    std::vector<std::uint64_t> equal_hi;
+    std::vector<std::uint64_t> equal_lo;  // not counted where lo equals hi (equal_hi has them)
+    std::uint64_t trials = 0;
     std::vector<double> max_abs;
+};
+
+struct Thresholds {
+    std::vector<double> hi;
+    std::vector<double> lo;
 };
 
 // One block's work: where its samples go.
@@ -85,7 +182,7 @@ struct BlockJob {
     std::uint64_t count = 0;  // trials, from the block's start
     double* s1 = nullptr;     // per temperature: sum of (error − reference); null to skip the sums
     double* s2 = nullptr;     // and of its square
-    const double* tau = nullptr;
+    const Thresholds* tau = nullptr;
     Tails* tails = nullptr;
 };
 
@@ -99,110 +196,115 @@ public:
           seed_(spec.seed),
           sampler_(ch, spec),
           mode_(ch.lsb() > 0.0 ? Adc::rounded : Adc::none),
-          heat_(ch.heats()),
+          solve_(ch.solves()),
           e_ref_(ch.size()) {
-        for (std::size_t i = 0; i < ch.size(); ++i) e_ref_[i] = ch.error(ch.nominal(), i, mode_, 0.0, heat_);
-        block_fn_ = pick_block_fn(heat_, mode_, ch.inverse());
+        for (std::size_t i = 0; i < ch.size(); ++i) e_ref_[i] = ch.error(ch.nominal(), i, mode_, 0.0, solve_);
+        block_fn_ = pick_block_fn(solve_, mode_, ch.inverse());
     }
 
     [[nodiscard]] double reference(std::size_t i) const { return e_ref_[i]; }
 
     // Runs the first `count` trials of block b. Adds (error − reference) and its square to s1, s2 (one
-    // entry per temperature; null to skip) and keeps |error| above `tau` in `tails`.
-    void run(std::uint64_t b, std::uint64_t count, double* s1, double* s2, const std::vector<double>& tau,
-             Tails& tails) const {
+    // entry per temperature; null to skip) and keeps the tails above `tau` in `tails`.
+    void run(std::uint64_t b, std::uint64_t count, double* s1, double* s2, const Thresholds& tau, Tails& tails) const {
         // Room for every trial of the block at every temperature, so that the loop stores without a
         // branch and advances the count by whether the sample is kept.
         for (std::size_t i = 0; i < ch_.size(); ++i) {
             if (tails.kept[i].size() < tails.count[i] + count) tails.kept[i].resize(tails.count[i] + count);
         }
-        block_fn_(*this, BlockJob{b, count, s1, s2, tau.data(), &tails});
+        block_fn_(*this, BlockJob{b, count, s1, s2, &tau, &tails});
     }
 
     // The block loop for one kernel; inlined into a plain and an AVX2 copy (see pick_block_fn).
-    template <bool kHeat, Adc kMode, Inverse kInverse>
+    template <bool kSolve, Adc kMode, Inverse kInverse>
     [[gnu::always_inline]] inline void block(const BlockJob& job) const {
-        const Kernel<kHeat, kMode, kInverse> kernel;
+        const Kernel<kSolve, kMode, kInverse> kernel;
         SplitMix64 rng(block_state(seed_, job.block));
         const std::size_t n = ch_.size();
         std::vector<double> e(n);
-        std::vector<double> ae(n);
-        std::vector<std::size_t> keep(n);
+        std::vector<std::size_t> flag(n);
         std::vector<double*> out(n);
         Tails& tails = *job.tails;
         for (std::size_t i = 0; i < n; ++i) out[i] = tails.kept[i].data();
         double* const ep = e.data();
-        double* const ap = ae.data();
-        std::size_t* const kp = keep.data();
+        std::size_t* const fp = flag.data();
         const double* const ref = e_ref_.data();
-        const double* const th = job.tau;
+        const double* const hi = job.tau->hi.data();
+        const double* const lo = job.tau->lo.data();
         double* const mx = tails.max_abs.data();
-        std::uint64_t* const eq = tails.equal.data();
+        std::uint64_t* const eq_hi = tails.equal_hi.data();
+        std::uint64_t* const eq_lo = tails.equal_lo.data();
         std::size_t* const kept = tails.count.data();
         double* const s1 = job.s1;
         double* const s2 = job.s2;
-        Slots s{};
+        const bool per_point = sampler_.per_point();
+        Draw d;
         for (std::uint64_t t = 0; t < job.count; ++t) {
-            sampler_.draw(rng, s);
-            const Trial tr = ch_.trial(s);
-            const double adc = s[kAdc];
-            for (std::size_t i = 0; i < n; ++i) ep[i] = ch_.point_error(kernel, tr, i, adc);
+            sampler_.draw(rng, d);
+            if (per_point) {
+                for (std::size_t i = 0; i < n; ++i) {
+                    const Slots s = sampler_.compose(d, ch_.t(i));
+                    ep[i] = ch_.point_error(kernel, ch_.trial(s), i, s[kAdc]);
+                }
+            } else {
+                const Slots s = sampler_.compose(d, std::isnan(d.board_k) ? kCoefficientReferenceK : d.board_k);
+                const Trial tr = ch_.trial(s);
+                const double adc = s[kAdc];
+                for (std::size_t i = 0; i < n; ++i) ep[i] = ch_.point_error(kernel, tr, i, adc);
+            }
             if (s1 != nullptr) {
                 for (std::size_t i = 0; i < n; ++i) {
-                    const double d = ep[i] - ref[i];
-                    s1[i] += d;
-                    s2[i] += d * d;
+                    const double dv = ep[i] - ref[i];
+                    s1[i] += dv;
+                    s2[i] += dv * dv;
                 }
             }
             // Simple loops, each of which the compiler vectorizes.
+            for (std::size_t i = 0; i < n; ++i) mx[i] = std::max(mx[i], std::abs(ep[i]));
+            for (std::size_t i = 0; i < n; ++i) eq_hi[i] += ep[i] == hi[i] ? 1 : 0;
+            for (std::size_t i = 0; i < n; ++i) eq_lo[i] += (ep[i] == lo[i]) & (lo[i] != hi[i]) ? 1 : 0;
+            for (std::size_t i = 0; i < n; ++i) fp[i] = (ep[i] > hi[i]) | (ep[i] < lo[i]) ? 1 : 0;
             for (std::size_t i = 0; i < n; ++i) {
-                const double a = std::abs(ep[i]);
-                ap[i] = a;
-                mx[i] = std::max(mx[i], a);
-            }
-            for (std::size_t i = 0; i < n; ++i) eq[i] += ap[i] == th[i] ? 1 : 0;
-            for (std::size_t i = 0; i < n; ++i) kp[i] = ap[i] > th[i] ? 1 : 0;
-            for (std::size_t i = 0; i < n; ++i) {
-                out[i][kept[i]] = ap[i];
-                kept[i] += kp[i];
+                out[i][kept[i]] = ep[i];
+                kept[i] += fp[i];
             }
         }
         tails.trials += job.count;
     }
 
 private:
-    static BlockFn pick_block_fn(bool heat, Adc mode, Inverse inverse);
+    static BlockFn pick_block_fn(bool solve, Adc mode, Inverse inverse);
 
     const Channel& ch_;
     std::uint64_t seed_;
     Sampler sampler_;
     Adc mode_;
-    bool heat_;
+    bool solve_;
     std::vector<double> e_ref_;
     BlockFn block_fn_ = nullptr;
 };
 
-template <bool kHeat, Adc kMode, Inverse kInverse>
+template <bool kSolve, Adc kMode, Inverse kInverse>
 void block_plain(const Runner& r, const BlockJob& job) {
-    r.block<kHeat, kMode, kInverse>(job);
+    r.block<kSolve, kMode, kInverse>(job);
 }
 
 #if defined(__x86_64__) && defined(__GNUC__)
 // The same loop compiled for AVX2 (four doubles a vector), chosen at run time when the processor has
 // it. AVX2 without FMA rounds every operation as the plain code does, so the results are the same bits.
-template <bool kHeat, Adc kMode, Inverse kInverse>
+template <bool kSolve, Adc kMode, Inverse kInverse>
 __attribute__((target("avx2"))) void block_avx2(const Runner& r, const BlockJob& job) {
-    r.block<kHeat, kMode, kInverse>(job);
+    r.block<kSolve, kMode, kInverse>(job);
 }
 #endif
 
-BlockFn Runner::pick_block_fn(bool heat, Adc mode, Inverse inverse) {
-    return with_kernel(heat, mode, inverse, [](auto kernel) -> BlockFn {
-        return [&]<bool kHeat, Adc kMode, Inverse kInverse>(Kernel<kHeat, kMode, kInverse>) -> BlockFn {
+BlockFn Runner::pick_block_fn(bool solve, Adc mode, Inverse inverse) {
+    return with_kernel(solve, mode, inverse, [](auto kernel) -> BlockFn {
+        return [&]<bool kSolve, Adc kMode, Inverse kInverse>(Kernel<kSolve, kMode, kInverse>) -> BlockFn {
 #if defined(__x86_64__) && defined(__GNUC__)
-            if (__builtin_cpu_supports("avx2")) return &block_avx2<kHeat, kMode, kInverse>;
+            if (__builtin_cpu_supports("avx2")) return &block_avx2<kSolve, kMode, kInverse>;
 #endif
-            return &block_plain<kHeat, kMode, kInverse>;
+            return &block_plain<kSolve, kMode, kInverse>;
         }(kernel);
     });
 }
@@ -211,24 +313,87 @@ std::uint64_t trials_in(std::uint64_t block, std::uint64_t trials) {
     return std::min(kBlockTrials, trials - block * kBlockTrials);
 }
 
-// The rank ⌈permille·n/1000⌉ (1-based), in exact integer arithmetic.
+// The rank ⌈permille·n/1000⌉ (1-based), in exact integer arithmetic; and with parts per 10^5.
 std::uint64_t rank_of(std::uint64_t permille, std::uint64_t n) {
     return std::max<std::uint64_t>(1, (permille * n + 999) / 1000);
 }
+std::uint64_t rank_of_1e5(std::uint64_t parts, std::uint64_t n) {
+    return std::max<std::uint64_t>(1, (parts * n + 99999) / 100000);
+}
 
-// The bound at rank k when the samples above the threshold `tau` are `kept`, n_equal equal it and
-// n_below lie below it; kept[from, end) must hold the kept ranks from `from` on (nth_element leaves
-// that true above the rank it places, so a higher rank is searched there only). NaN when the rank
-// falls below the threshold (the pilot misled).
-double order_statistic(std::vector<double>& kept, std::size_t from, std::uint64_t k, std::uint64_t n_below,
-                       std::uint64_t n_equal, double tau) {
-    if (k > n_below + n_equal) {
-        const auto at = kept.begin() + static_cast<std::ptrdiff_t>(k - n_below - n_equal - 1);
-        std::nth_element(kept.begin() + static_cast<std::ptrdiff_t>(from), at, kept.end());
-        return *at;
+// The k-th smallest (1-based) of the values in v[from, end) with nth_element; v[from, end) must hold
+// ranks from `from` on (nth_element leaves that true above the rank it places).
+double kth(std::vector<double>& v, std::size_t from, std::size_t k) {
+    const auto at = v.begin() + static_cast<std::ptrdiff_t>(k - 1);
+    std::nth_element(v.begin() + static_cast<std::ptrdiff_t>(from), at, v.end());
+    return *at;
+}
+
+// The statistics of one temperature from every worker's tail: the samples above hi or below lo are
+// known, n_hi equal hi and n_lo equal lo, the rest lie strictly between (unknown). Sorted, the full set
+// is [below lo][lo × n_lo][between][hi × n_hi][above hi]. A rank that falls between is NaN (the pilot
+// misled; the caller runs that temperature again keeping all).
+struct Order {
+    std::vector<double> above, below, big;
+    std::uint64_t n = 0, n_hi = 0, n_lo = 0;
+    double hi = 0.0, lo = 0.0;
+
+    // The k-th smallest error.
+    double signed_rank(std::uint64_t k) {
+        const std::uint64_t nb = below.size();
+        const std::uint64_t na = above.size();
+        const std::uint64_t between = n - na - nb - n_hi - n_lo;
+        if (k <= nb) return kth(below, 0, static_cast<std::size_t>(k));
+        if (k <= nb + n_lo) return lo;
+        if (k <= nb + n_lo + between) return NAN;
+        if (k <= nb + n_lo + between + n_hi) return hi;
+        return kth(above, 0, static_cast<std::size_t>(k - (n - na)));
     }
-    if (k > n_below) return tau;
-    return NAN;
+
+    // The k-th smallest |error| for ranks k1 ≤ k2. Every sample between the thresholds has |e| < C =
+    // max(|lo|, |hi|); the samples with |e| ≥ C are the kept ones so large and the ties at ±C.
+    std::pair<double, double> abs_ranks(std::uint64_t k1, std::uint64_t k2) {
+        // Keeping every sample (hi = −∞): all are known, C = 0.
+        const double c = std::isfinite(hi) && std::isfinite(lo) ? std::max(std::abs(lo), std::abs(hi)) : 0.0;
+        big.clear();
+        for (const double v : above) {
+            if (std::abs(v) >= c) big.push_back(std::abs(v));
+        }
+        for (const double v : below) {
+            if (std::abs(v) >= c) big.push_back(std::abs(v));
+        }
+        const std::uint64_t ties = (std::abs(hi) == c ? n_hi : 0) + (std::abs(lo) == c ? n_lo : 0);
+        const std::uint64_t small = n - big.size() - ties;
+        auto at = [&](std::uint64_t k, std::size_t from) {
+            if (k <= small) return static_cast<double>(NAN);
+            if (k <= small + ties) return c;
+            return kth(big, from, static_cast<std::size_t>(k - small - ties));
+        };
+        const double v1 = at(k1, 0);
+        const std::uint64_t placed = k1 > small + ties ? k1 - small - ties : 0;
+        return {v1, at(k2, static_cast<std::size_t>(placed))};
+    }
+};
+
+// Gathers point i's samples from every worker's tails (and frees them there).
+void gather(std::vector<Tails>& from, std::size_t i, double hi, double lo, Order& o) {
+    o.above.clear();
+    o.below.clear();
+    o.n = 0;
+    o.n_hi = 0;
+    o.n_lo = 0;
+    o.hi = hi;
+    o.lo = lo;
+    for (Tails& t : from) {
+        o.n += t.trials;
+        o.n_hi += t.equal_hi[i];
+        o.n_lo += t.equal_lo[i];
+        for (std::size_t j = 0; j < t.count[i]; ++j) {
+            const double v = t.kept[i][j];
+            (v > hi ? o.above : o.below).push_back(v);
+        }
+        std::vector<double>().swap(t.kept[i]);
+    }
 }
 
 }  // namespace
@@ -239,18 +404,24 @@ std::vector<McStats> monte_carlo(const Channel& ch, const BudgetSpec& spec, unsi
     const std::uint64_t blocks = (trials + kBlockTrials - 1) / kBlockTrials;
     const Runner runner(ch, spec);
 
-    // The tail threshold at each temperature: the pilot's 93 % point (none for a small run). The 95 %
-    // bound lies above it unless the pilot misleads; then that temperature is run again keeping all.
-    std::vector<double> tau(n, -INFINITY);
+    // The thresholds at each temperature from the pilot (none for a small run): hi = the smaller of its
+    // 96.5 % point of the error and its 93 % point of |error|, lo = the larger of its 3.5 % point and
+    // minus that 93 % point. The bounds lie beyond them unless the pilot misleads; then that
+    // temperature is run again keeping all.
+    Thresholds tau{std::vector<double>(n, -INFINITY), std::vector<double>(n, INFINITY)};
     if (trials > kPilotTrials) {
         Tails pilot(n);
         runner.run(0, kPilotTrials, nullptr, nullptr, tau, pilot);
         parallel_for(n, threads, [&](std::size_t i, unsigned) {
             std::vector<double>& v = pilot.kept[i];
             v.resize(pilot.count[i]);
-            const auto at = v.begin() + static_cast<std::ptrdiff_t>(rank_of(kPilotPermille, v.size()) - 1);
-            std::nth_element(v.begin(), at, v.end());
-            tau[i] = *at;
+            std::vector<double> a(v.size());
+            for (std::size_t j = 0; j < v.size(); ++j) a[j] = std::abs(v[j]);
+            const double t_abs = kth(a, 0, static_cast<std::size_t>(rank_of(kPilotPermille, a.size())));
+            const double t_hi = kth(v, 0, static_cast<std::size_t>(rank_of(kPilotSignedPermille, v.size())));
+            const double t_lo = kth(v, 0, static_cast<std::size_t>(rank_of(1000 - kPilotSignedPermille, v.size())));
+            tau.hi[i] = std::min(t_hi, t_abs);
+            tau.lo[i] = std::min(std::max(t_lo, -t_abs), tau.hi[i]);
         });
     }
 
@@ -263,24 +434,18 @@ std::vector<McStats> monte_carlo(const Channel& ch, const BudgetSpec& spec, unsi
     });
 
     std::vector<McStats> out(n);
-    std::vector<std::size_t> redo;
+    // Ranks: |error| at 95 % and 99.7 %; the error at 0.135 %, 2.5 %, 97.5 % and 99.865 %.
     const std::uint64_t k95 = rank_of(950, trials);
     const std::uint64_t k997 = rank_of(997, trials);
-    auto bounds = [&](std::size_t i, std::vector<Tails>& from, double tau_i, std::vector<double>& kept) {
-        std::uint64_t n_below = 0;
-        std::uint64_t n_equal = 0;
-        kept.clear();
-        for (Tails& t : from) {
-            n_below += t.trials - t.count[i] - t.equal[i];
-            n_equal += t.equal[i];
-            kept.insert(kept.end(), t.kept[i].begin(), t.kept[i].begin() + static_cast<std::ptrdiff_t>(t.count[i]));
-            std::vector<double>().swap(t.kept[i]);
-        }
-        out[i].p95_k = order_statistic(kept, 0, k95, n_below, n_equal, tau_i);
-        const std::uint64_t placed = k95 > n_below + n_equal ? k95 - n_below - n_equal : 0;  // kept ranks below
-        out[i].p99_7_k = order_statistic(kept, static_cast<std::size_t>(placed), k997, n_below, n_equal, tau_i);
+    auto bounds = [&](std::size_t i, std::vector<Tails>& from, const Thresholds& th, Order& o) {
+        gather(from, i, th.hi[i], th.lo[i], o);
+        std::tie(out[i].p95_k, out[i].p99_7_k) = o.abs_ranks(k95, k997);
+        out[i].p0_135_k = o.signed_rank(rank_of_1e5(135, trials));
+        out[i].p2_5_k = o.signed_rank(rank_of_1e5(2500, trials));
+        out[i].p97_5_k = o.signed_rank(rank_of_1e5(97500, trials));
+        out[i].p99_865_k = o.signed_rank(rank_of_1e5(99865, trials));
     };
-    std::vector<std::vector<double>> scratch(workers);
+    std::vector<Order> scratch(workers);
     parallel_for(n, workers, [&](std::size_t i, unsigned w) {
         McStats& m = out[i];
         double s1 = 0.0;
@@ -294,20 +459,25 @@ std::vector<McStats> monte_carlo(const Channel& ch, const BudgetSpec& spec, unsi
         m.std_k = trials > 1 ? std::sqrt(std::max(0.0, (s2 - s1 * s1 / nt) / (nt - 1.0))) : NAN;
         if (!std::isfinite(m.mean_k)) out_of_range(ch.t(i));
         for (const Tails& t : tails) m.max_abs_k = std::max(m.max_abs_k, t.max_abs[i]);
-        bounds(i, tails, tau[i], scratch[w]);
+        bounds(i, tails, tau, scratch[w]);
     });
+    std::vector<std::size_t> redo;
     for (std::size_t i = 0; i < n; ++i) {
-        if (std::isnan(out[i].p95_k) || std::isnan(out[i].p99_7_k)) redo.push_back(i);
+        const McStats& m = out[i];
+        if (std::isnan(m.p95_k) || std::isnan(m.p99_7_k) || std::isnan(m.p97_5_k) || std::isnan(m.p99_865_k) ||
+            std::isnan(m.p2_5_k) || std::isnan(m.p0_135_k)) {
+            redo.push_back(i);
+        }
     }
     if (!redo.empty()) {
         // Keep every sample at the temperatures the pilot misjudged, none elsewhere.
-        std::vector<double> keep_all(n, INFINITY);
-        for (const std::size_t i : redo) keep_all[i] = -INFINITY;
+        Thresholds keep_all{std::vector<double>(n, INFINITY), std::vector<double>(n, -INFINITY)};
+        for (const std::size_t i : redo) keep_all.hi[i] = -INFINITY;
         std::vector<Tails> again(workers, Tails(n));
         parallel_for(blocks, workers, [&](std::size_t b, unsigned w) {
             runner.run(b, trials_in(b, trials), nullptr, nullptr, keep_all, again[w]);
         });
-        for (const std::size_t i : redo) bounds(i, again, -INFINITY, scratch[0]);
+        for (const std::size_t i : redo) bounds(i, again, keep_all, scratch[0]);
     }
     return out;
 }

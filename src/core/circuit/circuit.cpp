@@ -125,7 +125,8 @@ SourceImpedance zeroed_drive(const Circuit& c, double r_t) {
 
 }  // namespace
 
-SourceImpedance source_impedance(const Circuit& c, double r_t) { return zeroed_drive(c, r_t); }
+// The thermistor's arm includes its lead wires, as in operate().
+SourceImpedance source_impedance(const Circuit& c, double r_t) { return zeroed_drive(c, r_t + c.lead_ohm); }
 
 std::string_view topology_name(Topology t) {
     for (const Named& n : kNames) {
@@ -191,6 +192,9 @@ void validate(const Circuit& c) {
             throw InputError("--" + name, describe(v), "a resistance must be positive");
         }
     }
+    if (!std::isfinite(c.lead_ohm) || c.lead_ohm < 0.0) {
+        throw InputError("--lead", describe(c.lead_ohm), "a lead resistance must be 0 or positive");
+    }
     if (!(c.load_ohm > 0.0)) {
         throw InputError("--load", describe(c.load_ohm), "a load resistance must be positive");
     }
@@ -223,7 +227,11 @@ double parallel(double a, double b) {
 }
 
 OperatingPoint operate(const Circuit& c, double r_t) {
-    const PerVolt pv = per_volt(c, r_t);
+    // The thermistor and its wires are one arm of the network; the thermistor takes its share
+    // r_t/(r_t + lead) of the arm's voltage.
+    const double arm = r_t + c.lead_ohm;
+    PerVolt pv = per_volt(c, arm);
+    if (c.lead_ohm > 0.0) pv.vt *= r_t / arm;
     const Excitation& e = c.excitation;
     OperatingPoint op;
     double top_v = 1.0;
@@ -242,6 +250,11 @@ OperatingPoint operate(const Circuit& c, double r_t) {
     op.thermistor_v = top_v * pv.vt;
     op.power_w = op.thermistor_v * op.thermistor_v / r_t;
     return op;
+}
+
+double lead_shift_k(const Circuit& c, const Thermistor& model, double t_k) {
+    if (!(c.lead_ohm > 0.0)) return 0.0;
+    return model.temperature(model.resistance(t_k) + c.lead_ohm) - t_k;
 }
 
 double output(const Circuit& c, double r_t) { return operate(c, r_t).output; }

@@ -50,16 +50,16 @@ double resistance_at_ratio(const Circuit& c, double v) {
         case Topology::divider_high: {
             // v = B/(R_T + B), B = rs ∥ load  ⇒  R_T = B(1 − v)/v.
             const double bottom = parallel(c.rs, c.load_ohm);
-            return bottom * (1.0 - v) / v;
+            return bottom * (1.0 - v) / v - c.lead_ohm;  // the firmware subtracts the known wires
         }
         case Topology::divider_low: {
             // v = P/(rs + P), P = R_T ∥ load  ⇒  P = rs·v/(1 − v).
-            return unparallel(c.rs * v / (1.0 - v), c.load_ohm);
+            return unparallel(c.rs * v / (1.0 - v), c.load_ohm) - c.lead_ohm;
         }
         case Topology::shunt_divider: {
             // v = B/(Q + B), Q = R_T ∥ rp, B = rs ∥ load  ⇒  Q = B(1 − v)/v.
             const double bottom = parallel(c.rs, c.load_ohm);
-            return unparallel(bottom * (1.0 - v) / v, c.rp);
+            return unparallel(bottom * (1.0 - v) / v, c.rp) - c.lead_ohm;
         }
         default: break;
     }
