@@ -145,7 +145,8 @@ TEST_CASE("an unknown name, count or ADC width is refused by its flag and its te
         {"an unknown reference line", with(kCheck, {"divider-low", "--rs", "10k", "--line", "straight"}),
          "--line 'straight': unknown line; choose endpoint, best-fit or minimax"},
         {"an unknown table spacing", with(kTable, {"--spacing", "log"}),
-         "--spacing 'log': unknown spacing; choose code (evenly spaced codes) or error (equal error per segment)"},
+         "--spacing 'log': unknown spacing; choose code (evenly spaced codes), error (equal error per segment) or "
+         "power-of-two (every 2^s codes, found by a shift)"},
         {"an unknown polynomial fit", with(kTable, {"--degree", "3", "--fit", "spline"}),
          "--fit 'spline': unknown fit; choose least-squares or minimax"},
         {"an unknown fit model",

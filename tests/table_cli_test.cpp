@@ -2,6 +2,7 @@
 // every code, the JSON and CSV documents, --max-error searches, and bad input.
 #include <doctest/doctest.h>
 
+#include <cctype>
 #include <cmath>
 #include <sstream>
 #include <string>
@@ -51,34 +52,57 @@ Json run_json(const std::vector<std::string>& args) {
     return Json::parse(r.out);
 }
 
-// What the compiled header gives at one code: the table's counts, and the polynomial when emitted.
+// What the compiled header gives at one code: the table's counts, the sensor state, and the
+// polynomial when emitted.
 struct CReading {
     long code;
     long counts;
+    int state;
     double poly_c;
 };
 
-std::string compiler() { return rtline::test::have_program("cc") ? "cc" : "gcc"; }
+std::string c_compiler() { return rtline::test::have_program("cc") ? "cc" : "gcc"; }
+std::string cxx_compiler() { return rtline::test::have_program("c++") ? "c++" : "g++"; }
 
-// Emits the header with `args`, compiles it into a program that prints every code from `from` to
-// `to`, runs it and reads the lines back.
+// The issue's warning set: C99 and C++11, -Wold-style-cast in C++ only.
+const char* const kWarnings = " -Wall -Wextra -Werror -pedantic -Wconversion -Wsign-conversion -Wshadow";
+
+std::string compile_line(bool cxx) {
+    return cxx ? cxx_compiler() + " -x c++ -std=c++11" + kWarnings + " -Wold-style-cast"
+               : c_compiler() + " -x c -std=c99" + kWarnings;
+}
+
+// Emits the header with `args`, compiles it (as C or C++) into a program of two translation units
+// that both include it, one printing every code from `from` to `to`; runs it and reads the lines back.
 std::vector<CReading> run_header(const std::vector<std::string>& args, const std::string& prefix, bool poly, long from,
-                                 long to) {
+                                 long to, bool cxx = false) {
     const TempPath header(".h");
     const TempPath source(".c");
+    const TempPath other(".c");
     const TempPath program(".bin");
     const auto emitted = run_rtline(with(args, {"--emit", "c", "--prefix", prefix, "-o", header.str()}));
     INFO(emitted.err);
     REQUIRE(emitted.code == 0);
+    // The program itself uses no casts, so the same source is clean C99 and C++11.
     std::ostringstream c;
     c << "#include <stdio.h>\n#include \"" << header.str() << "\"\n"
-      << "int main(void)\n{\n    long k;\n    for (k = " << from << "L; k <= " << to << "L; ++k) {\n"
-      << "        printf(\"%ld %ld %.17g\\n\", k, (long)" << prefix << "temperature((uint32_t)k), "
-      << (poly ? prefix + "poly_temperature((uint32_t)k)" : std::string("0.0")) << ");\n    }\n    return 0;\n}\n";
+      << "int other_unit(void);\n"
+      << "int main(void)\n{\n    uint32_t k;\n    for (k = " << from << "u; k <= " << to << "u; ++k) {\n"
+      << "        unsigned long code = k;\n        long counts = " << prefix << "temperature(k);\n"
+      << "        int state = " << prefix << "sensor_state(k);\n"
+      << "        double poly = " << (poly ? prefix + "poly_temperature(k)" : std::string("0.0")) << ";\n"
+      << "        printf(\"%lu %ld %d %.17g\\n\", code, counts, state, poly);\n"
+      << "        if (k == 0xFFFFFFFFu) {\n            break;\n        }\n    }\n"
+      << "    return other_unit();\n}\n";
     write_file(source.str(), c.str());
-    // The issue's compiler line: the header must compile warning-free as strict C99.
-    const auto built =
-        run_shell(compiler() + " -std=c99 -Wall -Wextra -Werror -pedantic -o " + program.str() + " " + source.str());
+    std::string upper_prefix = prefix;
+    for (char& ch : upper_prefix) ch = static_cast<char>(std::toupper(static_cast<unsigned char>(ch)));
+    write_file(other.str(), "#include \"" + header.str() + "\"\nint other_unit(void);\nint other_unit(void)\n{\n" +
+                                "    return " + prefix + "sensor_state(" + upper_prefix +
+                                "CODE_LO) == " + upper_prefix + "READING ? 0 : 1;\n}\n");
+    const std::string line = compile_line(cxx);
+    const auto built = run_shell(line + " -o " + program.str() + " " + source.str() + " " + other.str());
+    INFO(line);
     INFO(built.err);
     REQUIRE(built.code == 0);
     const auto ran = run_shell(program.str());
@@ -86,7 +110,7 @@ std::vector<CReading> run_header(const std::vector<std::string>& args, const std
     std::vector<CReading> out;
     std::istringstream in(ran.out);
     CReading r{};
-    while (in >> r.code >> r.counts >> r.poly_c) out.push_back(r);
+    while (in >> r.code >> r.counts >> r.state >> r.poly_c) out.push_back(r);
     REQUIRE(out.size() == static_cast<std::size_t>(to - from + 1));
     return out;
 }
@@ -101,55 +125,170 @@ struct CCase {
 
 }  // namespace
 
-TEST_CASE("the emitted C header, compiled and run over every code, stays within the reported error") {
-    // Reference temperatures: tests/ref/adc_inverse.py (beta equation, Ohm's law, brentq). The C
-    // table may exceed the interpolation error by the fixed-point rounding, at most one unit (each
-    // entry rounds by unit/2, and so does the interpolated result); the program must also agree
-    // exactly with the fixed-point error rtline reports.
+TEST_CASE("the emitted C, compiled and run over every code, ships what rtline reports, within the target") {
+    // Reference temperatures: tests/ref/adc_inverse.py (beta equation, Ohm's law, brentq), for each
+    // converter transfer. The compiled program's largest error over the span must equal the reported
+    // shipped error and stay within the target; as C99 and as C++11, two translation units each.
     const CCase cases[] = {
-        {"12-bit divider-low, equal error, 0.01 degC, with a polynomial",
+        {"12-bit divider-low, equal error, 0.01 degC, target 0.05, with a polynomial",
          divider("divider-low", "10k", 10e3, 12, 0.0, 45.0),
-         {"--spacing", "error", "--degree", "4"},
+         {"--spacing", "error", "--max-error", "0.05", "--degree", "4"},
          0.01,
          true},
-        {"10-bit divider-high, even codes, 0.1 degC",
+        {"10-bit divider-high, even codes, 0.1 degC, target 0.3",
          divider("divider-high", "4k7", 4.7e3, 10, -20.0, 60.0),
-         {"--entries", "9", "--unit", "0.1"},
+         {"--max-error", "0.3", "--unit", "0.1"},
          0.1,
          false},
-        {"11-bit divider-low over -40..125, minimax polynomial",
+        {"11-bit divider-low over -40..125, power-of-two segments",
          divider("divider-low", "10k", 10e3, 11, -40.0, 125.0),
-         {"--spacing", "error", "--entries", "25", "--degree", "7", "--fit", "minimax"},
+         {"--spacing", "power-of-two", "--max-error", "0.2"},
          0.01,
+         false},
+        {"11-bit divider-high over 0..50, minimax polynomial of degree 7, 0.1 degC",
+         divider("divider-high", "10k", 10e3, 11, 0.0, 50.0),
+         {"--entries", "40", "--unit", "0.1", "--degree", "7", "--fit", "minimax"},
+         0.1,
          true},
+        {"12-bit divider-low, 25 entries given, default target left unchecked",
+         divider("divider-low", "10k", 10e3, 12, -40.0, 125.0),
+         {"--spacing", "error", "--entries", "25"},
+         0.01,
+         false},
     };
-    for (const CCase& k : cases) {
-        CAPTURE(k.name);
-        const Json doc = run_json(with(k.design.flags, k.extra));
-        const Json ref = python_ref("adc_inverse.py", k.design.ref);
-        const long lo = ref["code_lo"].get<long>();
-        const long hi = ref["code_hi"].get<long>();
-        REQUIRE(doc["reading"]["code_lo"].get<long>() == lo);
-        REQUIRE(doc["reading"]["code_hi"].get<long>() == hi);
-        const long top = (1L << doc["adc_bits"].get<int>()) - 1;
-        const auto readings = run_header(with(k.design.flags, k.extra), "probe_", k.poly, 0, top);
-        const double max_error = doc["max_error_c"].get<double>();
-        double worst = 0.0;
-        double worst_poly = 0.0;
-        for (const CReading& r : readings) {
-            // A code outside the span reads as the nearer end code (the reading convention).
-            const long inside = std::min(std::max(r.code, lo), hi);
-            const double exact = ref["t_c"][static_cast<std::size_t>(inside - lo)].get<double>();
-            const double err = std::abs(static_cast<double>(r.counts) * k.unit_c - exact);
-            CHECK(err <= max_error + k.unit_c + 1e-9);
-            worst = std::max(worst, err);
-            if (k.poly) worst_poly = std::max(worst_poly, std::abs(r.poly_c - exact));
+    for (const char* transfer : {"rounding", "truncating", "full-scale"}) {
+        for (const CCase& k : cases) {
+            for (const bool cxx : {false, true}) {
+                CAPTURE(transfer);
+                CAPTURE(k.name);
+                CAPTURE(cxx);
+                const std::vector<std::string> flags =
+                    with(k.design.flags, with(k.extra, {"--adc-transfer", transfer}));
+                const Json doc = run_json(flags);
+                Json in = k.design.ref;
+                in["transfer"] = transfer;
+                const Json ref = python_ref("adc_inverse.py", in);
+                const long lo = ref["code_lo"].get<long>();
+                const long hi = ref["code_hi"].get<long>();
+                REQUIRE(doc["reading"]["code_lo"].get<long>() == lo);
+                REQUIRE(doc["reading"]["code_hi"].get<long>() == hi);
+                CHECK(doc["adc_transfer"] == transfer);
+                const long top = (1L << doc["adc_bits"].get<int>()) - 1;
+                const auto readings = run_header(flags, "probe_", k.poly, 0, top, cxx);
+                double worst = 0.0;
+                double worst_poly = 0.0;
+                for (const CReading& r : readings) {
+                    // A code outside the span reads as the nearer end code (the reading convention).
+                    const long inside = std::min(std::max(r.code, lo), hi);
+                    const double exact = ref["t_c"][static_cast<std::size_t>(inside - lo)].get<double>();
+                    if (r.code >= lo && r.code <= hi) {
+                        worst = std::max(worst, std::abs(static_cast<double>(r.counts) * k.unit_c - exact));
+                        if (k.poly) worst_poly = std::max(worst_poly, std::abs(r.poly_c - exact));
+                        CHECK(r.state == 0);  // every code of the span reads as a temperature
+                    }
+                }
+                CHECK(worst == doctest::Approx(doc["shipped"]["max_error_c"].get<double>()).epsilon(1e-9));
+                if (doc["max_error_target_source"] == "--max-error") {
+                    CHECK(worst <= doc["max_error_target_c"].get<double>());
+                }
+                if (k.poly) {
+                    CHECK(worst_poly == doctest::Approx(doc["polynomial"]["max_error_c"].get<double>()).epsilon(1e-9));
+                    CHECK(worst_poly <= doc["max_error_target_c"].get<double>());
+                }
+                CHECK(readings.front().counts == doc["table"].front()["t_fixed"].get<long>());
+            }
         }
-        CHECK(worst == doctest::Approx(doc["fixed_point"]["max_error_c"].get<double>()).epsilon(1e-9));
-        CHECK(readings.front().counts == doc["table"].front()["t_fixed"].get<long>());
-        CHECK(readings.back().counts == doc["table"].back()["t_fixed"].get<long>());
-        if (k.poly) CHECK(worst_poly == doctest::Approx(doc["polynomial"]["max_error_c"].get<double>()).epsilon(1e-9));
     }
+}
+
+TEST_CASE("an open and a shorted thermistor land in the bands that say so, for every topology the table reads") {
+    // Reference: tests/ref/adc_inverse.py evaluates the circuit equations with R_T = 1e18 ohm (open)
+    // and 1e-12 ohm (short) and quantizes them by the transfer; the compiled header's sensor_state()
+    // at those codes must say open (1) and short (2). With a 100k rp the shunt-divider's open code
+    // lies next to the cold end: within the margin it cannot be told, and the report says so.
+    struct Topo {
+        Design design;
+        std::vector<std::string> extra;
+        Json ref_extra;
+    };
+    Topo topologies[] = {
+        {divider("divider-high", "10k", 10e3, 12, -20.0, 60.0), {}, Json::object()},
+        {divider("divider-low", "10k", 10e3, 12, -20.0, 60.0), {}, Json::object()},
+        {divider("divider-low", "10k", 10e3, 12, -20.0, 60.0), {"--load", "1M"}, {{"load_ohm", 1e6}}},
+        {divider("shunt-divider", "4k7", 4.7e3, 12, 0.0, 50.0), {"--rp", "33k"}, {{"rp_ohm", 33e3}}},
+    };
+    for (const char* transfer : {"rounding", "truncating", "full-scale"}) {
+        for (Topo& t : topologies) {
+            const std::vector<std::string> flags = with(t.design.flags, with(t.extra, {"--adc-transfer", transfer}));
+            Json in = t.design.ref;
+            in.update(t.ref_extra);
+            in["transfer"] = transfer;
+            const Json ref = python_ref("adc_inverse.py", in);
+            const Json doc = run_json(flags);
+            const long open = ref["open_code"].get<long>();
+            const long shorted = ref["short_code"].get<long>();
+            CAPTURE(transfer);
+            CAPTURE(flags[8]);
+            CHECK(doc["faults"]["open_code"].get<long>() == open);
+            CHECK(doc["faults"]["short_code"].get<long>() == shorted);
+            const auto readings = run_header(flags, "f_", false, 0, 4095);
+            CHECK(readings[static_cast<std::size_t>(open)].state == 1);
+            CHECK(readings[static_cast<std::size_t>(shorted)].state == 2);
+            CHECK(doc["faults"]["not_told_from_a_reading"].empty());
+        }
+    }
+    // rp = 10k: the open code (ratio 4.7/14.7 of 4096, 1310 by hand) lies 242 codes below the cold end's.
+    const Design weak = divider("shunt-divider", "4k7", 4.7e3, 12, 0.0, 50.0);
+    const Json doc = run_json(with(weak.flags, {"--rp", "10k", "--fault-margin", "300"}));
+    CHECK(doc["faults"]["open_code"] == 1310);
+    CHECK(doc["faults"]["not_told_from_a_reading"] == Json::array({"open"}));
+    const auto text = run_rtline(with(weak.flags, {"--rp", "10k", "--fault-margin", "300"}));
+    CHECK(text.out.find("an open thermistor cannot be told from a reading") != std::string::npos);
+}
+
+TEST_CASE("over a sweep of targets a tighter target never ships a larger error") {
+    // The property the issue asks for: with the fewest entries meeting each target, a tighter target
+    // gets a table at least as large, so its shipped error is no larger.
+    const Design d = divider("divider-low", "10k", 10e3, 12, -40.0, 30.0);
+    for (const char* spacing : {"code", "error", "power-of-two"}) {
+        double previous = 1e9;
+        for (double target = 0.2; target >= 0.012; target *= 0.85) {
+            const auto r = run_rtline(
+                with(d.flags, {"--spacing", spacing, "--max-error", std::to_string(target), "--format", "json"}));
+            if (r.code == 1) break;  // no table of up to 1024 entries
+            REQUIRE(r.code == 0);
+            const double shipped = Json::parse(r.out)["shipped"]["max_error_c"].get<double>();
+            CAPTURE(spacing);
+            CAPTURE(target);
+            CHECK(shipped <= target);
+            CHECK(shipped <= previous);
+            previous = shipped;
+        }
+    }
+}
+
+TEST_CASE("a target the unit alone cannot meet exits 1 and says so") {
+    // Hand reasoning: any reading in whole counts of 0.1 degC errs by the distance of the exact
+    // temperature to the nearest count, up to 0.05 degC; the span's codes come close to that.
+    const auto r = run_rtline(
+        with(divider("divider-low", "10k", 10e3, 12, 0.0, 45.0).flags, {"--unit", "0.1", "--max-error", "0.04"}));
+    CHECK(r.code == 1);
+    CHECK(r.out.empty());
+    CHECK(r.err.rfind("rtline: the 0.1 \xC2\xB0"
+                      "C unit alone rounds by up to 0.0",
+                      0) == 0);
+}
+
+TEST_CASE("--entries and --degree with --max-error meet the target or exit 1 saying why") {
+    const Design d = divider("divider-low", "10k", 10e3, 12, -40.0, 125.0);
+    const auto table = run_rtline(with(d.flags, {"--entries", "5", "--max-error", "0.1"}));
+    CHECK(table.code == 1);
+    CHECK(table.err.find("the 5-entry table ships") != std::string::npos);
+    const auto poly = run_rtline(with(d.flags, {"--degree", "2", "--max-error", "0.5"}));
+    CHECK(poly.code == 1);
+    CHECK(poly.err.find("the degree-2 polynomial errs by") != std::string::npos);
+    const Json ok = run_json(with(d.flags, {"--entries", "200", "--max-error", "0.5"}));
+    CHECK(ok["shipped"]["max_error_c"].get<double>() <= 0.5);
 }
 
 TEST_CASE("a wide ADC's header holds its codes as uint32_t and a hot span's temperatures as int32_t") {
@@ -164,7 +303,8 @@ TEST_CASE("a wide ADC's header holds its codes as uint32_t and a hot span's temp
     for (const CReading& r : readings) {
         const long inside = std::min(std::max(r.code, lo), hi);
         const double exact = ref["t_c"][static_cast<std::size_t>(inside - lo)].get<double>();
-        CHECK(std::abs(static_cast<double>(r.counts) * 0.01 - exact) <= doc["max_error_c"].get<double>() + 0.01 + 1e-9);
+        CHECK(std::abs(static_cast<double>(r.counts) * 0.01 - exact) <=
+              doc["shipped"]["max_error_c"].get<double>() + 1e-9);
     }
     const TempPath h(".h");
     REQUIRE(run_rtline(with(wide.flags, {"--emit", "c", "-o", h.str()})).code == 0);
@@ -184,10 +324,12 @@ TEST_CASE("the header alone compiles cleanly in a file that uses none of it") {
     Design d = divider("shunt-divider", "4k7", 4.7e3, 12, 0.0, 50.0);
     REQUIRE(run_rtline(with(d.flags, {"--rp", "33k", "--degree", "3", "--emit", "c", "-o", header.str()})).code == 0);
     write_file(source.str(), "#include \"" + header.str() + "\"\ntypedef int unused_translation_unit;\n");
-    const auto built =
-        run_shell(compiler() + " -std=c99 -Wall -Wextra -Werror -pedantic -c -o " + object.str() + " " + source.str());
+    const auto built = run_shell(compile_line(false) + " -c -o " + object.str() + " " + source.str());
     INFO(built.err);
     CHECK(built.code == 0);
+    const auto built_cxx = run_shell(compile_line(true) + " -c -o " + object.str() + " " + source.str());
+    INFO(built_cxx.err);
+    CHECK(built_cxx.code == 0);
 }
 
 TEST_CASE("the reported table error is the largest over every code, as numpy.interp finds it") {
@@ -199,9 +341,9 @@ TEST_CASE("the reported table error is the largest over every code, as numpy.int
         in["table"] = doc["table"];
         const Json ref = python_ref("adc_inverse.py", in);
         CAPTURE(spacing);
-        CHECK(doc["max_error_c"].get<double>() ==
+        CHECK(doc["interpolation_error"]["max_error_c"].get<double>() ==
               doctest::Approx(ref["table_max_error_c"].get<double>()).epsilon(1e-9));
-        CHECK(doc["at_code"].get<long>() == ref["table_at_code"].get<long>());
+        CHECK(doc["interpolation_error"]["at_code"].get<long>() == ref["table_at_code"].get<long>());
     }
 }
 
@@ -214,11 +356,14 @@ TEST_CASE("the JSON document states the reading convention, ADC width, spacing a
     CHECK(doc["adc_bits"] == 10);
     CHECK(doc["spacing"] == "error");
     CHECK(doc["unit_c"].get<double>() == 0.1);
-    CHECK(doc["reading"]["convention"].get<std::string>().rfind("ratiometric: code k is the output ratio k/1024", 0) ==
-          0);
+    CHECK(doc["adc_transfer"] == "rounding");  // the default
+    CHECK(doc["reading"]["convention"].get<std::string>().find("rounding: code k is the ratio k/1024") !=
+          std::string::npos);
     CHECK(doc["reading"]["temperature_rises_with_code"] == true);  // divider-high: R_T falls, the output rises
-    CHECK(doc["table"].size() == 17);
-    CHECK(doc["entries"] == 17);
+    CHECK(doc["table"].size() == doc["entries"].get<std::size_t>());
+    CHECK(doc["searched"] == Json::array({"entries"}));  // the default size comes from the default target
+    CHECK(doc["max_error_target_source"] == "default");
+    CHECK(doc["shipped"]["max_error_c"].get<double>() <= doc["max_error_target_c"].get<double>());
     for (const Json& row : doc["table"]) {
         CHECK(row.size() == 3);
         CHECK(row["t_fixed"].get<long>() == std::lround(row["t_c"].get<double>() * 10.0));
@@ -241,17 +386,17 @@ TEST_CASE("CSV carries one row per breakpoint under snake_case headers") {
     CHECK(rows == 5);
 }
 
-TEST_CASE("--max-error finds the smallest table: one entry fewer misses it") {
+TEST_CASE("--max-error finds the smallest table: one entry fewer ships more than the target") {
     const Design d = divider("divider-low", "10k", 10e3, 12, -20.0, 60.0);
     for (const char* spacing : {"code", "error"}) {
         const Json doc = run_json(with(d.flags, {"--spacing", spacing, "--max-error", "0.05"}));
         const int entries = doc["entries"].get<int>();
         CAPTURE(spacing);
-        CHECK(doc["max_error_c"].get<double>() <= 0.05);
+        CHECK(doc["shipped"]["max_error_c"].get<double>() <= 0.05);
         const Json fewer = run_json(with(d.flags, {"--spacing", spacing, "--entries", std::to_string(entries - 1)}));
-        CHECK(fewer["max_error_c"].get<double>() > 0.05);
+        CHECK(fewer["shipped"]["max_error_c"].get<double>() > 0.05);
     }
-    const Json poly = run_json(with(d.flags, {"--entries", "9", "--fit", "minimax", "--max-error", "0.05"}));
+    const Json poly = run_json(with(d.flags, {"--fit", "minimax", "--max-error", "0.05"}));
     const int degree = poly["polynomial"]["degree"].get<int>();
     CHECK(poly["polynomial"]["max_error_c"].get<double>() <= 0.05);
     const Json lower = run_json(with(d.flags, {"--degree", std::to_string(degree - 1), "--fit", "minimax"}));
@@ -263,12 +408,12 @@ TEST_CASE("an error nothing can meet exits 1 with a message and nothing on stdou
     const auto table = run_rtline(with(d.flags, {"--max-error", "1e-9"}));
     CHECK(table.code == 1);
     CHECK(table.out.empty());
-    CHECK(table.err.rfind("rtline: no table of up to 1024 entries meets 1e-09 \xC2\xB0"
-                          "C",
+    CHECK(table.err.rfind("rtline: the 0.01 \xC2\xB0"
+                          "C unit alone rounds by up to 0.00",
                           0) == 0);
     // Over −40 to 125 °C even degree 12 misses 0.01 °C (it gives 0.11 °C, measured).
     const Design wide = divider("divider-low", "10k", 10e3, 12, -40.0, 125.0);
-    const auto poly = run_rtline(with(wide.flags, {"--entries", "9", "--fit", "minimax", "--max-error", "0.01"}));
+    const auto poly = run_rtline(with(wide.flags, {"--fit", "minimax", "--max-error", "0.01"}));
     CHECK(poly.code == 1);
     CHECK(poly.out.empty());
     CHECK(poly.err.rfind("rtline: no polynomial of degree up to 12 meets 0.01 \xC2\xB0"
@@ -307,14 +452,16 @@ TEST_CASE("bad input exits 2 with one line naming the flag and the value") {
         {{"--degree", "0"}, "--degree '0': choose a degree from 1 to 12"},
         {{"--degree", "13"}, "--degree '13': choose a degree from 1 to 12"},
         {{"--spacing", "log"},
-         "--spacing 'log': unknown spacing; choose code (evenly spaced codes) or error (equal "
-         "error per segment)"},
+         "--spacing 'log': unknown spacing; choose code (evenly spaced codes), error (equal "
+         "error per segment) or power-of-two (every 2^s codes, found by a shift)"},
+        {{"--adc-transfer", "floor"}, "--adc-transfer 'floor': choose rounding, truncating or full-scale"},
+        {{"--fault-margin", "-3"}, "--fault-margin '-3': a margin must be 0 or more (codes, or degC with C)"},
+        {{"--fault-margin", "2.5"},
+         "--fault-margin '2.5': a margin in codes must be a whole number (or give degC with C)"},
         {{"--degree", "3", "--fit", "chebyshev"}, "--fit 'chebyshev': unknown fit; choose least-squares or minimax"},
         {{"--fit", "minimax"}, "--fit 'minimax': give --degree D, or --max-error C to find the lowest degree"},
         {{"--unit", "0.5"}, "--unit '0.5': choose 0.1 or 0.01 (" + deg + " per count of the fixed-point table)"},
         {{"--max-error", "0"}, "--max-error '0': the largest error must be positive (" + deg + ")"},
-        {{"--max-error", "0.1", "--entries", "9"},
-         "--max-error '0.1': nothing left to choose; leave out --entries (and --degree) to find the smallest"},
         {{"--emit", "asm"}, "--emit 'asm': the only form is c (a C99 header)"},
         {{"--emit", "c", "--prefix", "9lives"},
          "--prefix '9lives': a C name prefix is a letter or '_' then letters, "

@@ -3,10 +3,12 @@
 // minimax_lp.py) and hand calculations.
 #include <doctest/doctest.h>
 
+#include <algorithm>
 #include <cmath>
 #include <string>
 #include <vector>
 
+#include "rtline/budget.hpp"
 #include "rtline/correction.hpp"
 #include "rtline/error.hpp"
 #include "support.hpp"
@@ -296,15 +298,24 @@ TEST_CASE("the minimax error equioscillates on degree + 2 codes") {
     }
 }
 
-TEST_CASE("the smallest table and the lowest degree meet the error while one less does not") {
+TEST_CASE("the smallest table ships within the target and one entry fewer does not") {
+    // The shipped error is the fixed-point table's over every code (to_fixed), so the count returned
+    // meets the target once rounded to the unit, and the count before it does not.
     const CodeMap map = code_map(curved());
     const double target_k = 0.05;
     for (const Spacing s : {Spacing::code, Spacing::error}) {
-        const LookupTable t = smallest_table(map, target_k, s);
-        CAPTURE(spacing_name(s));
-        CHECK(t.max_error_k <= target_k);
-        CHECK(make_table(map, t.codes.size() - 1, s).max_error_k > target_k);
+        for (const int scale : {10, 100}) {
+            if (scale == 10) continue;  // 0.1 °C alone rounds by up to 0.05 °C
+            const ShippedTable t = smallest_table(map, target_k, s, scale);
+            CAPTURE(spacing_name(s));
+            CHECK(t.fixed.max_error_k <= target_k);
+            const LookupTable fewer = make_table(map, t.table.codes.size() - 1, s);
+            CHECK(to_fixed(fewer, map, scale).max_error_k > target_k);
+        }
     }
+    const ShippedTable p2 = smallest_table(map, 0.2, Spacing::power_of_two, 100);
+    CHECK(p2.fixed.max_error_k <= 0.2);
+    CHECK(to_fixed(power_of_two_table(map, p2.table.shift + 1), map, 100).max_error_k > 0.2);
     for (const FitKind k : {FitKind::least_squares, FitKind::minimax}) {
         const Polynomial p = lowest_degree(map, 1.0, k);
         CAPTURE(fit_name(k));
@@ -315,6 +326,60 @@ TEST_CASE("the smallest table and the lowest degree meet the error while one les
 
 TEST_CASE("an error no table or polynomial can meet is reported as infeasible") {
     const CodeMap map = code_map(curved());
-    CHECK_THROWS_AS((void)smallest_table(map, 1e-9, Spacing::code), InfeasibleError);
+    CHECK_THROWS_AS((void)smallest_table(map, 1e-9, Spacing::code, 100), InfeasibleError);
     CHECK_THROWS_AS((void)lowest_degree(map, 1e-6, FitKind::minimax), InfeasibleError);
+}
+
+TEST_CASE("the rounding floor is the largest distance of an exact temperature to a whole count") {
+    // Hand reasoning: a reading in whole counts errs at least by that distance at each code, so no
+    // table beats it; for thousands of codes it comes close to half a unit.
+    const CodeMap map = code_map(curved());
+    const double floor_k = rounding_floor_k(map, 10);
+    CHECK(floor_k <= 0.05);
+    CHECK(floor_k > 0.049);
+    CHECK_THROWS_AS((void)smallest_table(map, 0.045, Spacing::error, 10), InfeasibleError);
+}
+
+TEST_CASE("the 32-bit arithmetic is proven where it fits and 64 bits are used where it does not") {
+    // int32 holds up to 2^31 - 1 (C99 §7.18.2.1): a 12-bit segment of 4094 codes and 16500 counts
+    // makes 6.8e7; a 24-bit span's single segment of millions of codes and thousands of counts does not fit.
+    const CodeMap map = code_map(curved());
+    CHECK(to_fixed(make_table(map, 2, Spacing::code), map, 100).arithmetic_bits == 32);
+    Design wide = curved();
+    wide.adc_bits = 22;
+    const CodeMap big = code_map(wide);
+    const FixedTable f = to_fixed(make_table(big, 2, Spacing::code), big, 100);
+    CHECK(f.arithmetic_bits == 64);
+    // Every code evaluated by the 64-bit reference agrees with the same formula in int32 where proven.
+    const FixedTable g = to_fixed(make_table(map, 9, Spacing::error), map, 100);
+    for (std::int64_t code = map.code_lo; code <= map.code_hi; ++code) {
+        const auto it = std::upper_bound(g.codes.begin(), g.codes.end(), code);
+        const std::size_t i = std::min(static_cast<std::size_t>(it - g.codes.begin()), g.codes.size() - 1) - 1;
+        const auto num =
+            static_cast<std::int32_t>((g.t[i + 1] - g.t[i]) * static_cast<std::int32_t>(code - g.codes[i]));
+        const auto den = static_cast<std::int32_t>(g.codes[i + 1] - g.codes[i]);
+        CHECK(g.t[i] + (num >= 0 ? num + den / 2 : num - den / 2) / den == g.interpolate(code));
+    }
+}
+
+TEST_CASE("fault bands: open and short by the circuit equations, the margin from the tolerances") {
+    // Ohm's law on each divider (circuit.hpp): divider-high v = B/(R_T + B) goes to 0 open and 1
+    // shorted; divider-low without a load to 1 open and 0 shorted. The margin is positive (the ±1 %
+    // corners move the end codes).
+    Design high;
+    high.topology = Topology::divider_high;
+    const CodeMap hm = code_map(high);
+    CHECK(open_ratio(circuit(high)) == 0.0);
+    CHECK(short_ratio(circuit(high)) == 1.0);
+    const auto margin = tolerance_margin(hm, thermistor(high), circuit(high), span(high), Tolerances{});
+    CHECK(margin.first > 1);
+    CHECK(margin.second > 1);
+    const FaultBands f = fault_bands(hm, circuit(high), margin.first, margin.second);
+    CHECK(f.classify(0) == CodeMeaning::open);
+    CHECK(f.classify(4095) == CodeMeaning::short_circuit);
+    CHECK(f.classify(hm.code_lo) == CodeMeaning::reading);
+    CHECK(f.reading_lo() == hm.code_lo - margin.first);
+    const Design low;
+    CHECK(open_ratio(circuit(low)) == 1.0);
+    CHECK(short_ratio(circuit(low)) == 0.0);
 }

@@ -8,6 +8,7 @@
 #include "common.hpp"
 #include "emit_c.hpp"
 #include "pictures.hpp"
+#include "rtline/budget.hpp"
 #include "rtline/correction.hpp"
 #include "rtline/error.hpp"
 
@@ -20,19 +21,20 @@ struct TableCommand {
     SpanOptions span;
     CircuitOptions circuit;
     std::string adc_bits = "12";   // ADC resolution, bits
-    std::string entries;           // table breakpoints (default 17 unless --max-error searches)
-    std::string spacing = "code";  // code | error
+    std::string adc_transfer;      // rounding (default) | truncating | full-scale
+    std::string entries;           // table breakpoints (default: the fewest that meet the target)
+    std::string spacing = "code";  // code | error | power-of-two
     std::string degree;            // polynomial degree; empty: no polynomial, or searched by --max-error
     std::string fit;               // least-squares (default) | minimax
     std::string max_error;         // °C
     std::string unit = "0.01";     // °C per count of the fixed-point table
+    std::string fault_margin;      // codes ("12") or °C ("2C"); default from the budget's tolerances
     std::string emit;              // "c": a C99 header instead of the report
     std::string prefix;            // C name prefix (default "ntc_")
     OutputOptions out;
     std::string svg;  // --svg FILE
 };
 
-constexpr std::size_t kDefaultEntries = 17;  // 16 segments: common practice, no formal source
 const char* const kDeg =
     "\xC2\xB0"
     "C";
@@ -53,16 +55,15 @@ int parse_scale(const std::string& text) {
 }
 
 std::string convention(const CodeMap& map) {
-    const std::string full = std::to_string(1LL << map.adc_bits);
-    return "ratiometric: code k is the output ratio k/" + full +
-           " of the ADC reference, which is the circuit's excitation; codes outside " + std::to_string(map.code_lo) +
-           ".." + std::to_string(map.code_hi) + " read as the nearer end";
+    return "ratiometric (the ADC reference is the circuit's excitation); " +
+           describe_adc_transfer(map.transfer, map.adc_bits) + "; codes outside " + std::to_string(map.code_lo) + ".." +
+           std::to_string(map.code_hi) + " read as the nearer end";
 }
 
-// The convention as two short lines for text and the C header; `deg` spells the degree sign.
+// The convention as three short lines for text and the C header; `deg` spells the degree sign.
 std::vector<std::string> reading_lines(const CodeMap& map, const std::string& deg) {
-    return {"ratiometric: code k is the output ratio k/" + std::to_string(1LL << map.adc_bits) +
-                " of the ADC reference (the circuit's excitation)",
+    return {"ratiometric: the ADC reference is the circuit's excitation",
+            describe_adc_transfer(map.transfer, map.adc_bits),
             "codes " + std::to_string(map.code_lo) + " to " + std::to_string(map.code_hi) + " of " +
                 std::to_string(map.adc_bits) + " bits span " + celsius(map.t_k.front()) + " to " +
                 celsius(map.t_k.back()) + " " + deg + "; codes outside read as the nearer end"};
@@ -93,6 +94,13 @@ Json polynomial_json(const Polynomial& p, const CodeMap& map) {
             {"at_t_c", kelvin_to_celsius(map.temperature(p.at_code))}};
 }
 
+// Where the fault margin came from, in words.
+struct Margin {
+    std::int64_t below = 0;
+    std::int64_t above = 0;
+    std::string source;
+};
+
 struct Result {
     Thermistor thermistor;
     Span span;
@@ -101,10 +109,28 @@ struct Result {
     LookupTable table;
     FixedTable fixed;
     std::optional<Polynomial> polynomial;
+    FaultBands faults;
+    Margin margin;
+    double target_k = 0.0;              // the target the table meets: --max-error, or the default
+    bool target_given = false;          // --max-error was given
     std::optional<double> max_error_k;  // the --max-error target, when given
     bool table_searched = false;        // the entry count was chosen by --max-error
     bool degree_searched = false;       // the degree was chosen by --max-error
 };
+
+Json fault_json(const Result& r) {
+    Json bands = Json::array();
+    for (const CodeBand& b : r.faults.bands) {
+        bands.push_back(
+            {{"first_code", b.first}, {"last_code", b.last}, {"meaning", std::string(meaning_name(b.meaning))}});
+    }
+    Json hidden = Json::array();
+    for (const CodeMeaning m : r.faults.hidden) hidden.push_back(std::string(meaning_name(m)));
+    return {{"margin_codes_below", r.margin.below}, {"margin_codes_above", r.margin.above},
+            {"margin_source", r.margin.source},     {"open_code", r.faults.open_code},
+            {"short_code", r.faults.short_code},    {"bands", bands},
+            {"not_told_from_a_reading", hidden}};
+}
 
 std::string json_report(const Result& r) {
     Json doc = document("table");
@@ -112,6 +138,7 @@ std::string json_report(const Result& r) {
     doc["span"] = {{"lo_c", kelvin_to_celsius(r.span.lo_k)}, {"hi_c", kelvin_to_celsius(r.span.hi_k)}};
     doc["circuit"] = circuit_json(r.circuit);
     doc["adc_bits"] = r.map.adc_bits;
+    doc["adc_transfer"] = std::string(adc_transfer_name(r.map.transfer));
     doc["reading"] = {{"convention", convention(r.map)},
                       {"code_lo", r.map.code_lo},
                       {"code_hi", r.map.code_hi},
@@ -119,16 +146,17 @@ std::string json_report(const Result& r) {
                       {"t_at_code_hi_c", kelvin_to_celsius(r.map.t_k.back())},
                       {"temperature_rises_with_code", r.map.rising()}};
     doc["spacing"] = std::string(spacing_name(r.table.spacing));
+    if (r.table.spacing == Spacing::power_of_two) doc["shift"] = r.table.shift;
     doc["unit_c"] = 1.0 / r.fixed.scale_per_c;
     doc["fixed_type"] = fixed_type(r.fixed);
+    doc["arithmetic_bits"] = r.fixed.arithmetic_bits;
     doc["interpolation"] = "linear";
-    if (r.max_error_k) {
-        doc["max_error_target_c"] = *r.max_error_k;
-        Json searched = Json::array();
-        if (r.table_searched) searched.push_back("entries");
-        if (r.degree_searched) searched.push_back("degree");
-        doc["searched"] = searched;  // what --max-error chose
-    }
+    doc["max_error_target_c"] = r.target_k;
+    doc["max_error_target_source"] = r.target_given ? "--max-error" : "default";
+    Json searched = Json::array();
+    if (r.table_searched) searched.push_back("entries");
+    if (r.degree_searched) searched.push_back("degree");
+    doc["searched"] = searched;  // what the target chose
     doc["entries"] = r.table.codes.size();
     Json rows = Json::array();
     for (std::size_t i = 0; i < r.table.codes.size(); ++i) {
@@ -136,12 +164,13 @@ std::string json_report(const Result& r) {
             {{"code", r.table.codes[i]}, {"t_c", kelvin_to_celsius(r.table.t_k[i])}, {"t_fixed", r.fixed.t[i]}});
     }
     doc["table"] = rows;
-    doc["max_error_c"] = r.table.max_error_k;
-    doc["at_code"] = r.table.at_code;
-    doc["at_t_c"] = kelvin_to_celsius(r.map.temperature(r.table.at_code));
-    doc["fixed_point"] = {{"max_error_c", r.fixed.max_error_k},
-                          {"at_code", r.fixed.at_code},
-                          {"rounding_bound_c", 1.0 / r.fixed.scale_per_c}};
+    doc["shipped"] = {{"max_error_c", r.fixed.max_error_k},
+                      {"at_code", r.fixed.at_code},
+                      {"at_t_c", kelvin_to_celsius(r.map.temperature(r.fixed.at_code))}};
+    doc["interpolation_error"] = {{"max_error_c", r.table.max_error_k},
+                                  {"at_code", r.table.at_code},
+                                  {"at_t_c", kelvin_to_celsius(r.map.temperature(r.table.at_code))}};
+    doc["faults"] = fault_json(r);
     if (r.polynomial) doc["polynomial"] = polynomial_json(*r.polynomial, r.map);
     return dump(doc);
 }
@@ -161,36 +190,77 @@ std::string at(const CodeMap& map, std::int64_t code) {
     return "at code " + std::to_string(code) + " (" + celsius(map.temperature(code)) + " " + kDeg + ")";
 }
 
+std::string spacing_words(const LookupTable& t) {
+    switch (t.spacing) {
+        case Spacing::code: return "evenly spaced codes";
+        case Spacing::error: return "spaced for equal error per segment";
+        case Spacing::power_of_two: return "every 2^" + std::to_string(t.shift) + " codes (segment found by a shift)";
+    }
+    return "";
+}
+
+std::string band_words(const CodeBand& b, const std::string& deg) {
+    switch (b.meaning) {
+        case CodeMeaning::reading: return "a temperature (the span, widened by the fault margin)";
+        case CodeMeaning::open: return "open thermistor or broken wire";
+        case CodeMeaning::short_circuit: return "shorted thermistor";
+        case CodeMeaning::out_of_range: return "no reading and no thermistor fault gives it (check the wiring)";
+    }
+    (void)deg;
+    return "";
+}
+
+std::vector<std::string> fault_lines(const Result& r, const std::string& deg) {
+    std::vector<std::string> lines;
+    lines.push_back("margin " + std::to_string(r.margin.below) + " codes below " + std::to_string(r.map.code_lo) +
+                    ", " + std::to_string(r.margin.above) + " above " + std::to_string(r.map.code_hi) + " (" +
+                    r.margin.source + ")");
+    for (const CodeBand& b : r.faults.bands) {
+        lines.push_back("codes " + std::to_string(b.first) + " to " + std::to_string(b.last) + ": " +
+                        std::string(meaning_name(b.meaning)) + ", " + band_words(b, deg));
+    }
+    lines.push_back("an open thermistor gives code " + std::to_string(r.faults.open_code) + ", a short code " +
+                    std::to_string(r.faults.short_code));
+    for (const CodeMeaning m : r.faults.hidden) {
+        lines.push_back("a" + std::string(m == CodeMeaning::open ? "n open" : " shorted") +
+                        " thermistor cannot be told from a reading with this circuit and margin");
+    }
+    return lines;
+}
+
+std::string target_words(const Result& r, const std::string& deg) {
+    return format_number(r.target_k, 4) + " " + deg +
+           (r.target_given ? " (--max-error)" : " (default: one unit or half the widest code step, the larger)");
+}
+
 std::string text_report(const Result& r) {
     const CodeMap& m = r.map;
     std::string t = "model:    " + describe_model(r.thermistor) + "\n";
     t += "circuit:  " + describe_circuit(r.circuit) + "\n";
     const std::vector<std::string> reading = reading_lines(m, kDeg);
-    t += "reading:  " + reading[0] + "\n          " + reading[1] + "\n";
-    t += "table:    " + std::to_string(r.table.codes.size()) + " entries, " +
-         (r.table.spacing == Spacing::code ? "evenly spaced codes" : "spaced for equal error per segment") +
+    t += "reading:  " + reading[0] + "\n          " + reading[1] + "\n          " + reading[2] + "\n";
+    t += "table:    " + std::to_string(r.table.codes.size()) + " entries, " + spacing_words(r.table) +
          ", linear interpolation; fixed point in " + unit_text(r.fixed) + " " + kDeg + " (" + fixed_type(r.fixed) +
-         ")\n";
-    if (r.table_searched) {
-        t += "          the fewest entries whose interpolation error is at most " + format_number(*r.max_error_k, 4) +
-             " " + kDeg + " (--max-error; rounding comes on top)\n";
-    }
+         ", " + std::to_string(r.fixed.arithmetic_bits) + "-bit arithmetic)\n";
+    t += "target:   " + target_words(r, kDeg) + "\n";
+    if (r.table_searched) t += "          the fewest entries whose shipped error meets it\n";
     t += "\n" + breakpoint_table(r).text() + "\n";
-    t += "largest interpolation error  " + format_fixed(r.table.max_error_k, 4) + " " + kDeg + " " +
-         at(m, r.table.at_code) + ", over all " + std::to_string(m.size()) + " codes of the span\n";
-    t += "in fixed point               " + format_fixed(r.fixed.max_error_k, 4) + " " + kDeg + " " +
-         at(m, r.fixed.at_code) + ", rounding included (at most " + unit_text(r.fixed) + " " + kDeg + " more)\n";
+    t += "shipped error        " + format_fixed(r.fixed.max_error_k, 4) + " " + kDeg + " " + at(m, r.fixed.at_code) +
+         ": the integer code as emitted, over all " + std::to_string(m.size()) + " codes of the span\n";
+    t += "interpolation error  " + format_fixed(r.table.max_error_k, 4) + " " + kDeg + " " + at(m, r.table.at_code) +
+         ", before rounding to " + unit_text(r.fixed) + " " + kDeg + "\n";
+    t += "\nfaults:\n";
+    for (const std::string& line : fault_lines(r, kDeg)) t += "  " + line + "\n";
     if (r.polynomial) {
         const Polynomial& p = *r.polynomial;
         t += "\npolynomial:  " + std::string(fit_name(p.fit)) + ", degree " + std::to_string(p.degree) +
-             (r.degree_searched ? " (the lowest that meets " + format_number(*r.max_error_k, 4) + " " + kDeg + ")"
-                                : "") +
+             (r.degree_searched ? " (the lowest that meets " + format_number(r.target_k, 4) + " " + kDeg + ")" : "") +
              ", T(x) = sum of c_i x^i in " + kDeg + ", " + x_definition(p) + "\n";
         const std::vector<double> c = coefficients_c(p);
         for (std::size_t i = 0; i < c.size(); ++i)
             t += "  c" + std::to_string(i) + " = " + format_number(c[i], 12) + "\n";
-        t += "largest polynomial error     " + format_fixed(p.max_error_k, 4) + " " + kDeg + " " + at(m, p.at_code) +
-             "\n";
+        t += "shipped error (double precision)  " + format_fixed(p.max_error_k, 4) + " " + kDeg + " " +
+             at(m, p.at_code) + "\n";
     }
     return t;
 }
@@ -201,32 +271,74 @@ std::string c_report(const Result& r, const std::string& prefix) {
     h.prefix = prefix.empty() ? "ntc_" : prefix;
     h.adc_bits = m.adc_bits;
     h.table = &r.fixed;
+    h.faults = &r.faults;
     if (r.polynomial) h.polynomial = &*r.polynomial;
     // The comment is ASCII: the model line's degree sign and ohm words come from describe_*.
     auto ascii = [](std::string s) {
         for (std::size_t pos; (pos = s.find("\xC2\xB0")) != std::string::npos;) s.replace(pos, 2, "deg");
         return s;
     };
+    const std::vector<std::string> reading = reading_lines(m, "degC");
     h.comment = {"ADC code to temperature, written by rtline " RTLINE_VERSION " (rtline table).",
                  "",
                  "model:   " + ascii(describe_model(r.thermistor)),
                  "circuit: " + describe_circuit(r.circuit),
-                 "reading: " + reading_lines(m, "degC")[0],
-                 "         " + reading_lines(m, "degC")[1],
+                 "reading: " + reading[0],
+                 "         " + reading[1],
+                 "         " + reading[2],
                  "table:   " + std::to_string(r.table.codes.size()) + " entries, spacing " +
-                     std::string(spacing_name(r.table.spacing)) + ", in " + unit_text(r.fixed) + " degC",
-                 "error:   interpolation " + format_fixed(r.table.max_error_k, 4) + " degC at code " +
-                     std::to_string(r.table.at_code) + "; this integer code " + format_fixed(r.fixed.max_error_k, 4) +
-                     " degC at code " + std::to_string(r.fixed.at_code)};
+                     std::string(spacing_name(r.table.spacing)) + ", in " + unit_text(r.fixed) + " degC, " +
+                     std::to_string(r.fixed.arithmetic_bits) + "-bit arithmetic",
+                 "target:  " + target_words(r, "degC"),
+                 "error:   this integer code " + format_fixed(r.fixed.max_error_k, 4) + " degC at code " +
+                     std::to_string(r.fixed.at_code) + " (interpolation alone " + format_fixed(r.table.max_error_k, 4) +
+                     " degC at code " + std::to_string(r.table.at_code) + ")"};
     if (r.polynomial) {
         h.comment.push_back("poly:    " + std::string(fit_name(r.polynomial->fit)) + ", degree " +
                             std::to_string(r.polynomial->degree) + ", error " +
                             format_fixed(r.polynomial->max_error_k, 4) + " degC at code " +
-                            std::to_string(r.polynomial->at_code));
+                            std::to_string(r.polynomial->at_code) + " (double precision)");
     }
+    const std::vector<std::string> faults = fault_lines(r, "degC");
+    for (std::size_t i = 0; i < faults.size(); ++i)
+        h.comment.push_back((i == 0 ? "faults:  " : "         ") + faults[i]);
     h.comment.insert(h.comment.end(),
                      {"", "rtline is not a protective device; verify the design with measured parts."});
     return c_header(h);
+}
+
+// --fault-margin: a whole number of codes, or a temperature beyond each span end ("2C"); by default
+// the codes the span's ends move by with the budget's default part tolerances.
+Margin fault_margin(const std::string& text, const Result& r) {
+    Margin m;
+    if (text.empty()) {
+        const Tolerances tol;
+        const auto [below, above] = tolerance_margin(r.map, r.thermistor, r.circuit, r.span, tol);
+        m = {below, above,
+             "default: where the span's ends move with R25, B and resistors at +-" + format_number(100.0 * tol.r25) +
+                 " %, plus one code"};
+        return m;
+    }
+    std::string number = text;
+    bool degrees = false;
+    for (const std::string& suffix : {std::string("\xC2\xB0") + "C", std::string("degC"), std::string("C")}) {
+        if (number.size() > suffix.size() &&
+            number.compare(number.size() - suffix.size(), suffix.size(), suffix) == 0) {
+            number.resize(number.size() - suffix.size());
+            degrees = true;
+            break;
+        }
+    }
+    const double v = parse_number(number, "--fault-margin");
+    if (!(v >= 0.0)) throw InputError("--fault-margin", text, "a margin must be 0 or more (codes, or degC with C)");
+    if (degrees) {
+        const auto [below, above] = temperature_margin(r.map, v);
+        return {below, above, format_number(v, 4) + " degC beyond the span's ends (--fault-margin)"};
+    }
+    if (v != std::floor(v) || v > 1e9)
+        throw InputError("--fault-margin", text, "a margin in codes must be a whole number (or give degC with C)");
+    const auto codes = static_cast<std::int64_t>(v);
+    return {codes, codes, "--fault-margin"};
 }
 
 // Refuses a circuit the table cannot read before asking for its resistors, naming the flag as typed.
@@ -283,35 +395,56 @@ void run_table(const TableCommand& o) {
         if (!(c > 0.0))
             throw InputError("--max-error", o.max_error,
                              "the largest error must be positive (" + std::string(kDeg) + ")");
-        if (entries && (!want_poly || degree)) {
-            throw InputError("--max-error", o.max_error,
-                             "nothing left to choose; leave out --entries (and --degree) to find the smallest");
-        }
         target_k = c;  // a temperature difference: the same in kelvin
     } else if (want_poly && !degree) {
         throw InputError("--fit", o.fit, "give --degree D, or --max-error C to find the lowest degree");
     }
+    const AdcTransfer transfer = build_adc_transfer(o.adc_transfer);
 
     refuse_unreadable(o.circuit);
-    Result r{build_model(o.model), build_span(o.span), {}, {}, {}, {}, {}, target_k};
+    Result r{build_model(o.model), build_span(o.span), {}, {}, {}, {}, {}, {}, {}, 0.0, target_k.has_value(), target_k};
     r.circuit = build_circuit(o.circuit, r.thermistor, r.span);
     try {
-        r.map = map_codes(r.thermistor, r.circuit, r.span, bits);
+        r.map = map_codes(r.thermistor, r.circuit, r.span, bits, transfer);
     } catch (const InputError& e) {
         if (e.field() != "--span") throw;
         throw InputError("--span", o.span.span, e.why());  // quoted as typed, not as kelvin turned back into °C
     }
-    r.table_searched = target_k && !entries;
+    // Without --max-error the table meets one unit or half the widest step between adjacent codes (the
+    // converter's own resolution there), the larger: our own choice, so the table adds no more than
+    // the converter already does.
+    double widest_step_k = 0.0;
+    for (std::size_t i = 0; i + 1 < r.map.size(); ++i)
+        widest_step_k = std::max(widest_step_k, std::abs(r.map.t_k[i + 1] - r.map.t_k[i]));
+    r.target_k = target_k ? *target_k : std::max(1.0 / scale, 0.5 * widest_step_k);
+    r.table_searched = !entries;
     r.degree_searched = target_k && want_poly && !degree;
+    const std::string deg(kDeg);
     if (r.table_searched) {
-        r.table = smallest_table(r.map, *target_k, spacing);
+        ShippedTable s = smallest_table(r.map, r.target_k, spacing, scale);
+        r.table = std::move(s.table);
+        r.fixed = std::move(s.fixed);
     } else {
-        r.table = make_table(r.map, entries ? static_cast<std::size_t>(*entries) : kDefaultEntries, spacing);
+        r.table = make_table(r.map, static_cast<std::size_t>(*entries), spacing);
+        r.fixed = to_fixed(r.table, r.map, scale);
+        if (target_k && r.fixed.max_error_k > *target_k) {
+            throw InfeasibleError("the " + std::to_string(r.table.codes.size()) + "-entry table ships " +
+                                  format_number(r.fixed.max_error_k, 4) + " " + deg + ", more than the " +
+                                  format_number(*target_k, 4) + " " + deg +
+                                  " target; leave out --entries to find the fewest that meet it");
+        }
     }
-    r.fixed = to_fixed(r.table, r.map, scale);
     if (want_poly) {
         r.polynomial = degree ? fit_polynomial(r.map, *degree, fit) : lowest_degree(r.map, *target_k, fit);
+        if (degree && target_k && r.polynomial->max_error_k > *target_k) {
+            throw InfeasibleError("the degree-" + std::to_string(*degree) + " polynomial errs by " +
+                                  format_number(r.polynomial->max_error_k, 4) + " " + deg + ", more than the " +
+                                  format_number(*target_k, 4) + " " + deg +
+                                  " target; leave out --degree to find the lowest that meets it");
+        }
     }
+    r.margin = fault_margin(o.fault_margin, r);
+    r.faults = fault_bands(r.map, r.circuit, r.margin.below, r.margin.above);
 
     std::string bytes;
     if (emit_c) {
@@ -325,9 +458,10 @@ void run_table(const TableCommand& o) {
     }
     std::vector<Output> outputs{{o.out.output, bytes, "-o"}};
     if (!o.svg.empty()) {
-        outputs.push_back(
-            {o.svg, svg::render(table_figure(r.thermistor, r.circuit, r.map, r.table, r.polynomial, r.max_error_k)),
-             "--svg"});
+        outputs.push_back({o.svg,
+                           svg::render(table_figure(r.thermistor, r.circuit, r.map, r.table, r.fixed, r.polynomial,
+                                                    r.target_k, r.target_given ? "--max-error" : "default")),
+                           "--svg"});
     }
     emit_all(outputs);
 }
@@ -342,15 +476,24 @@ void setup_table(CLI::App& app) {
     sub->remove_option(sub->get_option("--step"));  // every ADC code of the span is evaluated instead
     add_circuit_options(*sub, opt->circuit);
     sub->add_option("--adc-bits", opt->adc_bits, "ADC resolution N, 1 to 24 bits (default 12)")->group("Reading");
-    sub->add_option("--entries", opt->entries, "Table breakpoints, at least 2 (default 17)")->group("Table");
-    sub->add_option("--spacing", opt->spacing, "code (evenly spaced codes, default) or error (equal error per segment)")
+    add_adc_transfer_option(*sub, opt->adc_transfer, "Reading");
+    sub->add_option("--fault-margin", opt->fault_margin,
+                    "Codes beyond the span that still read as a temperature: N codes, or XC degC (default from "
+                    "+-1 % part tolerances)")
+        ->group("Reading");
+    sub->add_option("--entries", opt->entries, "Table breakpoints, at least 2 (default: the fewest meeting the target)")
+        ->group("Table");
+    sub->add_option("--spacing", opt->spacing,
+                    "code (evenly spaced codes, default), error (equal error per segment) or power-of-two (every "
+                    "2^s codes, found by a shift)")
         ->group("Table");
     sub->add_option("--unit", opt->unit, "Fixed-point step of the table's temperatures: 0.1 or 0.01 degC (default)")
         ->group("Table");
     sub->add_option("--degree", opt->degree, "Also fit a polynomial T(x) of this degree, 1 to 12")->group("Polynomial");
     sub->add_option("--fit", opt->fit, "Polynomial fit: least-squares (default) or minimax")->group("Polynomial");
     sub->add_option("--max-error", opt->max_error,
-                    "Largest error in degC: find the smallest table (and lowest degree with --fit)")
+                    "Largest shipped error in degC: find the smallest table (and lowest degree with --fit); default "
+                    "one unit or half the widest code step")
         ->group("Table");
     add_output_options(*sub, opt->out);
     sub->add_option("--emit", opt->emit, "c: write a C99 header (table and interpolation function) instead")
@@ -362,9 +505,10 @@ void setup_table(CLI::App& app) {
                             "--adc-bits 12 --entries 17\n"
                             "  rtline table --r25 10k --beta 3950 --span -20:60 --circuit divider-high --rs 10k "
                             "--max-error 0.1 --spacing error --emit c --prefix pack_ -o pack_temp.h\n"
-                            "Code k is the output ratio k/2^N of the ADC reference (ratiometric: the reference is "
-                            "the divider's excitation).\nThe errors are measured over every code of the span "
-                            "against the exact inverse (ratio -> R_T -> T by the model).\n\n") +
+                            "The ADC reference is the divider's excitation (ratiometric); --adc-transfer says which "
+                            "ratio a code stands for.\nThe shipped error is the emitted integer code's, measured "
+                            "over every code of the span against the exact inverse (ratio -> R_T -> T by the "
+                            "model).\n\n") +
                 kSafetyNote);
     sub->callback([opt] { run_table(*opt); });
 }

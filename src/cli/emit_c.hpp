@@ -1,6 +1,8 @@
-// The C writer: a lookup table (and optionally a polynomial) as a self-contained C99 header for
-// firmware, with `static const` arrays and small `static inline` functions. Names are plain words
-// behind a prefix the user chooses. Compiles with gcc -std=c99 -Wall -Wextra -Werror -pedantic.
+// The C writer: a lookup table, a sensor-fault classification (and optionally a polynomial) as a
+// self-contained header for firmware, with `static const` arrays and small `static inline` functions.
+// Names are plain words behind a prefix the user chooses. Clean as C99 and as C++11 under -Wall
+// -Wextra -Werror -pedantic -Wconversion -Wsign-conversion -Wshadow (and -Wold-style-cast in C++: the
+// casts go through a macro that is static_cast in C++), in any number of translation units.
 #pragma once
 
 #include <string>
@@ -15,6 +17,7 @@ struct CHeader {
     std::vector<std::string> comment;  // lines for the header's opening comment (ASCII)
     int adc_bits = 12;
     const FixedTable* table = nullptr;       // required
+    const FaultBands* faults = nullptr;      // required: <prefix>sensor_state()
     const Polynomial* polynomial = nullptr;  // optional: also emit <prefix>poly_temperature()
 };
 

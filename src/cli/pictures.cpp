@@ -249,7 +249,8 @@ double code_at(const CodeMap& map, double t_k) {
 }  // namespace
 
 svg::Figure table_figure(const Thermistor& model, const Circuit& circuit, const CodeMap& map, const LookupTable& table,
-                         const std::optional<Polynomial>& polynomial, const std::optional<double>& target_k) {
+                         const FixedTable& fixed, const std::optional<Polynomial>& polynomial, double target_k,
+                         const std::string& target_source) {
     std::vector<double> codes;
     for (std::size_t i = 0; i < map.size(); ++i)
         codes.push_back(static_cast<double>(map.code_lo) + static_cast<double>(i));
@@ -258,10 +259,9 @@ svg::Figure table_figure(const Thermistor& model, const Circuit& circuit, const 
     };
 
     svg::Figure f;
-    f.title = "rtline table: the error at every ADC code of the span";
+    f.title = "rtline table: the shipped error at every ADC code of the span";
     f.notes = {describe_model(model), "circuit: " + describe_circuit(circuit),
-               "code k stands for the ratio k/" + std::to_string(1LL << map.adc_bits) +
-                   " of the ADC reference; error = value read " + kMinus + " exact inverse"};
+               describe_adc_transfer(map.transfer, map.adc_bits) + "; error = value read " + kMinus + " exact inverse"};
     f.description = provenance("table") + " The error at each of " + std::to_string(map.size()) + " codes.";
 
     svg::Plot plot;
@@ -270,11 +270,16 @@ svg::Figure table_figure(const Thermistor& model, const Circuit& circuit, const 
               codes.front(), codes.back()};
     plot.y = {"error (" + kDeg + ")", svg::Scale::linear, svg::Ticks::number};
     plot.zero_line = true;
-    std::vector<double> table_c(table.error_k.begin(), table.error_k.end());  // a difference: K = °C
-    plot.lines.push_back({"table, " + std::to_string(table.codes.size()) + " entries, " +
-                              (table.spacing == Spacing::code ? "evenly spaced codes" : "equal error per segment") +
-                              ", linear interpolation",
-                          codes, table_c, kBlue, 1.6, false});
+    const std::string unit = fixed.scale_per_c == 100 ? "0.01" : "0.1";
+    std::vector<double> shipped_c(fixed.error_k.begin(), fixed.error_k.end());  // a difference: K = °C
+    plot.lines.push_back({"shipped: the integer code in " + unit + " " + kDeg + ", " +
+                              std::to_string(table.codes.size()) + " entries, largest " +
+                              format_fixed(fixed.max_error_k, 4) + " " + kDeg,
+                          codes, shipped_c, kBlue, 1.2, false});
+    std::vector<double> table_c(table.error_k.begin(), table.error_k.end());
+    plot.lines.push_back({"interpolation alone (" + std::string(spacing_name(table.spacing)) + " spacing), largest " +
+                              format_fixed(table.max_error_k, 4) + " " + kDeg,
+                          codes, table_c, kGrey, 1.2, true});
     if (polynomial) {
         std::vector<double> poly_c(polynomial->error_k.begin(), polynomial->error_k.end());
         plot.lines.push_back({"polynomial, " + std::string(fit_name(polynomial->fit)) + " degree " +
@@ -282,9 +287,9 @@ svg::Figure table_figure(const Thermistor& model, const Circuit& circuit, const 
                                   format_fixed(polynomial->max_error_k, 4) + " " + kDeg,
                               codes, poly_c, kOrange, 1.6, false});
     }
-    if (target_k) {
-        const double t = *target_k;
-        plot.lines.push_back({"target \xC2\xB1" + format_number(t, 4) + " " + kDeg + " (--max-error)",
+    {
+        const double t = target_k;
+        plot.lines.push_back({"target \xC2\xB1" + format_number(t, 4) + " " + kDeg + " (" + target_source + ")",
                               {codes.front(), codes.back(), codes.back(), codes.front(), codes.back()},
                               {t, t, NAN, -t, -t},
                               kRed,
@@ -295,16 +300,16 @@ svg::Figure table_figure(const Thermistor& model, const Circuit& circuit, const 
     breaks.label = "breakpoints";
     for (const std::int64_t c : table.codes) {
         breaks.x.push_back(static_cast<double>(c));
-        breaks.y.push_back(table.error_k[static_cast<std::size_t>(c - map.code_lo)]);
+        breaks.y.push_back(fixed.error_k[static_cast<std::size_t>(std::min(c, map.code_hi) - map.code_lo)]);
     }
     breaks.colour = kBlue;
     breaks.filled = false;
     breaks.size_px = 3.5;
     svg::Markers worst;
-    worst.label = "largest table error, " + format_fixed(table.max_error_k, 4) + " " + kDeg + " at code " +
-                  std::to_string(table.at_code) + " (" + celsius_at(table.at_code) + ")";
-    worst.x = {static_cast<double>(table.at_code)};
-    worst.y = {table.error_k[static_cast<std::size_t>(table.at_code - map.code_lo)]};
+    worst.label = "largest shipped error, " + format_fixed(fixed.max_error_k, 4) + " " + kDeg + " at code " +
+                  std::to_string(fixed.at_code) + " (" + celsius_at(fixed.at_code) + ")";
+    worst.x = {static_cast<double>(fixed.at_code)};
+    worst.y = {fixed.error_k[static_cast<std::size_t>(fixed.at_code - map.code_lo)]};
     worst.colour = kRed;
     plot.markers = {breaks, worst};
 

@@ -48,12 +48,14 @@ struct SizePicture {
                                                     const std::vector<Candidate>& listed);
 [[nodiscard]] svg::Figure size_figure(const SizePicture& p);
 
-// table: the interpolation error (°C) against ADC code with the breakpoints marked, the polynomial's
-// error too when there is one, and the temperature along the top.
-// `target_k`: the --max-error bound, drawn at ± its value.
+// table: the shipped error (°C, the integer code as emitted) against ADC code with the breakpoints
+// marked, the interpolation error before rounding, the polynomial's error too when there is one, and
+// the temperature along the top. `target_k`: the bound the table meets, drawn at ± its value;
+// `target_source` ("--max-error" or "default") labels it.
 [[nodiscard]] svg::Figure table_figure(const Thermistor& model, const Circuit& circuit, const CodeMap& map,
-                                       const LookupTable& table, const std::optional<Polynomial>& polynomial,
-                                       const std::optional<double>& target_k);
+                                       const LookupTable& table, const FixedTable& fixed,
+                                       const std::optional<Polynomial>& polynomial, double target_k,
+                                       const std::string& target_source);
 
 // budget: the error band against temperature: ± the worst case, ± the Monte Carlo 99.7 % and 95 %
 // bounds of |error| (when trials were run), the Monte Carlo mean and the nominal error.

@@ -7,13 +7,14 @@ Written from the published equations, independently of rtline's C++:
       divider-high:  v = B / (R_T + B),  B = rs || load
       divider-low:   v = P / (rs + P),   P = R_T || load
       shunt-divider: v = B / (Q + B),    Q = R_T || rp;
-  - a ratiometric N-bit ADC: code k stands for the ratio k / 2^N.
+  - a ratiometric N-bit ADC whose code k stands for a ratio by its transfer (common practice, no
+    formal source): rounding k / 2^N, truncating (k + 1/2) / 2^N, full-scale k / (2^N - 1).
 The ratio is inverted numerically (scipy.optimize.brentq on ln R_T), not by rtline's closed form.
 
 stdin:  {"r25_ohm", "b_k", "t0_c", "topology", "rs_ohm", "rp_ohm"?, "load_ohm"?, "adc_bits", "lo_c",
-         "hi_c", "table"?: [{"code", "t_c"}]}
+         "hi_c", "transfer"?, "table"?: [{"code", "t_c"}]}
 stdout: {"code_lo", "code_hi", "t_c": [T at code_lo .. code_hi, degC],
-         "table_max_error_c"?, "table_at_code"?}  (table error: numpy.interp between the breakpoints)
+         "open_code", "short_code", "table_max_error_c"?, "table_at_code"?}  (table error: numpy.interp between the breakpoints)
 """
 import json
 import math
@@ -55,18 +56,29 @@ def main():
         return 1.0 / (1.0 / t0 + math.log(r / r0) / b)
 
     lo_k, hi_k = d["lo_c"] + 273.15, d["hi_c"] + 273.15
-    full = 2 ** d["adc_bits"]
+    transfer = d.get("transfer", "rounding")
+    n = 2 ** d["adc_bits"]
+    steps = n - 1 if transfer == "full-scale" else n
+    offset = 0.5 if transfer == "truncating" else 0.0
     v_lo, v_hi = ratio(resistance(lo_k)), ratio(resistance(hi_k))
-    code_lo = math.ceil(min(v_lo, v_hi) * full - 1e-9)
-    code_hi = math.floor(max(v_lo, v_hi) * full + 1e-9)
+    # The rail codes 0 and 2^N - 1 are never readings.
+    code_lo = max(1, math.ceil(min(v_lo, v_hi) * steps - offset - 1e-9))
+    code_hi = min(n - 2, math.floor(max(v_lo, v_hi) * steps - offset + 1e-9))
     ln_a, ln_b = math.log(resistance(hi_k)) - 1.0, math.log(resistance(lo_k)) + 1.0
     temps = []
     for k in range(code_lo, code_hi + 1):
-        v = k / full
+        v = (k + offset) / steps
         ln_r = brentq(lambda x: ratio(math.exp(x)) - v, ln_a, ln_b, xtol=1e-15, rtol=1e-15, maxiter=500)
         t = min(max(temperature(math.exp(ln_r)), lo_k), hi_k)
         temps.append(t - 273.15)
-    out = {"code_lo": code_lo, "code_hi": code_hi, "t_c": temps}
+    def quantize(v):
+        x = v * steps
+        k = math.floor(x) if transfer == "truncating" else math.floor(x + 0.5)
+        return min(max(k, 0), n - 1)
+
+    # A broken sensor through the same circuit equations: R_T -> infinity (open), R_T -> 0 (short).
+    out = {"code_lo": code_lo, "code_hi": code_hi, "t_c": temps,
+           "open_code": quantize(ratio(1e18)), "short_code": quantize(ratio(1e-12))}
     if "table" in d:
         codes = np.array([e["code"] for e in d["table"]], dtype=float)
         t_tab = np.array([e["t_c"] for e in d["table"]])

@@ -67,14 +67,13 @@ double resistance_at_ratio(const Circuit& c, double v) {
     return std::nan("");
 }
 
-double code_ratio(std::int64_t code, int adc_bits) { return std::ldexp(static_cast<double>(code), -adc_bits); }
-
 double CodeMap::temperature(std::int64_t code) const {
     const std::int64_t k = std::clamp(code, code_lo, code_hi);
     return t_k[static_cast<std::size_t>(k - code_lo)];
 }
 
-CodeMap map_codes(const Thermistor& model, const Circuit& circuit, const Span& span, int adc_bits) {
+CodeMap map_codes(const Thermistor& model, const Circuit& circuit, const Span& span, int adc_bits,
+                  AdcTransfer transfer) {
     if (adc_bits < 1 || adc_bits > kMaxAdcBits) {
         throw InputError("--adc-bits", std::to_string(adc_bits),
                          "an ADC has 1 to " + std::to_string(kMaxAdcBits) + " bits");
@@ -83,24 +82,28 @@ CodeMap map_codes(const Thermistor& model, const Circuit& circuit, const Span& s
     model.check_span(span, "--span");
     const double v_a = output(circuit, model.resistance(span.lo_k));
     const double v_b = output(circuit, model.resistance(span.hi_k));
-    const double full = std::ldexp(1.0, adc_bits);
+    // Code k stands for (k + offset)/steps: offset ½ for truncating, else 0 (converter.hpp).
+    const double steps = adc_steps(adc_bits, transfer);
+    const double offset = transfer == AdcTransfer::truncating ? 0.5 : 0.0;
+    const double top = std::ldexp(1.0, adc_bits) - 1.0;
     // A code exactly at a span end (to rounding) counts as inside.
-    auto lo = static_cast<std::int64_t>(std::ceil(std::min(v_a, v_b) * full - 1e-9));
-    auto hi = static_cast<std::int64_t>(std::floor(std::max(v_a, v_b) * full + 1e-9));
+    auto lo = static_cast<std::int64_t>(std::ceil(std::min(v_a, v_b) * steps - offset - 1e-9));
+    auto hi = static_cast<std::int64_t>(std::floor(std::max(v_a, v_b) * steps - offset + 1e-9));
     lo = std::max<std::int64_t>(lo, 1);
-    hi = std::min<std::int64_t>(hi, static_cast<std::int64_t>(full) - 1);
+    hi = std::min<std::int64_t>(hi, static_cast<std::int64_t>(top) - 1);
     if (hi - lo + 1 < 2) {
         throw InputError("--adc-bits", std::to_string(adc_bits),
-                         "the span's output swing (" + format_number(std::abs(v_b - v_a) * full, 3) +
+                         "the span's output swing (" + format_number(std::abs(v_b - v_a) * steps, 3) +
                              " LSB) covers fewer than two codes; use more bits or a circuit with more swing");
     }
     CodeMap map;
     map.adc_bits = adc_bits;
+    map.transfer = transfer;
     map.code_lo = lo;
     map.code_hi = hi;
     map.t_k.reserve(static_cast<std::size_t>(hi - lo + 1));
     for (std::int64_t k = lo; k <= hi; ++k) {
-        const double t = model.temperature(resistance_at_ratio(circuit, code_ratio(k, adc_bits)));
+        const double t = model.temperature(resistance_at_ratio(circuit, code_ratio(k, adc_bits, transfer)));
         map.t_k.push_back(std::clamp(t, span.lo_k, span.hi_k));
     }
     return map;
@@ -108,16 +111,26 @@ CodeMap map_codes(const Thermistor& model, const Circuit& circuit, const Span& s
 
 // ------------------------------------------------------------------------------------ tables
 
-std::string_view spacing_name(Spacing s) { return s == Spacing::code ? "code" : "error"; }
+std::string_view spacing_name(Spacing s) {
+    switch (s) {
+        case Spacing::code: return "code";
+        case Spacing::error: return "error";
+        case Spacing::power_of_two: return "power-of-two";
+    }
+    return "code";
+}
 
 Spacing parse_spacing(std::string_view text, std::string_view field) {
-    if (text == "code") return Spacing::code;
-    if (text == "error") return Spacing::error;
+    for (const Spacing s : {Spacing::code, Spacing::error, Spacing::power_of_two}) {
+        if (text == spacing_name(s)) return s;
+    }
     throw InputError(std::string(field), std::string(text),
-                     "unknown spacing; choose code (evenly spaced codes) or error (equal error per segment)");
+                     "unknown spacing; choose code (evenly spaced codes), error (equal error per segment) or "
+                     "power-of-two (every 2^s codes, found by a shift)");
 }
 
 double LookupTable::interpolate(std::int64_t code) const {
+    code = std::clamp(code, code_lo, code_hi);
     if (code <= codes.front()) return t_k.front();
     if (code >= codes.back()) return t_k.back();
     const auto it = std::upper_bound(codes.begin(), codes.end(), code);
@@ -268,6 +281,46 @@ void measure(const CodeMap& map, F approx, std::vector<double>* error_k, double&
 
 }  // namespace
 
+namespace {
+
+void finish(LookupTable& t, const CodeMap& map) {
+    measure(
+        map, [&t](std::int64_t c) { return t.interpolate(c); }, &t.error_k, t.max_error_k, t.at_code);
+}
+
+// Breakpoints needed for 2^shift-code segments from code_lo through code_hi.
+std::size_t power_of_two_entries(const CodeMap& map, int shift) {
+    const std::int64_t width = map.code_hi - map.code_lo;
+    const std::int64_t step = std::int64_t{1} << shift;
+    return static_cast<std::size_t>((width + step - 1) / step) + 1;
+}
+
+}  // namespace
+
+LookupTable power_of_two_table(const CodeMap& map, int shift) {
+    LookupTable t;
+    t.spacing = Spacing::power_of_two;
+    t.shift = shift;
+    t.code_lo = map.code_lo;
+    t.code_hi = map.code_hi;
+    const std::int64_t step = std::int64_t{1} << shift;
+    const std::size_t n = power_of_two_entries(map, shift);
+    for (std::size_t i = 0; i < n; ++i) {
+        const std::int64_t c = map.code_lo + static_cast<std::int64_t>(i) * step;
+        t.codes.push_back(c);
+        t.t_k.push_back(map.temperature(c));
+    }
+    // The last breakpoint lies at or past code_hi: give it the chord through the exact temperature at
+    // code_hi, so the last segment interpolates like any other up to the span's end.
+    if (n >= 2 && t.codes.back() > map.code_hi) {
+        const double t_prev = t.t_k[n - 2];
+        const double f = static_cast<double>(step) / static_cast<double>(map.code_hi - t.codes[n - 2]);
+        t.t_k.back() = t_prev + (map.t_k.back() - t_prev) * f;
+    }
+    finish(t, map);
+    return t;
+}
+
 LookupTable make_table(const CodeMap& map, std::size_t entries, Spacing spacing) {
     const std::size_t limit = std::min(map.size(), kMaxTableEntries);
     if (entries < 2 || entries > limit) {
@@ -277,87 +330,19 @@ LookupTable make_table(const CodeMap& map, std::size_t entries, Spacing spacing)
                                                   : std::string("a sane limit")) +
                              ")");
     }
+    if (spacing == Spacing::power_of_two) {
+        int shift = 0;
+        while (shift < 30 && power_of_two_entries(map, shift) > entries) ++shift;
+        return power_of_two_table(map, shift);
+    }
     LookupTable t;
     t.spacing = spacing;
+    t.code_lo = map.code_lo;
+    t.code_hi = map.code_hi;
     t.codes = spacing == Spacing::code ? even_codes(map, entries) : equal_error_codes(map, entries);
     for (const std::int64_t c : t.codes) t.t_k.push_back(map.temperature(c));
-    measure(
-        map, [&t](std::int64_t c) { return t.interpolate(c); }, &t.error_k, t.max_error_k, t.at_code);
+    finish(t, map);
     return t;
-}
-
-LookupTable smallest_table(const CodeMap& map, double max_error_k, Spacing spacing) {
-    const std::size_t limit = std::min(map.size(), kMaxSearchEntries);
-    LookupTable best = make_table(map, limit, spacing);
-    if (best.max_error_k > max_error_k) {
-        throw InfeasibleError("no table of up to " + std::to_string(limit) + " entries meets " +
-                              format_number(max_error_k, 4) +
-                              " \xC2\xB0"
-                              "C (" +
-                              std::to_string(limit) + " entries give " + format_number(best.max_error_k, 4) +
-                              " \xC2\xB0"
-                              "C); give --entries to build a larger table");
-    }
-    std::size_t fails = 1;  // a one-entry table never meets it
-    std::size_t meets = limit;
-    // Doubling from 2 finds a bracket quickly; small answers are the common case.
-    for (std::size_t m = 2; m < limit; m *= 2) {
-        LookupTable t = make_table(map, m, spacing);
-        if (t.max_error_k <= max_error_k) {
-            meets = m;
-            best = std::move(t);
-            break;
-        }
-        fails = m;
-    }
-    while (meets - fails > 1) {
-        const std::size_t mid = fails + (meets - fails) / 2;
-        LookupTable t = make_table(map, mid, spacing);
-        if (t.max_error_k <= max_error_k) {
-            meets = mid;
-            best = std::move(t);
-        } else {
-            fails = mid;
-        }
-    }
-    return best;
-}
-
-// ------------------------------------------------------------------------------- fixed point
-
-std::int32_t FixedTable::interpolate(std::int64_t code) const {
-    if (code <= codes.front()) return t.front();
-    if (code >= codes.back()) return t.back();
-    const auto it = std::upper_bound(codes.begin(), codes.end(), code);
-    const auto i = static_cast<std::size_t>(it - codes.begin()) - 1;
-    const std::int64_t num = static_cast<std::int64_t>(t[i + 1] - t[i]) * (code - codes[i]);
-    const std::int64_t den = codes[i + 1] - codes[i];
-    // Integer division truncates toward zero (C99 and C++11 alike); adding half the divisor with the
-    // numerator's sign first rounds halves away from zero.
-    const std::int64_t q = (num >= 0 ? num + den / 2 : num - den / 2) / den;
-    return t[i] + static_cast<std::int32_t>(q);
-}
-
-FixedTable to_fixed(const LookupTable& table, const CodeMap& map, int scale_per_c) {
-    if (scale_per_c != 10 && scale_per_c != 100) {
-        throw InputError("--unit", format_number(1.0 / scale_per_c),
-                         "choose 0.1 or 0.01 (\xC2\xB0"
-                         "C)");
-    }
-    FixedTable f;
-    f.scale_per_c = scale_per_c;
-    f.codes = table.codes;
-    f.bits = 16;
-    for (const double t_k : table.t_k) {
-        const long long counts = std::llround(kelvin_to_celsius(t_k) * scale_per_c);
-        if (counts < -32768 || counts > 32767) f.bits = 32;
-        f.t.push_back(static_cast<std::int32_t>(counts));
-    }
-    const double per_count = 1.0 / scale_per_c;
-    measure(
-        map, [&f, per_count](std::int64_t c) { return celsius_to_kelvin(f.interpolate(c) * per_count); }, nullptr,
-        f.max_error_k, f.at_code);
-    return f;
 }
 
 }  // namespace rtline
