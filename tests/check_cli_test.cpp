@@ -133,11 +133,13 @@ TEST_CASE("check --format csv has a header row and one row per point") {
     const auto rows = lines_of(r.out);
     REQUIRE(rows.size() == 1 + 10);  // −10, −5, …, 35 °C
     const std::vector<std::string> header = fields(rows[0]);
-    for (const char* k :
-         {"t_c", "r_t_ohm", "output", "ideal", "deviation", "nonlinearity_pct_fsd", "error_c", "power_w"}) {
+    for (const char* k : {"t_c", "r_t_ohm", "output", "ideal", "deviation", "nonlinearity_pct_fsd", "error_c"}) {
         CAPTURE(k);
         CHECK(std::find(header.begin(), header.end(), k) != header.end());
     }
+    // Ratiometric: no drive, so no power or self-heating figures.
+    CHECK(std::find(header.begin(), header.end(), "power_w") == header.end());
+    CHECK(std::find(header.begin(), header.end(), "self_heating_k") == header.end());
     for (std::size_t i = 1; i < rows.size(); ++i) CHECK(fields(rows[i]).size() == header.size());
     CHECK(std::stod(fields(rows[1])[0]) == -10.0);
     CHECK(std::stod(fields(rows.back())[0]) == 35.0);

@@ -17,6 +17,8 @@ namespace rtline::cli {
 
 // The caution every design command's help carries (see README).
 extern const char* const kSafetyNote;
+// Why a power or self-heating flag is refused without --excitation or --current.
+extern const char* const kNeedsDrive;
 
 struct ModelOptions {
     std::string r25;        // resistance at T0, e.g. "10k"
