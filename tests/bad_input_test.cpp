@@ -133,6 +133,24 @@ TEST_CASE("a mistyped resistance, B-value, temperature or step is refused by its
     });
 }
 
+TEST_CASE("a grid too coarse to judge linearity is refused with the largest step that would do") {
+    // At least 5 points (the ends, the middle and one in each half; common practice): 0 to 50 °C at
+    // 100 K leaves 0 and 50 (2 points); 50 K / 4 intervals = 12.5 K is the largest step (by hand).
+    const std::string why = "judging linearity takes at least 5 (the ends, the middle and one in each half)";
+    check_refused({
+        {"a step wider than the span", with(kSize, {"--step", "100"}),
+         "--step '100': leaves 2 points over the span (50 K wide); " + why + ": use a step of at most 12.5 K"},
+        {"a step leaving 4 points", with(kCheck, {"divider-low", "--rs", "10k", "--step", "16.7"}),
+         "--step '16.7': leaves 4 points over the span (50 K wide); " + why + ": use a step of at most 12.5 K"},
+        // 0 to 2 °C at the default 1 K: 0, 1, 2 (3 points); the span is to blame, not a step never typed.
+        {"a span too narrow for the default step",
+         {"check", "--r25", "10k", "--beta", "3950", "--span", "0:2", "--circuit", "divider-low", "--rs", "10k"},
+         "--span '0:2': leaves 3 points over the span (2 K wide); " + why + ": use a step of at most 0.5 K"},
+    });
+    // 12.5 K gives 0, 12.5, 25, 37.5, 50: exactly enough.
+    CHECK(run_rtline(with(kSize, {"--step", "12.5"})).code == 0);
+}
+
 TEST_CASE("an unknown name, count or ADC width is refused by its flag and its text") {
     check_refused({
         {"an unknown circuit", with(kCheck, {"divider"}),

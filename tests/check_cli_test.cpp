@@ -88,7 +88,7 @@ TEST_CASE("check --format json carries exactly the keys issue 3 lists") {
 }
 
 TEST_CASE("the JSON resistor keys are the flag names of the circuit's own resistors") {
-    const Args base{"--span", "0:40", "--step", "20", "--format", "json"};
+    const Args base{"--span", "0:40", "--step", "10", "--format", "json"};
     auto resistors = [&](const Args& circuit) {
         Args a = base;
         a.insert(a.end(), circuit.begin(), circuit.end());
@@ -146,7 +146,7 @@ TEST_CASE("check --format csv has a header row and one row per point") {
 }
 
 TEST_CASE("check's text table carries units in its headers and is aligned") {
-    const auto r = run_rtline(check({"--span", "0:30", "--step", "10", "--circuit", "divider-low", "--rs", "10k"}));
+    const auto r = run_rtline(check({"--span", "0:40", "--step", "10", "--circuit", "divider-low", "--rs", "10k"}));
     REQUIRE(r.code == 0);
     for (const char* h : {"T (\xC2\xB0"
                           "C)",
@@ -166,7 +166,7 @@ TEST_CASE("check's text table carries units in its headers and is aligned") {
     REQUIRE(head != ls.end());
     int rows = 0;
     for (auto it = head; it != ls.end() && !it->empty(); ++it, ++rows) CHECK(width(*it) == width(*head));
-    CHECK(rows == 1 + 4);
+    CHECK(rows == 1 + 5);  // the header and 0, 10, 20, 30, 40 °C
 }
 
 TEST_CASE("a bridge reads zero at --null-at, and by default at the span's low end") {
@@ -210,9 +210,9 @@ std::string table_csv() {
 TEST_CASE("a bridge on a table model may null at the table's last temperature") {
     const rtline::test::TempPath table(".csv");
     rtline::test::write_file(table.str(), table_csv());
-    const json d = run_json({"check", "--points", table.str(), "--model", "table", "--span", "0:60", "--step", "20",
+    const json d = run_json({"check", "--points", table.str(), "--model", "table", "--span", "0:60", "--step", "15",
                              "--circuit", "bridge", "--r1", "10k", "--null-at", "60", "--format", "json"});
-    CHECK(std::abs(d["points"][3]["output"].get<double>()) < 1e-15);
+    CHECK(std::abs(d["points"][4]["output"].get<double>()) < 1e-15);
 }
 
 TEST_CASE("bad input to check is one line on stderr naming the flag and the value, exit 2, nothing on stdout") {

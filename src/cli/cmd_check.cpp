@@ -57,7 +57,7 @@ void run_check(const CheckCommand& o) {
             throw InputError("--dissipation", o.dissipation, "the dissipation constant must be positive (mW/K)");
         }
     }
-    const Grid grid = build_grid(thermistor, span, o.span);
+    const Grid grid = build_grid(thermistor, span, o.span, true);
     const Circuit circuit = build_circuit(o.circuit, thermistor, span);
     const Analysis a = analyze(grid, thermistor, circuit, line, dissipation_w_per_k);
     const std::string unit = output_unit(circuit);

@@ -45,7 +45,7 @@ struct Setup {
 Setup build_setup(const SizeCommand& o) {
     Thermistor model = build_model(o.model);
     const Span span = build_span(o.span);
-    Grid grid = build_grid(model, span, o.span);
+    Grid grid = build_grid(model, span, o.span, true);
     SizingSpec spec;
     spec.line = parse_line(o.line, "--line");
     spec.series = parse_series(o.series, "--series");

@@ -191,10 +191,12 @@ std::pair<std::string, std::string> grid_size_culprit(const SpanOptions& o) {
     return {"--step", o.step};
 }
 
-Grid build_grid(const Thermistor& model, const Span& span, const SpanOptions& o) {
+Grid build_grid(const Thermistor& model, const Span& span, const SpanOptions& o, bool judge_linearity) {
     const double step = build_step(o);
     try {
-        return make_grid(model, span, step);
+        Grid g = make_grid(model, span, step);
+        if (judge_linearity) check_linearity_points(span, step);
+        return g;
     } catch (const InputError& e) {
         if (e.field() == "--span") throw InputError("--span", o.span, e.why());
         if (e.field() == "--step") {
