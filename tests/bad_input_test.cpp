@@ -133,6 +133,24 @@ TEST_CASE("a mistyped resistance, B-value, temperature or step is refused by its
     });
 }
 
+TEST_CASE("a grid too coarse to judge linearity is refused with the largest step that would do") {
+    // At least 5 points (the ends, the middle and one in each half; common practice): 0 to 50 °C at
+    // 100 K leaves 0 and 50 (2 points); 50 K / 4 intervals = 12.5 K is the largest step (by hand).
+    const std::string why = "judging linearity takes at least 5 (the ends, the middle and one in each half)";
+    check_refused({
+        {"a step wider than the span", with(kSize, {"--step", "100"}),
+         "--step '100': leaves 2 points over the span (50 K wide); " + why + ": use a step of at most 12.5 K"},
+        {"a step leaving 4 points", with(kCheck, {"divider-low", "--rs", "10k", "--step", "16.7"}),
+         "--step '16.7': leaves 4 points over the span (50 K wide); " + why + ": use a step of at most 12.5 K"},
+        // 0 to 2 °C at the default 1 K: 0, 1, 2 (3 points); the span is to blame, not a step never typed.
+        {"a span too narrow for the default step",
+         {"check", "--r25", "10k", "--beta", "3950", "--span", "0:2", "--circuit", "divider-low", "--rs", "10k"},
+         "--span '0:2': leaves 3 points over the span (2 K wide); " + why + ": use a step of at most 0.5 K"},
+    });
+    // 12.5 K gives 0, 12.5, 25, 37.5, 50: exactly enough.
+    CHECK(run_rtline(with(kSize, {"--step", "12.5"})).code == 0);
+}
+
 TEST_CASE("an unknown name, count or ADC width is refused by its flag and its text") {
     check_refused({
         {"an unknown circuit", with(kCheck, {"divider"}),
@@ -154,17 +172,17 @@ TEST_CASE("an unknown name, count or ADC width is refused by its flag and its te
          "--model 'table': fit takes sh (Steinhart-Hart) or beta",
          "t_c,r_ohm\n0,32k\n25,10k\n50,3k6\n"},
         {"an unknown flag", with(kModel, {"--span", "0:50", "--colour"}),
-         "The following argument was not expected: --colour (see rtline --help)"},
+         "unknown option --colour for model (see rtline model --help)"},
         {"a flag without its value", with(kModel, {"--span", "0:50", "--step"}),
-         "--step: 1 required TEXT missing (see rtline --help)"},
+         "--step needs a value (see rtline model --help)"},
         // An empty name once read as "no file": the run printed its report and drew nothing, silently.
         {"an empty picture file name", with(kCheck, {"divider-low", "--rs", "10k", "--svg", ""}),
-         "--svg: expects a file name, not an empty text (see rtline --help)"},
+         "--svg: expects a file name, not an empty text (see rtline check --help)"},
         {"an empty output file name", with(kCheck, {"divider-low", "--rs", "10k", "-o", ""}),
-         "--output: expects a file name, not an empty text (see rtline --help)"},
+         "--output: expects a file name, not an empty text (see rtline check --help)"},
         {"an empty R-T file name",
          {"fit", "--points", ""},
-         "--points: expects a file name, not an empty text (see rtline --help)"},
+         "--points: expects a file name, not an empty text (see rtline fit --help)"},
         {"an empty spec file name", {"model", "--spec", ""}, "--spec: needs a file name ('-' for stdin)"},
         {"an ADC of zero bits", with(kTable, {"--adc-bits", "0"}), "--adc-bits '0': an ADC has 1 to 24 bits"},
         {"an ADC wider than 24 bits", with(kTable, {"--adc-bits", "25"}), "--adc-bits '25': an ADC has 1 to 24 bits"},
@@ -184,6 +202,45 @@ TEST_CASE("an unknown name, count or ADC width is refused by its flag and its te
          "C per count of the fixed-point table)"},
         {"a reversed resistor range", with(kSize, {"--range", "10M:1"}),
          "--range '10M:1': the low end must be below the high end"},
+    });
+}
+
+TEST_CASE("an argument mistake is named in our words, with the nearest real name and the --help to read") {
+    // The nearest names are by edit distance (Damerau, "A technique for computer detection and correction
+    // of spelling errors", 1964): --max-selfheating is one insertion from --max-self-heating, chekc one
+    // swap from check (by hand).
+    check_refused({
+        {"an option one letter off", with(kSize, {"--max-selfheating", "0.05"}),
+         "unknown option --max-selfheating for size; did you mean --max-self-heating? (see rtline size --help)"},
+        {"an option of another command", with(kModel, {"--span", "0:50", "--compare"}),
+         "unknown option --compare for model (see rtline model --help)"},
+        {"an unknown command",
+         {"linearize"},
+         "unknown command 'linearize'; choose model, fit, check, size, table or budget (see rtline --help)"},
+        {"a command two letters off",
+         {"chekc"},
+         "unknown command 'chekc'; did you mean check?; choose model, fit, check, size, table or budget (see rtline "
+         "--help)"},
+        {"no command", {}, "no command given; choose model, fit, check, size, table or budget (see rtline --help)"},
+        {"an option before the command",
+         {"--verbose", "model"},
+         "unknown option --verbose before the command; the program takes --help and --version (see rtline --help)"},
+        {"a stray argument", with(kCheck, {"divider-low", "--rs", "10k", "stray"}),
+         "unexpected argument 'stray': each value follows its flag, as in --rs 10k (see rtline check --help)"},
+        {"a stray number", with(kCheck, {"divider-low", "--rs", "10k", "5k6"}),
+         "unexpected argument '5k6': each value follows its flag, as in --rs 10k (see rtline check --help)"},
+        {"a value running into the next flag", with(kSize, {"--top", "--series", "E12"}),
+         "--top needs a value (see rtline size --help)"},
+        {"an empty value after =", with(kSize, {"--top="}),
+         "--top needs a value after the '=' (see rtline size --help)"},
+        {"a value for a switch", with(kSize, {"--compare=yes"}), "--compare takes no value (see rtline size --help)"},
+        {"a required flag left out",
+         {"check", "--r25", "10k", "--beta", "3950", "--circuit", "divider-low"},
+         "--span is required (see rtline check --help)"},
+        {"--jsonl with CSV",
+         {"model", "--jsonl", "--format", "csv"},
+         "--format 'csv': not with --jsonl: each result is one line of JSON; leave out --format",
+         ""},
     });
 }
 

@@ -88,7 +88,7 @@ TEST_CASE("check --format json carries exactly the keys issue 3 lists") {
 }
 
 TEST_CASE("the JSON resistor keys are the flag names of the circuit's own resistors") {
-    const Args base{"--span", "0:40", "--step", "20", "--format", "json"};
+    const Args base{"--span", "0:40", "--step", "10", "--format", "json"};
     auto resistors = [&](const Args& circuit) {
         Args a = base;
         a.insert(a.end(), circuit.begin(), circuit.end());
@@ -133,18 +133,20 @@ TEST_CASE("check --format csv has a header row and one row per point") {
     const auto rows = lines_of(r.out);
     REQUIRE(rows.size() == 1 + 10);  // −10, −5, …, 35 °C
     const std::vector<std::string> header = fields(rows[0]);
-    for (const char* k :
-         {"t_c", "r_t_ohm", "output", "ideal", "deviation", "nonlinearity_pct_fsd", "error_c", "power_w"}) {
+    for (const char* k : {"t_c", "r_t_ohm", "output", "ideal", "deviation", "nonlinearity_pct_fsd", "error_c"}) {
         CAPTURE(k);
         CHECK(std::find(header.begin(), header.end(), k) != header.end());
     }
+    // Ratiometric: no drive, so no power or self-heating figures.
+    CHECK(std::find(header.begin(), header.end(), "power_w") == header.end());
+    CHECK(std::find(header.begin(), header.end(), "self_heating_k") == header.end());
     for (std::size_t i = 1; i < rows.size(); ++i) CHECK(fields(rows[i]).size() == header.size());
     CHECK(std::stod(fields(rows[1])[0]) == -10.0);
     CHECK(std::stod(fields(rows.back())[0]) == 35.0);
 }
 
 TEST_CASE("check's text table carries units in its headers and is aligned") {
-    const auto r = run_rtline(check({"--span", "0:30", "--step", "10", "--circuit", "divider-low", "--rs", "10k"}));
+    const auto r = run_rtline(check({"--span", "0:40", "--step", "10", "--circuit", "divider-low", "--rs", "10k"}));
     REQUIRE(r.code == 0);
     for (const char* h : {"T (\xC2\xB0"
                           "C)",
@@ -164,7 +166,7 @@ TEST_CASE("check's text table carries units in its headers and is aligned") {
     REQUIRE(head != ls.end());
     int rows = 0;
     for (auto it = head; it != ls.end() && !it->empty(); ++it, ++rows) CHECK(width(*it) == width(*head));
-    CHECK(rows == 1 + 4);
+    CHECK(rows == 1 + 5);  // the header and 0, 10, 20, 30, 40 °C
 }
 
 TEST_CASE("a bridge reads zero at --null-at, and by default at the span's low end") {
@@ -208,9 +210,9 @@ std::string table_csv() {
 TEST_CASE("a bridge on a table model may null at the table's last temperature") {
     const rtline::test::TempPath table(".csv");
     rtline::test::write_file(table.str(), table_csv());
-    const json d = run_json({"check", "--points", table.str(), "--model", "table", "--span", "0:60", "--step", "20",
+    const json d = run_json({"check", "--points", table.str(), "--model", "table", "--span", "0:60", "--step", "15",
                              "--circuit", "bridge", "--r1", "10k", "--null-at", "60", "--format", "json"});
-    CHECK(std::abs(d["points"][3]["output"].get<double>()) < 1e-15);
+    CHECK(std::abs(d["points"][4]["output"].get<double>()) < 1e-15);
 }
 
 TEST_CASE("bad input to check is one line on stderr naming the flag and the value, exit 2, nothing on stdout") {

@@ -131,3 +131,36 @@ TEST_CASE("an -o that names a folder is bad input, and no temporary file stays b
     CHECK(dir.names() == std::vector<std::string>{"reports"});
     CHECK(fs::is_empty(dir.file("reports")));
 }
+
+// /dev/full accepts opening and fails every write with ENOSPC (Linux null(4)): a full disk without root.
+TEST_CASE("a result that cannot be written to stdout is a failure, in every format, and says so") {
+    std::string exe = RTLINE_EXE;
+    exe.insert(0, 1, '\'');
+    exe.push_back('\'');
+    for (const Command& c : kCommands) {
+        for (const char* format : {"text", "json", "csv"}) {
+            std::string line = exe;
+            for (const std::string& a : c.good) line += " '" + a + "'";
+            if (std::string(c.name) != "table") line += std::string(" --format ") + format;
+            INFO(line);
+            const auto r = rtline::test::run_shell(line + " >/dev/full");
+            CHECK(r.code == 2);
+            CHECK(r.err == "rtline: stdout: writing failed: no space left on device\n");
+        }
+    }
+    // The help, too.
+    const auto help = rtline::test::run_shell(exe + " model --help >/dev/full");
+    CHECK(help.code == 2);
+    CHECK(help.err == "rtline: stdout: writing failed: no space left on device\n");
+}
+
+TEST_CASE("a reader that goes away ends the run quietly, as SIGPIPE does for Unix tools") {
+    // 0 to 50 °C at 1 mK is 50001 lines, far more than one pipe buffer; head reads one and leaves.
+    std::string line = RTLINE_EXE;
+    line.insert(0, 1, '\'');
+    line.append("' model --r25 10k --beta 3950 --span 0:50 --step 0.001 | head -n 1");
+    const auto r = rtline::test::run_shell(line);
+    CHECK(r.code == 0);
+    CHECK(r.out == "beta model: R25 = 10k ohm, B = 3950 K\n");
+    CHECK(r.err.empty());
+}

@@ -245,7 +245,7 @@ TEST_CASE("size --tradeoff lists exactly the Pareto front of nonlinearity agains
     CHECK(got == expected);
 }
 
-TEST_CASE("size warns in its text output when the best design's span is below 10 % of the excitation") {
+TEST_CASE("size warns on stderr, in every format, when the best design's span is below 10 % of the excitation") {
     // At 3.3 V with at most 1 µW in the thermistor the best E24 value is large and the span small.
     const auto small =
         run_rtline(with(kGreenhouse, {"--circuit", "divider-low", "--excitation", "3.3", "--max-power", "1u"}));
@@ -254,12 +254,21 @@ TEST_CASE("size warns in its text output when the best design's span is below 10
         run_json(with(kGreenhouse, {"--circuit", "divider-low", "--excitation", "3.3", "--max-power", "1u"}));
     const double rs = doc["candidates"][0]["resistors_ohm"]["rs"];
     CHECK(divider_low(rs, 3.3).span < 0.33);  // the formula agrees that it is below 10 % of 3.3 V
-    CHECK(small.out.find("below 10 % of the excitation") != std::string::npos);
-    CHECK(doc["warnings"].size() == 1);
+    // The warning goes to stderr, never into the data, in every format; JSON carries it too.
+    CHECK(small.out.find("warning") == std::string::npos);
+    CHECK(small.err.rfind("rtline: warning: the output span is only ", 0) == 0);
+    CHECK(small.err.find("below 10 % of the excitation; consider --min-span\n") != std::string::npos);
+    const auto csv = run_rtline(
+        with(kGreenhouse, {"--circuit", "divider-low", "--excitation", "3.3", "--max-power", "1u", "--format", "csv"}));
+    CHECK(csv.err == small.err);
+    CHECK(csv.out.find("warning") == std::string::npos);
+    REQUIRE(doc["warnings"].size() == 1);
+    CHECK("rtline: warning: " + doc["warnings"][0].get<std::string>() + "\n" == small.err);
     // The unconstrained greenhouse divider has a span of about 0.37 V/V (formula above): no warning.
     const auto normal = run_rtline(with(kGreenhouse, {"--circuit", "divider-low"}));
     REQUIRE(normal.code == 0);
-    CHECK(normal.out.find("warning") == std::string::npos);
+    CHECK(normal.err.empty());
+    CHECK(!run_json(with(kGreenhouse, {"--circuit", "divider-low"})).contains("warnings"));
 }
 
 TEST_CASE("size text output shows the continuous optimum, the closed forms and the table") {

@@ -11,6 +11,9 @@
 namespace rtline {
 
 inline constexpr std::size_t kMaxGridPoints = 1'000'000;  // a sane limit on points in one span
+// The fewest points that can judge a line's fit (common practice): the two ends, the middle and one in
+// each half, so that a deviation that bows one way in each half of the span is seen at all.
+inline constexpr std::size_t kMinLinearityPoints = 5;
 
 struct Grid {
     std::vector<double> t_k;    // ascending, K
@@ -23,6 +26,10 @@ struct Grid {
 // (Thermistor::check_span) with a finite temperature coefficient at every point. Throws InputError
 // naming "--step" or "--span".
 [[nodiscard]] Grid make_grid(const Thermistor& model, const Span& span, double step_k);
+
+// Throws InputError naming "--step" when `span` at `step_k` gives fewer than kMinLinearityPoints points,
+// with the largest step that would do.
+void check_linearity_points(const Span& span, double step_k);
 
 // The temperatures alone, as make_grid places them.
 [[nodiscard]] std::vector<double> span_temperatures(const Span& span, double step_k);

@@ -35,14 +35,17 @@ std::string line_description(LineKind k) {
     return "";
 }
 
-Json summary_json(const AnalysisSummary& s) {
-    return {{"max_nonlinearity_pct_fsd", s.max_nonlinearity_pct_fsd},
-            {"at_t_c", kelvin_to_celsius(s.at_t_k)},
-            {"max_error_c", s.max_error_k},
-            {"output_span", s.output_span},
-            {"sensitivity_per_k", {{"min", s.sensitivity_min_per_k}, {"max", s.sensitivity_max_per_k}}},
-            {"max_power_w", number(s.max_power_w)},
-            {"max_self_heating_k", number(s.max_self_heating_k)}};
+Json summary_json(const AnalysisSummary& s, bool driven) {
+    Json j = {{"max_nonlinearity_pct_fsd", s.max_nonlinearity_pct_fsd},
+              {"at_t_c", kelvin_to_celsius(s.at_t_k)},
+              {"max_error_c", s.max_error_k},
+              {"output_span", s.output_span},
+              {"sensitivity_per_k", {{"min", s.sensitivity_min_per_k}, {"max", s.sensitivity_max_per_k}}}};
+    if (driven) {
+        j["max_power_w"] = number(s.max_power_w);
+        j["max_self_heating_k"] = number(s.max_self_heating_k);
+    }
+    return j;
 }
 
 // The nominal shift of the lead wires over the span, K (lowest, highest): what a firmware that does
@@ -71,13 +74,17 @@ void run_check(const CheckCommand& o) {
             throw InputError("--dissipation", o.dissipation, "the dissipation constant must be positive (mW/K)");
         }
     }
-    const Grid grid = build_grid(thermistor, span, o.span);
+    const Grid grid = build_grid(thermistor, span, o.span, true);
     const Circuit circuit = build_circuit(o.circuit, thermistor, span);
     const Analysis a = analyze(grid, thermistor, circuit, line, dissipation_w_per_k);
     const std::string unit = output_unit(circuit);
-    const bool ratiometric = circuit.excitation.drive == Drive::ratiometric;
     std::optional<FrontEndReport> fe;
     if (o.front_end.given()) fe = front_end_report(o.front_end, circuit, a, grid);
+    // Power and self-heating are figures of a drive: without one there are none to print.
+    const bool driven = circuit.excitation.drive != Drive::ratiometric;
+    if (!driven && dissipation_w_per_k > 0.0) {
+        throw InputError("--dissipation", o.dissipation, kNeedsDrive);
+    }
 
     std::string bytes;
     if (format == Format::json) {
@@ -88,23 +95,26 @@ void run_check(const CheckCommand& o) {
         doc["line"] = std::string(line_name(line));
         doc["line_coefficients"] = {{"slope_per_k", a.line.slope}, {"intercept_at_0_c", a.line.at(kZeroCelsiusK)}};
         if (dissipation_w_per_k > 0.0) doc["dissipation_mw_per_k"] = 1e3 * dissipation_w_per_k;
-        doc["summary"] = summary_json(a.summary);
+        doc["summary"] = summary_json(a.summary, driven);
         if (circuit.lead_ohm > 0.0) {
             const auto [lo, hi] = lead_shift_range(circuit, thermistor, grid);
             doc["summary"]["lead_shift_c"] = {{"min", lo}, {"max", hi}};
         }
         Json pts = Json::array();
         for (const PointResult& p : a.points) {
-            pts.push_back({{"t_c", kelvin_to_celsius(p.t_k)},
-                           {"r_t_ohm", p.r_t_ohm},
-                           {"output", p.output},
-                           {"ideal", p.ideal},
-                           {"deviation", p.deviation},
-                           {"nonlinearity_pct_fsd", p.nonlinearity_pct_fsd},
-                           {"error_c", p.error_k},
-                           {"sensitivity_per_k", p.sensitivity_per_k},
-                           {"power_w", number(p.power_w)},
-                           {"self_heating_k", number(p.self_heating_k)}});
+            Json pt = {{"t_c", kelvin_to_celsius(p.t_k)},
+                       {"r_t_ohm", p.r_t_ohm},
+                       {"output", p.output},
+                       {"ideal", p.ideal},
+                       {"deviation", p.deviation},
+                       {"nonlinearity_pct_fsd", p.nonlinearity_pct_fsd},
+                       {"error_c", p.error_k},
+                       {"sensitivity_per_k", p.sensitivity_per_k}};
+            if (driven) {
+                pt["power_w"] = number(p.power_w);
+                pt["self_heating_k"] = number(p.self_heating_k);
+            }
+            pts.push_back(pt);
         }
         doc["points"] = pts;
         if (fe) doc["front_end"] = front_end_json(*fe, circuit);
@@ -121,27 +131,23 @@ void run_check(const CheckCommand& o) {
                                     {"nonlinearity (%FSD)", "nonlinearity_pct_fsd", 3},
                                     {"error (\xC2\xB0"
                                      "C)",
-                                     "error_c", 3},
-                                    {csv           ? "power (W)"
-                                     : ratiometric ? "power at 1 V (mW)"
-                                                   : "power (mW)",
-                                     "power_w", -1, 4},
-                                    {"self-heating (K)", "self_heating_k", 4}};
+                                     "error_c", 3}};
+        if (driven) {
+            columns.push_back({csv ? "power (W)" : "power (mW)", "power_w", -1, 4});
+            columns.push_back({"self-heating (K)", "self_heating_k", 4});
+        }
         // CSV has no place for a title, so each row names the line its ideal and deviation refer to.
         if (csv) columns.push_back({"line", "line"});
         if (csv && fe) add_front_end_columns(columns, circuit);
         Table table(columns);
         std::size_t i = 0;
         for (const PointResult& p : a.points) {
-            std::vector<Cell> row{kelvin_to_celsius(p.t_k),
-                                  p.r_t_ohm,
-                                  p.output,
-                                  p.ideal,
-                                  p.deviation,
-                                  p.nonlinearity_pct_fsd,
-                                  p.error_k,
-                                  csv ? p.power_w : 1e3 * p.power_w,
-                                  p.self_heating_k};
+            std::vector<Cell> row{kelvin_to_celsius(p.t_k), p.r_t_ohm, p.output, p.ideal, p.deviation,
+                                  p.nonlinearity_pct_fsd,   p.error_k};
+            if (driven) {
+                row.emplace_back(csv ? p.power_w : 1e3 * p.power_w);
+                row.emplace_back(p.self_heating_k);
+            }
             if (csv) row.emplace_back(std::string(line_name(line)));
             if (csv && fe) add_front_end_cells(row, *fe, circuit, i);
             ++i;
@@ -171,9 +177,10 @@ void run_check(const CheckCommand& o) {
                      "C if the firmware does not subtract their " +
                      format_resistance(circuit.lead_ohm, 6) + " ohm\n";
             }
-            if (std::isfinite(s.max_power_w)) {
-                t += "largest power           " + format_number(1e3 * s.max_power_w, 4) + " mW" +
-                     (ratiometric ? " (at 1 V excitation; give --excitation for the real figure)" : "") + "\n";
+            if (!driven) {
+                t += "power, self-heating     none without a drive; give --excitation V or --current A\n";
+            } else if (std::isfinite(s.max_power_w)) {
+                t += "largest power           " + format_number(1e3 * s.max_power_w, 4) + " mW\n";
             }
             if (std::isfinite(s.max_self_heating_k)) {
                 t += "largest self-heating    " + format_number(s.max_self_heating_k, 4) + " K (dissipation constant " +

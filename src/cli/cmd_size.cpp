@@ -45,7 +45,7 @@ struct Setup {
 Setup build_setup(const SizeCommand& o) {
     Thermistor model = build_model(o.model);
     const Span span = build_span(o.span);
-    Grid grid = build_grid(model, span, o.span);
+    Grid grid = build_grid(model, span, o.span, true);
     SizingSpec spec;
     spec.line = parse_line(o.line, "--line");
     spec.series = parse_series(o.series, "--series");
@@ -84,21 +84,16 @@ Setup build_setup(const SizeCommand& o) {
     Constraints& k = spec.constraints;
     if (!o.max_power.empty()) {
         k.max_power_w = optional_quantity(o.max_power, "--max-power", "W", 0.0);
-        if (!driven) {
-            throw InputError("--max-power", o.max_power,
-                             "the power depends on the drive; give --excitation V or --current A");
-        }
+        if (!driven) throw InputError("--max-power", o.max_power, kNeedsDrive);
     }
     if (!o.max_self_heating.empty()) {
         k.max_self_heating_k = optional_quantity(o.max_self_heating, "--max-self-heating", "K", 0.0);
         if (spec.dissipation_w_per_k == 0.0) {
             throw InputError("--max-self-heating", o.max_self_heating, "needs --dissipation (mW/K)");
         }
-        if (!driven) {
-            throw InputError("--max-self-heating", o.max_self_heating,
-                             "the self-heating depends on the drive; give --excitation V or --current A");
-        }
+        if (!driven) throw InputError("--max-self-heating", o.max_self_heating, kNeedsDrive);
     }
+    if (spec.dissipation_w_per_k > 0.0 && !driven) throw InputError("--dissipation", o.dissipation, kNeedsDrive);
     if (!o.min_span.empty()) k.min_span = optional_quantity(o.min_span, "--min-span", "", 0.0);
     if (!o.min_sensitivity.empty()) {
         k.min_sensitivity = optional_quantity(o.min_sensitivity, "--min-sensitivity", "", 0.0);
@@ -129,15 +124,21 @@ std::string resistors_text(const Circuit& c, int digits) {
     return s;
 }
 
+// Power and self-heating are figures of a drive: a ratiometric design has none.
+bool driven(const Candidate& c) { return c.circuit.excitation.drive != Drive::ratiometric; }
+
 Json candidate_json(const Candidate& c) {
-    return {{"topology", std::string(topology_name(c.circuit.topology))},
-            {"resistors_ohm", resistors_json(c.circuit)},
-            {"max_nonlinearity_pct_fsd", c.max_nonlinearity_pct_fsd},
-            {"max_error_c", c.max_error_k},
-            {"output_span", c.output_span},
-            {"sensitivity_per_k", {{"min", c.sensitivity_min_per_k}, {"max", c.sensitivity_max_per_k}}},
-            {"max_power_w", number(c.max_power_w)},
-            {"max_self_heating_k", number(c.max_self_heating_k)}};
+    Json j = {{"topology", std::string(topology_name(c.circuit.topology))},
+              {"resistors_ohm", resistors_json(c.circuit)},
+              {"max_nonlinearity_pct_fsd", c.max_nonlinearity_pct_fsd},
+              {"max_error_c", c.max_error_k},
+              {"output_span", c.output_span},
+              {"sensitivity_per_k", {{"min", c.sensitivity_min_per_k}, {"max", c.sensitivity_max_per_k}}}};
+    if (driven(c)) {
+        j["max_power_w"] = number(c.max_power_w);
+        j["max_self_heating_k"] = number(c.max_self_heating_k);
+    }
+    return j;
 }
 
 Table candidate_table(const std::vector<Candidate>& cs, const std::string& unit, bool csv, bool with_topology,
@@ -159,9 +160,9 @@ Table candidate_table(const std::vector<Candidate>& cs, const std::string& unit,
     cols.push_back({"span (" + unit + ")", "output_span", -1, 4});
     cols.push_back({"min sens (" + unit + "/K)", "sensitivity_min_per_k", -1, 4});
     cols.push_back({"max sens (" + unit + "/K)", "sensitivity_max_per_k", -1, 4});
-    const bool per_volt = !cs.empty() && cs.front().circuit.excitation.drive == Drive::ratiometric;
-    cols.push_back({csv ? "power (W)" : per_volt ? "power at 1 V (mW)" : "power (mW)", "max_power_w", -1, 4});
-    if (self_heating) cols.push_back({"self-heating (K)", "max_self_heating_k", 4});
+    const bool power = !cs.empty() && driven(cs.front());
+    if (power) cols.push_back({csv ? "power (W)" : "power (mW)", "max_power_w", -1, 4});
+    if (power && self_heating) cols.push_back({"self-heating (K)", "max_self_heating_k", 4});
     Table t(cols);
     for (const Candidate& c : cs) {
         std::vector<Cell> row;
@@ -176,8 +177,8 @@ Table candidate_table(const std::vector<Candidate>& cs, const std::string& unit,
         row.emplace_back(c.output_span);
         row.emplace_back(c.sensitivity_min_per_k);
         row.emplace_back(c.sensitivity_max_per_k);
-        row.emplace_back(csv ? c.max_power_w : 1e3 * c.max_power_w);
-        if (self_heating) row.emplace_back(c.max_self_heating_k);
+        if (power) row.emplace_back(csv ? c.max_power_w : 1e3 * c.max_power_w);
+        if (power && self_heating) row.emplace_back(c.max_self_heating_k);
         t.add_row(std::move(row));
     }
     return t;
@@ -220,13 +221,13 @@ std::string current_drive_problem(const Circuit& c) {
     }
 }
 
-// The warning the text output carries when the chosen design's span is small next to the excitation.
+// The warning (on stderr, and in JSON's "warnings") when the chosen design's span is small next to the excitation.
 std::string span_warning(const Candidate& c) {
     const Excitation& e = c.circuit.excitation;
     if (gives_resistance(c.circuit.topology) || e.drive == Drive::current) return "";
     const double full = e.drive == Drive::voltage ? e.value : 1.0;
     if (c.output_span >= 0.1 * full) return "";
-    return "warning: the output span is only " + format_number(c.output_span, 3) + " " + output_unit(c.circuit) +
+    return "the output span is only " + format_number(c.output_span, 3) + " " + output_unit(c.circuit) +
            ", below 10 % of the excitation; consider --min-span";
 }
 
@@ -325,6 +326,11 @@ std::string run_compare(const SizeCommand& o, Setup& s, Format format) {
     std::stable_sort(rows.begin(), rows.end(), [](const Candidate& a, const Candidate& b) {
         return a.max_nonlinearity_pct_fsd < b.max_nonlinearity_pct_fsd;
     });
+    for (const Candidate& c : rows) {
+        if (const std::string w = span_warning(c); !w.empty())
+            warn(std::string(topology_name(c.circuit.topology)) + ": " + w);
+    }
+    const bool power = drive.excitation.drive != Drive::ratiometric;
     if (format == Format::json) {
         Json doc = header_json(s, "size");
         doc["drive"] = circuit_json(drive)["drive"];
@@ -339,49 +345,59 @@ std::string run_compare(const SizeCommand& o, Setup& s, Format format) {
     // Units differ between topologies (ohm for shunt, V/V for dividers): the table names them per row.
     const bool csv = format == Format::csv;
     if (csv) {
-        Table t({{"", "topology"},
-                 {"", "rs_ohm"},
-                 {"", "rp_ohm"},
-                 {"", "r1_ohm"},
-                 {"", "max_nonlinearity_pct_fsd"},
-                 {"", "max_error_c"},
-                 {"", "output_span"},
-                 {"", "output_unit"},
-                 {"", "max_power_w"}});
+        std::vector<Column> cols{{"", "topology"},
+                                 {"", "rs_ohm"},
+                                 {"", "rp_ohm"},
+                                 {"", "r1_ohm"},
+                                 {"", "max_nonlinearity_pct_fsd"},
+                                 {"", "max_error_c"},
+                                 {"", "output_span"},
+                                 {"", "output_unit"}};
+        if (power) cols.push_back({"", "max_power_w"});
+        Table t(cols);
         for (const Candidate& c : rows) {
             auto value = [&](const char* n) {
                 const auto names = free_resistors(c.circuit.topology);
                 return std::find(names.begin(), names.end(), n) == names.end() ? NAN : resistor_value(c.circuit, n);
             };
-            t.add_row({std::string(topology_name(c.circuit.topology)), value("rs"), value("rp"), value("r1"),
-                       c.max_nonlinearity_pct_fsd, c.max_error_k, c.output_span, output_unit(c.circuit),
-                       c.max_power_w});
+            std::vector<Cell> row{std::string(topology_name(c.circuit.topology)),
+                                  value("rs"),
+                                  value("rp"),
+                                  value("r1"),
+                                  c.max_nonlinearity_pct_fsd,
+                                  c.max_error_k,
+                                  c.output_span,
+                                  output_unit(c.circuit)};
+            if (power) row.emplace_back(c.max_power_w);
+            t.add_row(std::move(row));
         }
         return t.csv();
     }
-    Table t(
-        {{"circuit", "topology"},
-         {"resistors", "resistors"},
-         {"nonlinearity (%FSD)", "max_nonlinearity_pct_fsd", 3},
-         {"error (\xC2\xB0"
-          "C)",
-          "max_error_c", 3},
-         {"span", "output_span", -1, 4},
-         {"unit", "output_unit"},
-         {drive.excitation.drive == Drive::ratiometric ? "power at 1 V (mW)" : "power (mW)", "max_power_w", -1, 4}});
+    std::vector<Column> cols{{"circuit", "topology"},
+                             {"resistors", "resistors"},
+                             {"nonlinearity (%FSD)", "max_nonlinearity_pct_fsd", 3},
+                             {"error (\xC2\xB0"
+                              "C)",
+                              "max_error_c", 3},
+                             {"span", "output_span", -1, 4},
+                             {"unit", "output_unit"}};
+    if (power) cols.push_back({"power (mW)", "max_power_w", -1, 4});
+    Table t(cols);
     for (const Candidate& c : rows) {
-        t.add_row({std::string(topology_name(c.circuit.topology)), resistors_text(c.circuit, 4),
-                   c.max_nonlinearity_pct_fsd, c.max_error_k, c.output_span, output_unit(c.circuit),
-                   1e3 * c.max_power_w});
+        std::vector<Cell> row{std::string(topology_name(c.circuit.topology)),
+                              resistors_text(c.circuit, 4),
+                              c.max_nonlinearity_pct_fsd,
+                              c.max_error_k,
+                              c.output_span,
+                              output_unit(c.circuit)};
+        if (power) row.emplace_back(1e3 * c.max_power_w);
+        t.add_row(std::move(row));
     }
     std::string text =
         header_text(s, o, "every topology, best " + std::string(series_name(s.spec.series)) + " values each") + "\n" +
         t.text();
     for (const std::string& k : skipped) text += "skipped: " + k + "\n";
-    for (const Candidate& c : rows) {
-        if (const std::string w = span_warning(c); !w.empty())
-            text += std::string(topology_name(c.circuit.topology)) + ": " + w + "\n";
-    }
+    if (!power) text += "power: none without a drive; give --excitation V or --current A\n";
     return text;
 }
 
@@ -446,6 +462,8 @@ void run_size(const SizeCommand& o) {
             bytes = header_text(s, o, describe_circuit(s.spec.base)) +
                     "\nPareto front: each value is the most linear of all values with at least its output span\n" +
                     candidate_table(front, unit, false, false, heat).text();
+            if (!driven(front.front()))
+                bytes += "power, self-heating: none without a drive; give --excitation V or --current A\n";
         }
         std::vector<Output> outputs{{o.out.output, bytes, "-o"}};
         if (!o.svg.empty()) {
@@ -465,6 +483,7 @@ void run_size(const SizeCommand& o) {
     const StandardSearch found = search_standard(s.spec, s.grid, s.model);
     if (found.best.empty()) infeasible(s.spec, found, "");
     const std::string cont_fails = failed_constraint(s.spec, continuous);
+    if (const std::string w = span_warning(found.best.front()); !w.empty()) warn(w);
 
     if (format == Format::json) {
         Json doc = header_json(s, "size");
@@ -489,9 +508,6 @@ void run_size(const SizeCommand& o) {
         for (const Candidate& c : found.best) arr.push_back(candidate_json(c));
         doc["candidates"] = arr;
         doc["examined"] = found.examined;
-        Json warnings = Json::array();
-        if (const std::string w = span_warning(found.best.front()); !w.empty()) warnings.push_back(w);
-        doc["warnings"] = warnings;
         bytes = dump(doc);
     } else if (csv) {
         bytes = candidate_table(found.best, unit, true, false, heat).csv();
@@ -528,7 +544,8 @@ void run_size(const SizeCommand& o) {
         }
         t += "\nbest " + std::string(series_name(s.spec.series)) + " values (" + std::to_string(found.examined) +
              " combinations examined, exhaustively)\n" + candidate_table(found.best, unit, false, false, heat).text();
-        if (const std::string w = span_warning(found.best.front()); !w.empty()) t += w + "\n";
+        if (!driven(found.best.front()))
+            t += "power, self-heating: none without a drive; give --excitation V or --current A\n";
         bytes = t;
     }
     std::vector<Output> outputs{{o.out.output, bytes, "-o"}};

@@ -19,6 +19,8 @@ const char* const kSafetyNote =
     "applicable safety standards and local codes, and any design must be verified with measured parts\n"
     "before use.";
 
+const char* const kNeedsDrive = "power and self-heating depend on the drive; give --excitation V or --current A";
+
 std::string read_text(const std::string& path, const std::string& field) {
     if (path == "-") {
         std::ostringstream ss;
@@ -189,10 +191,12 @@ std::pair<std::string, std::string> grid_size_culprit(const SpanOptions& o) {
     return {"--step", o.step};
 }
 
-Grid build_grid(const Thermistor& model, const Span& span, const SpanOptions& o) {
+Grid build_grid(const Thermistor& model, const Span& span, const SpanOptions& o, bool judge_linearity) {
     const double step = build_step(o);
     try {
-        return make_grid(model, span, step);
+        Grid g = make_grid(model, span, step);
+        if (judge_linearity) check_linearity_points(span, step);
+        return g;
     } catch (const InputError& e) {
         if (e.field() == "--span") throw InputError("--span", o.span, e.why());
         if (e.field() == "--step") {
@@ -299,9 +303,8 @@ Json circuit_json(const Circuit& c) {
     if (c.lead_ohm > 0.0) j["lead_ohm"] = c.lead_ohm;
     switch (c.excitation.drive) {
         case Drive::ratiometric:
-            // Power and self-heating figures of a ratiometric design are those at 1 V of excitation
-            // (they scale with its square); say so next to them.
-            j["drive"] = {{"kind", "ratiometric"}, {"power_figures_at_v", 1}};
+            // Without a drive there is no power and no self-heating: the documents leave those keys out.
+            j["drive"] = {{"kind", "ratiometric"}};
             break;
         case Drive::voltage: j["drive"] = {{"kind", "voltage"}, {"excitation_v", c.excitation.value}}; break;
         case Drive::current: j["drive"] = {{"kind", "current"}, {"current_a", c.excitation.value}}; break;
@@ -363,8 +366,7 @@ std::string describe_adc_transfer(AdcTransfer t, int bits) {
             return "rounding: code k is the ratio k/" + full + " of the reference (transitions at k - 1/2 LSB)";
         case AdcTransfer::truncating:
             return "truncating: code k covers k to k + 1 LSB of " + full + ", so it stands for (k + 1/2)/" + full;
-        case AdcTransfer::full_scale:
-            return "full-scale: the top code is the reference, code k is the ratio k/" + top;
+        case AdcTransfer::full_scale: return "full-scale: the top code is the reference, code k is the ratio k/" + top;
     }
     return "";
 }

@@ -17,6 +17,8 @@ namespace rtline::cli {
 
 // The caution every design command's help carries (see README).
 extern const char* const kSafetyNote;
+// Why a power or self-heating flag is refused without --excitation or --current.
+extern const char* const kNeedsDrive;
 
 struct ModelOptions {
     std::string r25;        // resistance at T0, e.g. "10k"
@@ -45,7 +47,9 @@ void add_span_options(CLI::App& app, SpanOptions& o);
 // else --span (the default step of 1 K is not the user's doing).
 [[nodiscard]] std::pair<std::string, std::string> grid_size_culprit(const SpanOptions& o);
 // make_grid over `span` at the --step, its errors quoting --span and --step as the user typed them.
-[[nodiscard]] Grid build_grid(const Thermistor& model, const Span& span, const SpanOptions& o);
+// With `judge_linearity` (check, size), a grid too coarse to judge a line is refused.
+[[nodiscard]] Grid build_grid(const Thermistor& model, const Span& span, const SpanOptions& o,
+                              bool judge_linearity = false);
 
 struct CircuitOptions {
     std::string circuit;

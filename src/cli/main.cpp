@@ -9,30 +9,28 @@
 #include "common.hpp"
 #include "rtline/error.hpp"
 #include "spec.hpp"
+#include "usage.hpp"
 
 namespace {
 
 // The command line with --spec and --jsonl taken out and a spec's flags put in front of the user's.
 struct Invocation {
-    std::vector<std::string> args;  // in order, without the program name
+    std::vector<std::string> args;    // in order, without the program name
+    std::vector<std::string> before;  // the arguments before the command
     std::string command;
     bool jsonl = false;
     std::string spec_path;
 };
 
-bool is_command(CLI::App& app, const std::string& name) {
-    for (const CLI::App* sub : app.get_subcommands({})) {
-        if (sub->get_name() == name) return true;
-    }
-    return false;
-}
-
-Invocation read_invocation(int argc, char** argv, CLI::App& app) {
+Invocation read_invocation(int argc, char** argv) {
     Invocation inv;
     for (int i = 1; i < argc; ++i) {
         const std::string a = argv[i];
-        if (inv.command.empty() && !a.empty() && a[0] != '-' && is_command(app, a)) {
+        if (inv.command.empty() && (a.empty() || a[0] != '-')) {
             inv.command = a;
+            inv.args.push_back(a);
+        } else if (inv.command.empty()) {
+            inv.before.push_back(a);
             inv.args.push_back(a);
         } else if (!inv.command.empty() && a == "--jsonl") {
             inv.jsonl = true;
@@ -54,16 +52,29 @@ Invocation read_invocation(int argc, char** argv, CLI::App& app) {
 int run(int argc, char** argv) {
     CLI::App app;
     rtline::cli::build_program(app);
-    Invocation inv = read_invocation(argc, argv, app);
+    Invocation inv = read_invocation(argc, argv);
+    rtline::cli::check_program_usage(app, inv.before, inv.command);
+    const bool program_help = inv.command.empty();  // --help or --version: the parser answers them
     if (inv.jsonl) {
         if (!inv.spec_path.empty())
             throw rtline::InputError("--spec", inv.spec_path, "not with --jsonl (specs come on stdin)");
         const std::vector<std::string> extra(inv.args.begin() + 1, inv.args.end());
+        rtline::cli::check_command_usage(*app.get_subcommand(inv.command), extra, false);
+        // Every result of a batch is a line of JSON; CSV lines would lose the errors' place.
+        for (std::size_t i = 0; i < extra.size(); ++i) {
+            const std::string& a = extra[i];
+            const bool format = a == "--format" || a.rfind("--format=", 0) == 0;
+            const std::string value = a.size() > 9 ? a.substr(9) : (i + 1 < extra.size() ? extra[i + 1] : "");
+            if (format && value != "json") {
+                throw rtline::InputError("--format", value,
+                                         "not with --jsonl: each result is one line of JSON; leave out --format");
+            }
+        }
         std::string out;
         const int code = rtline::cli::run_batch(
             inv.command, extra, rtline::cli::read_text("-", "--jsonl"),
             [&](CLI::App& a) { rtline::cli::build_program(a, inv.command); }, out);
-        std::cout << out;
+        rtline::cli::write_stdout(out);
         return code;
     }
     if (!inv.spec_path.empty()) {
@@ -75,6 +86,10 @@ int run(int argc, char** argv) {
             rtline::cli::spec_arguments(spec, *app.get_subcommand(inv.command), base_dir);
         inv.args.insert(inv.args.begin() + 1, from_spec.begin(), from_spec.end());
     }
+    CLI::App* sub = program_help ? nullptr : app.get_subcommand(inv.command);
+    if (sub != nullptr) {
+        rtline::cli::check_command_usage(*sub, std::vector<std::string>(inv.args.begin() + 1, inv.args.end()));
+    }
     std::vector<std::string> reversed(inv.args.rbegin(), inv.args.rend());
     try {
         app.parse(reversed);
@@ -84,6 +99,9 @@ int run(int argc, char** argv) {
         return app.exit(e);
     } catch (const CLI::CallForVersion& e) {
         return app.exit(e);
+    } catch (const CLI::ParseError& e) {
+        if (sub == nullptr) throw rtline::cli::UsageError("the command line cannot be read (see rtline --help)");
+        throw rtline::cli::rephrase(e, *sub);
     }
     return 0;
 }
@@ -92,9 +110,11 @@ int run(int argc, char** argv) {
 
 int main(int argc, char** argv) {
     try {
-        return run(argc, argv);
-    } catch (const CLI::ParseError& e) {
-        std::cerr << "rtline: " << e.what() << " (see rtline --help)\n";
+        const int code = run(argc, argv);
+        rtline::cli::close_stdout();
+        return code;
+    } catch (const rtline::cli::UsageError& e) {
+        std::cerr << "rtline: " << e.what() << "\n";
         return 2;
     } catch (const rtline::InputError& e) {
         std::cerr << "rtline: " << e.what() << "\n";

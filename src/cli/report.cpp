@@ -1,7 +1,10 @@
 #include "report.hpp"
 
+#include <cerrno>
 #include <cmath>
+#include <csignal>
 #include <cstdio>
+#include <cstring>
 #include <filesystem>
 #include <fstream>
 #include <iostream>
@@ -118,14 +121,70 @@ void require_finite(const Json& j) {
     }
 }
 
+namespace {
+std::string* g_sink = nullptr;
+std::vector<std::string> g_warnings;
+std::string g_warning_prefix;
+}  // namespace
+
+void warn(const std::string& message) {
+    g_warnings.push_back(message);
+    std::cerr << "rtline: warning: " << g_warning_prefix << message << "\n";
+}
+
+const std::vector<std::string>& warnings() { return g_warnings; }
+
+WarningScope::WarningScope(std::string prefix) : saved_(std::move(g_warnings)), saved_prefix_(g_warning_prefix) {
+    g_warnings.clear();
+    g_warning_prefix = std::move(prefix);
+}
+
+WarningScope::~WarningScope() {
+    g_warnings = std::move(saved_);
+    g_warning_prefix = std::move(saved_prefix_);
+}
+
 std::string dump(const Json& j) {
     require_finite(j);
+    if (j.is_object() && j.contains("tool") && !g_warnings.empty() && !j.contains("warnings")) {
+        Json with = j;
+        with["warnings"] = g_warnings;
+        return with.dump(2) + "\n";
+    }
     return j.dump(2) + "\n";
 }
 
 namespace {
-std::string* g_sink = nullptr;
+
+// A failed write to stdout: a reader that has gone away ends the program as SIGPIPE would have (quietly,
+// like cat or grep), anything else is reported.
+[[noreturn]] void stdout_failed(int error) {
+    if (error == EPIPE) {
+        std::signal(SIGPIPE, SIG_DFL);
+        std::raise(SIGPIPE);
+        std::_Exit(141);  // 128 + SIGPIPE, should the signal be blocked
+    }
+    std::string why = error != 0 ? std::strerror(error) : "an output error";
+    if (!why.empty()) why[0] = static_cast<char>(std::tolower(static_cast<unsigned char>(why[0])));
+    throw InputError("stdout", "", "writing failed: " + why);
+}
+
 }  // namespace
+
+void write_stdout(const std::string& bytes) {
+    errno = 0;
+    std::cout.flush();
+    if (std::fwrite(bytes.data(), 1, bytes.size(), stdout) != bytes.size() || std::fflush(stdout) != 0) {
+        stdout_failed(errno);
+    }
+}
+
+void close_stdout() {
+    errno = 0;
+    std::cout.flush();
+    if (std::fflush(stdout) != 0 || std::ferror(stdout) != 0) stdout_failed(errno);
+    if (std::fclose(stdout) != 0) stdout_failed(errno);
+}
 
 SinkScope::SinkScope(std::string& buffer) : previous_(g_sink) { g_sink = &buffer; }
 SinkScope::~SinkScope() { g_sink = previous_; }
@@ -179,8 +238,7 @@ void emit_all(const std::vector<Output>& outputs) {
             *g_sink += o.bytes;
             continue;
         }
-        std::cout << o.bytes;
-        std::cout.flush();
+        write_stdout(o.bytes);
     }
 }
 

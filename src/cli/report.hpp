@@ -49,7 +49,8 @@ private:
 [[nodiscard]] Json number(double v);
 // Throws std::logic_error if any number in `j` is not finite (the writers' last guard).
 void require_finite(const Json& j);
-// The document as text, two-space indented, with a final newline.
+// The document as text, two-space indented, with a final newline; a document (an object with a
+// "tool" key) gets the run's warnings() as "warnings" when there are any.
 [[nodiscard]] std::string dump(const Json& j);
 
 // While alive, emit() to stdout appends to `buffer` instead (JSON Lines batches collect each result).
@@ -67,6 +68,32 @@ private:
 // Writes `bytes` to stdout (path empty or "-") or to `path` through a temporary file beside it,
 // renamed into place once complete. Throws InputError ("-o") when the file cannot be written.
 void emit(const std::string& path, const std::string& bytes);
+
+// Writes `bytes` to stdout and flushes it. Throws InputError ("stdout") when the bytes cannot be
+// written (a full disk, /dev/full); a reader that has gone away (EPIPE) ends the program quietly by
+// SIGPIPE, as Unix tools do.
+void write_stdout(const std::string& bytes);
+// Flushes and closes stdout at the end of a run, with write_stdout()'s errors.
+void close_stdout();
+
+// The one warning channel: every warning goes to stderr as "rtline: warning: ..." at once (never into
+// the data on stdout), and JSON documents carry the run's warnings in a "warnings" array (dump() adds
+// it to a document when there are any).
+void warn(const std::string& message);
+[[nodiscard]] const std::vector<std::string>& warnings();
+
+// While alive, warnings are collected afresh and printed with `prefix` ("line 3: " in a batch).
+class WarningScope {
+public:
+    explicit WarningScope(std::string prefix);
+    ~WarningScope();
+    WarningScope(const WarningScope&) = delete;
+    WarningScope& operator=(const WarningScope&) = delete;
+
+private:
+    std::vector<std::string> saved_;
+    std::string saved_prefix_;
+};
 
 // One output of a run: stdout (path empty or "-") or a file, and the flag that named it.
 struct Output {

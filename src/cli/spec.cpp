@@ -1,5 +1,7 @@
 #include "spec.hpp"
 
+#include "usage.hpp"
+
 #include <algorithm>
 #include <filesystem>
 #include <sstream>
@@ -164,21 +166,34 @@ int run_batch(const std::string& command, const std::vector<std::string>& extra,
                     throw InputError(a == "-o" ? "-o" : "--output", file,
                                      "not with --jsonl: each result is one line on stdout");
                 }
+                if (a == "--format" || a.rfind("--format=", 0) == 0) {
+                    const std::string format = a.size() > 9 ? a.substr(9) : (i + 1 < args.size() ? args[i + 1] : "");
+                    if (format != "json") {
+                        throw InputError("--format", format,
+                                         "not with --jsonl: each result is one line of JSON; leave out --format");
+                    }
+                }
                 if (a == "--svg" || a.rfind("--svg=", 0) == 0) {
                     const std::string path = a.size() > 6 ? a.substr(6) : (i + 1 < args.size() ? args[i + 1] : "");
                     throw InputError("--svg", path, "not with --jsonl: every line would draw over the same file");
                 }
             }
+            check_command_usage(*sub, std::vector<std::string>(args.begin() + 1, args.end()));
             args.emplace_back("--format");
             args.emplace_back("json");
             std::vector<std::string> reversed(args.rbegin(), args.rend());
             std::string bytes;
             {
                 const SinkScope scope(bytes);
-                app.parse(reversed);
+                const WarningScope warnings("line " + std::to_string(line_no) + ": ");
+                try {
+                    app.parse(reversed);
+                } catch (const CLI::ParseError& e) {
+                    throw rephrase(e, *sub);
+                }
             }
             result = Json::parse(bytes);
-        } catch (const CLI::ParseError& e) {
+        } catch (const UsageError& e) {
             result = {{"line", line_no}, {"error", e.what()}};
             code = std::max(code, 2);
         } catch (const InputError& e) {

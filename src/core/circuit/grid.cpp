@@ -33,6 +33,17 @@ std::vector<double> span_temperatures(const Span& span, double step_k) {
     return t;
 }
 
+void check_linearity_points(const Span& span, double step_k) {
+    const std::size_t n = span_temperatures(span, step_k).size();
+    if (n >= kMinLinearityPoints) return;
+    const double width = span.hi_k - span.lo_k;
+    throw InputError("--step", format_number(step_k),
+                     "leaves " + std::to_string(n) + " points over the span (" + format_number(width) +
+                         " K wide); judging linearity takes at least " + std::to_string(kMinLinearityPoints) +
+                         " (the ends, the middle and one in each half): use a step of at most " +
+                         format_number(width / static_cast<double>(kMinLinearityPoints - 1)) + " K");
+}
+
 Grid make_grid(const Thermistor& model, const Span& span, double step_k) {
     model.check_span(span, "--span");
     Grid g;
