@@ -68,7 +68,7 @@ json run_json(const std::vector<std::string>& args) {
 }  // namespace
 
 TEST_CASE("a B-value tolerance alone, model reading: the worst case is the exact error of the beta equation") {
-    // Derived from the beta equation R = R0·exp(B(1/T − 1/T0)) (REFERENCES.md). A part with B' = B(1 + d)
+    // Derived from the beta equation R = R0·exp(B(1/T − 1/T0)) (docs/sources.md). A part with B' = B(1 + d)
     // gives R' = R0·exp(B(1 + d)(1/T − 1/T0)); the firmware inverts the nominal model,
     // 1/T_read = 1/T0 + ln(R'/R0)/B = 1/T0 + (1 + d)(1/T − 1/T0), so
     //   T' = 1/(1/T0 + (1 ± ΔB/B)(1/T − 1/T0)), and the error T' − T.
@@ -106,7 +106,7 @@ TEST_CASE("a B-value tolerance alone, model reading: the worst case is the exact
 }
 
 TEST_CASE("an R25 tolerance alone, model reading: the error is (dR/R)/|alpha| to first order") {
-    // alpha = −B/T² for the beta model (REFERENCES.md). Exactly, R' = R(1 ± d) gives
+    // alpha = −B/T² for the beta model (docs/sources.md). Exactly, R' = R(1 ± d) gives
     // 1/T' = 1/T + ln(1 ± d)/B; to first order |ΔT| = d/|alpha| = d·T²/B. The exact worst case (from
     // 1 − d) exceeds the first-order figure by about d/2 + T·d/B, under 0.6 % for d = 1 %.
     const double d = 0.01;
@@ -296,7 +296,7 @@ TEST_CASE("a normal spread with the tolerance as 3 sigma gives the normal distri
 
 TEST_CASE("a converter's resolution is one LSB over the output's slope, and its error half an LSB plus its bound") {
     // Divider-low, ratiometric: v = R/(R + rs), dv/dT = rs·R·alpha/(R + rs)² with alpha = −B/T²
-    // (by hand from REFERENCES.md). 12 bits: 1 LSB = 1/4096. The converter part of the error is, to
+    // (by hand from docs/sources.md). 12 bits: 1 LSB = 1/4096. The converter part of the error is, to
     // first order, (0.5 + error_lsb) LSB over the slope.
     rtline::BudgetSpec spec = nothing();
     spec.adc.bits = 12;

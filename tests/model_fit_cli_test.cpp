@@ -74,7 +74,7 @@ json run_json(const std::vector<std::string>& args, const std::string& input = "
     return json::parse(r.out);
 }
 
-// The beta equation, written out here from REFERENCES.
+// The beta equation, written out here from docs/sources.md.
 double beta_r(double r0, double t0_k, double b, double t_k) { return r0 * std::exp(b * (1.0 / t_k - 1.0 / t0_k)); }
 
 }  // namespace

@@ -8,7 +8,7 @@ Output: for each temperature, the body temperature rise and the error of two rea
   line:  the firmware reads the ratiometric output through the endpoint line over the span
          t_c[0]..t_c[-1] (unheated outputs at the ends): error = (v - intercept)/slope - T.
 The body temperature solves T_b = T + P(R(T_b))/delta with P = V^2 R/(R + rs)^2 (divider power,
-REFERENCES.md), found by scipy.optimize.brentq to full precision.
+docs/sources.md), found by scipy.optimize.brentq to full precision.
 """
 import json
 import math
