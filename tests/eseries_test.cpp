@@ -116,7 +116,7 @@ TEST_CASE("the whole E96 decade matches the list from memory and the rounding ru
     REQUIRE(remembered.size() == 96);
     for (int j = 0; j < 96; ++j) CHECK(remembered[static_cast<std::size_t>(j)] == rule_hundredths(j, 96));
     CHECK(hundredths(series_mantissas(Series::e96)) == remembered);
-    // Spot values named in the task: 1.00 1.02 1.05 … 4.99 … 9.76.
+    // Spot values of IEC 60063 E96 (from memory): 1.00 1.02 1.05 … 4.99 … 9.76.
     const std::vector<double> e96 = series_mantissas(Series::e96);
     CHECK(e96[0] == 1.00);
     CHECK(e96[1] == 1.02);

@@ -86,7 +86,7 @@ TEST_CASE("rtline model --format json opens with tool, version, schema and comma
     const std::vector<std::string> first = {"tool", "version", "schema", "command"};
     std::vector<std::string> keys;
     for (auto it = doc.begin(); it != doc.end() && keys.size() < 4; ++it) keys.push_back(it.key());
-    CHECK(keys == first);  // DESIGN.md: JSON documents open with these four keys
+    CHECK(keys == first);  // docs/json.md: JSON documents open with these four keys
     CHECK(doc["tool"] == "rtline");
     CHECK(doc["version"].is_string());
     CHECK(doc["schema"] == 1);

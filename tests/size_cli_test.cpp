@@ -92,7 +92,7 @@ TEST_CASE("size --format json carries the continuous optimum, the closed forms a
     CHECK(doc["schema"] == 1);
     CHECK(doc["command"] == "size");
     REQUIRE(doc.contains("version"));
-    // "continuous": {"resistors_ohm", "max_nonlinearity_pct_fsd"} (issue 4)
+    // "continuous": {"resistors_ohm", "max_nonlinearity_pct_fsd"} (docs/json.md, docs/size.md)
     const json& cont = doc["continuous"];
     REQUIRE(cont["resistors_ohm"].contains("rs"));
     const double rs_cont = cont["resistors_ohm"]["rs"];
