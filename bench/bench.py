@@ -1,5 +1,5 @@
 #!/usr/bin/python3
-"""Whole-process benchmarks of rtline (issue 9), with the numpy yardstick run in the same invocation.
+"""Whole-process benchmarks of rtline (docs/performance.md), with the numpy yardstick run in the same invocation.
 
   1  size, shunt-divider, E96 over 100 ohm..1 Mohm (148 225 pairs), 0..100 C at 0.25 C (401 points), --top 1
   2  the same for shunt-bridge with E192 (591 361 pairs)

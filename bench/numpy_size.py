@@ -2,7 +2,7 @@
 """A straightforward vectorized numpy search over standard resistor pairs, the yardstick for rtline size.
 
 Written from the published equations, not from rtline's code:
-  beta model      R_T = R25 * exp(B * (1/T - 1/T25))                        (REFERENCES.md)
+  beta model      R_T = R25 * exp(B * (1/T - 1/T25))                        (docs/sources.md)
   E-series        IEC 60063: E48..E192 mantissas 10**(i/n) rounded to three figures, E192 i = 185 is 9.20
   shunt-divider   v = rs / (rs + R_T || rp)                                 (Pallas-Areny & Webster eq. 2.32)
   shunt-bridge    v = Rx/(r1 + Rx) - r3/(r2 + r3), Rx = R_T || rp, r2 = r1 and r3 = Rx at the span's

@@ -1,5 +1,5 @@
 #!/bin/sh
-# Whole-process benchmarks of issue 9 (see bench/bench.py): builds rtline in Release (at most -j2: the
+# Whole-process benchmarks (see bench/bench.py and docs/performance.md): builds rtline in Release (at most -j2: the
 # machine is shared) and prints the median times, the numpy yardstick and their ratio.
 # Usage: bench/run.sh [BUILD_DIR] [bench.py options, e.g. --runs 21 --only 1]
 # Not a test: never run by ctest.

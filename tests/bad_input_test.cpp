@@ -1,4 +1,4 @@
-// The catalogue of malformed input (issue 8): every command refuses a mistyped value, a broken R–T
+// The catalogue of malformed input: every command refuses a mistyped value, a broken R–T
 // file, a broken spec file or a broken JSON Lines batch with exit code 2, exactly one line on stderr
 // naming the flag or field and the offending value, and nothing on stdout. The messages are checked
 // whole: they are what an engineer reads. Files are given on stdin ('-'), so they are named "stdin".

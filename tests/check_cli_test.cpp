@@ -1,4 +1,4 @@
-// `rtline check` as a user runs it: the JSON keys issue 3 fixes, the reference line named in every
+// `rtline check` as a user runs it: its documented JSON keys, the reference line named in every
 // format, the bridge null, CSV shape, and one-line errors for bad input (exit 2, nothing on stdout).
 #include <doctest/doctest.h>
 
@@ -57,7 +57,7 @@ std::vector<std::string> fields(const std::string& line) {
 
 }  // namespace
 
-TEST_CASE("check --format json carries exactly the keys issue 3 lists") {
+TEST_CASE("check --format json carries exactly the documented keys (docs/json.md, docs/check.md)") {
     const json d = run_json(check({"--span", "0:40", "--step", "10", "--circuit", "divider-low", "--rs", "10k",
                                    "--excitation", "3.3", "--dissipation", "2", "--format", "json"}));
     CHECK(d["tool"] == "rtline");

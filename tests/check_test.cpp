@@ -103,7 +103,7 @@ TEST_CASE("a divider-low's sensitivity matches the analytic derivative at every 
 }
 
 TEST_CASE("a driven divider's thermistor power is V²·R_T/(rs + R_T)², at most V²/(4·rs) where R_T = rs") {
-    // REFERENCES.md (dissipation): P = V²·R_T/(R + R_T)², largest V²/(4R) at R_T = R. With 3.3 V and
+    // docs/sources.md (dissipation): P = V²·R_T/(R + R_T)², largest V²/(4R) at R_T = R. With 3.3 V and
     // rs = 10 kΩ = R25 the grid holds R_T = rs at 25 °C: 3.3²/40000 = 2.7225e-4 W.
     const double rs = 10e3;
     Circuit c = circuit(Topology::divider_low, rs);
@@ -122,7 +122,7 @@ TEST_CASE("a driven divider's thermistor power is V²·R_T/(rs + R_T)², at most
 }
 
 TEST_CASE("self-heating is the power over the dissipation constant, P/δ") {
-    // δ = 1.5 mW/K (a small epoxy chip, common practice, REFERENCES.md). Largest: 2.7225e-4/1.5e-3 = 0.1815 K.
+    // δ = 1.5 mW/K (a small epoxy chip, common practice, docs/sources.md). Largest: 2.7225e-4/1.5e-3 = 0.1815 K.
     Circuit c = circuit(Topology::divider_high, 10e3);
     c.excitation = {Drive::voltage, 3.3};
     const rtline::Grid grid = rtline::make_grid(kNtc, span_c(0.0, 50.0), 5.0);

@@ -29,7 +29,7 @@ std::vector<int> hundredths(const std::vector<double>& mantissas) {
 }  // namespace
 
 TEST_CASE("E3, E6, E12 and E24 are exactly the IEC 60063 lists") {
-    // IEC 60063:2015, as quoted in REFERENCES.md.
+    // IEC 60063:2015, as quoted in docs/sources.md.
     CHECK(hundredths(series_mantissas(Series::e3)) == std::vector<int>{100, 220, 470});
     CHECK(hundredths(series_mantissas(Series::e6)) == std::vector<int>{100, 150, 220, 330, 470, 680});
     CHECK(hundredths(series_mantissas(Series::e12)) ==
@@ -42,7 +42,7 @@ TEST_CASE("E3, E6, E12 and E24 are exactly the IEC 60063 lists") {
 }
 
 TEST_CASE("eight E24 values depart from 10^(i/24) rounded to two figures, so E24 cannot be derived") {
-    // REFERENCES.md: "eight of these differ from 10^(i/24) rounded". The rule computed here; the
+    // docs/sources.md: "eight of these differ from 10^(i/24) rounded". The rule computed here; the
     // departures (by hand: 2.61→2.7, 2.87→3.0, 3.16→3.3, 3.48→3.6, 3.83→3.9, 4.22→4.3, 4.64→4.7, 8.25→8.2).
     const std::vector<int> e24 = hundredths(series_mantissas(Series::e24));
     REQUIRE(e24.size() == 24);
@@ -74,7 +74,7 @@ TEST_CASE("each series has its number of values per decade, ascending from 1.00 
 TEST_CASE("E192 follows 10^(i/192) to three figures except i = 185, which is 9.20 (the formula gives 9.19)") {
     const std::vector<int> e192 = hundredths(series_mantissas(Series::e192));
     REQUIRE(e192.size() == 192);
-    // IEC 60063 (REFERENCES.md): the one exception. The rule computed here gives 919.
+    // IEC 60063 (docs/sources.md): the one exception. The rule computed here gives 919.
     CHECK(rule_hundredths(185, 192) == 919);
     CHECK(e192[185] == 920);
     for (int i = 0; i < 192; ++i) {
@@ -89,7 +89,7 @@ TEST_CASE("E192 follows 10^(i/192) to three figures except i = 185, which is 9.2
 }
 
 TEST_CASE("E96 is every second E192 value and E48 every fourth") {
-    // IEC 60063 (REFERENCES.md).
+    // IEC 60063 (docs/sources.md).
     const std::vector<double> e192 = series_mantissas(Series::e192);
     const std::vector<double> e96 = series_mantissas(Series::e96);
     const std::vector<double> e48 = series_mantissas(Series::e48);
@@ -116,7 +116,7 @@ TEST_CASE("the whole E96 decade matches the list from memory and the rounding ru
     REQUIRE(remembered.size() == 96);
     for (int j = 0; j < 96; ++j) CHECK(remembered[static_cast<std::size_t>(j)] == rule_hundredths(j, 96));
     CHECK(hundredths(series_mantissas(Series::e96)) == remembered);
-    // Spot values named in the task: 1.00 1.02 1.05 … 4.99 … 9.76.
+    // Spot values of IEC 60063 E96 (from memory): 1.00 1.02 1.05 … 4.99 … 9.76.
     const std::vector<double> e96 = series_mantissas(Series::e96);
     CHECK(e96[0] == 1.00);
     CHECK(e96[1] == 1.02);
@@ -188,7 +188,7 @@ TEST_CASE("parse_series accepts E3 to E192 in either case and names the field wh
 }
 
 TEST_CASE("nominal tolerances follow the customary pairing") {
-    // REFERENCES.md: E6 20 %, E12 10 %, E24 5 %, E48 2 %, E96 1 %, E192 0.5 %.
+    // docs/sources.md: E6 20 %, E12 10 %, E24 5 %, E48 2 %, E96 1 %, E192 0.5 %.
     CHECK(nominal_tolerance_pct(Series::e6) == 20.0);
     CHECK(nominal_tolerance_pct(Series::e12) == 10.0);
     CHECK(nominal_tolerance_pct(Series::e24) == 5.0);

@@ -1,4 +1,4 @@
-// Numerical guards (issue 8): every command, over extreme but valid designs — spans hundreds of
+// Numerical guards: every command, over extreme but valid designs — spans hundreds of
 // kelvin wide, thermistors from 1e-200 ohm to 1e200 ohm — prints only finite numbers in text, CSV,
 // JSON and C. A NaN or an infinity in a result is a defect even when the run "succeeds".
 #include <doctest/doctest.h>

@@ -61,7 +61,7 @@ std::string refusal(Fit&& fit) {
 }  // namespace
 
 TEST_CASE("three-point Steinhart-Hart coefficients reproduce their three points within 1 uK") {
-    // The closed form of REFERENCES (Lᵢ = ln Rᵢ, Yᵢ = 1/Tᵢ, γ₂, γ₃, C, B, A); points of our own.
+    // The closed form of docs/sources.md (Lᵢ = ln Rᵢ, Yᵢ = 1/Tᵢ, γ₂, γ₃, C, B, A); points of our own.
     struct Case {
         RtPoint p1, p2, p3;
     };
@@ -137,7 +137,7 @@ TEST_CASE("least squares on scattered points matches numpy.linalg.lstsq on the s
 
 TEST_CASE("the beta fit on points from a beta model recovers R0 and B with ~0 residuals") {
     // Points from R = R0·exp(B(1/T − 1/T0)) with our own R0 = 22 kΩ, B = 3700 K (as Steinhart–Hart,
-    // A = 1/T0 − ln R0/B, B_sh = 1/B, C = 0: REFERENCES).
+    // A = 1/T0 − ln R0/B, B_sh = 1/B, C = 0: docs/sources.md).
     const BetaModel known{22e3, 298.15, 3700.0};
     const std::vector<RtPoint> pts = points_from(to_steinhart_hart(known), every(-20.0, 100.0, 10.0));
     const BetaFit fit = fit_beta(pts, 298.15);

@@ -74,7 +74,7 @@ json run_json(const std::vector<std::string>& args, const std::string& input = "
     return json::parse(r.out);
 }
 
-// The beta equation, written out here from REFERENCES.
+// The beta equation, written out here from docs/sources.md.
 double beta_r(double r0, double t0_k, double b, double t_k) { return r0 * std::exp(b * (1.0 / t_k - 1.0 / t0_k)); }
 
 }  // namespace
@@ -86,7 +86,7 @@ TEST_CASE("rtline model --format json opens with tool, version, schema and comma
     const std::vector<std::string> first = {"tool", "version", "schema", "command"};
     std::vector<std::string> keys;
     for (auto it = doc.begin(); it != doc.end() && keys.size() < 4; ++it) keys.push_back(it.key());
-    CHECK(keys == first);  // DESIGN.md: JSON documents open with these four keys
+    CHECK(keys == first);  // docs/json.md: JSON documents open with these four keys
     CHECK(doc["tool"] == "rtline");
     CHECK(doc["version"].is_string());
     CHECK(doc["schema"] == 1);

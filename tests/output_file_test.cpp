@@ -1,4 +1,4 @@
-// -o FILE (issue 8): every command writes its result to a temporary file beside FILE and renames it
+// -o FILE: every command writes its result to a temporary file beside FILE and renames it
 // into place once complete, so a failed run — bad input, no feasible design, a file that cannot be
 // replaced — leaves an existing FILE exactly as it was, and no temporary file stays behind.
 #include <doctest/doctest.h>

@@ -33,7 +33,7 @@ json run_json(const std::vector<std::string>& args) {
     return json::parse(r.out);
 }
 
-// The beta equation (REFERENCES.md), written here.
+// The beta equation (docs/sources.md), written here.
 double beta_r(double r25, double b, double t_k) { return r25 * std::exp(b * (1.0 / t_k - 1.0 / kT25)); }
 
 std::vector<double> temps(double lo_c, double hi_c) {
@@ -44,7 +44,7 @@ std::vector<double> temps(double lo_c, double hi_c) {
 
 // A greenhouse divider-low driven by `volts`, by the formulas (written here): v = V·R_T/(rs + R_T);
 // endpoint line and %FSD per Bentley §2.1; error = deviation / line slope (K, = °C of difference);
-// |dv/dT| = V·rs·R_T·B/(T²(rs + R_T)²) (by hand from the beta equation); P = V²R_T/(rs + R_T)² (REFERENCES.md).
+// |dv/dT| = V·rs·R_T·B/(T²(rs + R_T)²) (by hand from the beta equation); P = V²R_T/(rs + R_T)² (docs/sources.md).
 struct Divider {
     double nl = 0, error_c = 0, span = 0, sens_min = INFINITY, sens_max = 0, power = 0;
 };
@@ -71,7 +71,7 @@ Divider divider_low(double rs, double volts) {
     return d;
 }
 
-// Every E24 value from 1 Ω to 10 MΩ, from the IEC 60063 list (REFERENCES.md) written here.
+// Every E24 value from 1 Ω to 10 MΩ, from the IEC 60063 list (docs/sources.md) written here.
 std::vector<double> e24_values() {
     const int m[] = {10, 11, 12, 13, 15, 16, 18, 20, 22, 24, 27, 30, 33, 36, 39, 43, 47, 51, 56, 62, 68, 75, 82, 91};
     std::vector<double> v;
@@ -92,7 +92,7 @@ TEST_CASE("size --format json carries the continuous optimum, the closed forms a
     CHECK(doc["schema"] == 1);
     CHECK(doc["command"] == "size");
     REQUIRE(doc.contains("version"));
-    // "continuous": {"resistors_ohm", "max_nonlinearity_pct_fsd"} (issue 4)
+    // "continuous": {"resistors_ohm", "max_nonlinearity_pct_fsd"} (docs/json.md, docs/size.md)
     const json& cont = doc["continuous"];
     REQUIRE(cont["resistors_ohm"].contains("rs"));
     const double rs_cont = cont["resistors_ohm"]["rs"];

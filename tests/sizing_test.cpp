@@ -20,7 +20,7 @@ constexpr double kT25 = 298.15;  // 25 °C in kelvin (SI)
 
 Thermistor beta_model(double r25, double b) { return Thermistor(BetaModel{r25, kT25, b}); }
 
-// The beta equation (REFERENCES.md), written here: R(T) = R25·exp(B(1/T − 1/T25)).
+// The beta equation (docs/sources.md), written here: R(T) = R25·exp(B(1/T − 1/T25)).
 double beta_r(double r25, double b, double t_k) { return r25 * std::exp(b * (1.0 / t_k - 1.0 / kT25)); }
 
 Span span_c(double lo_c, double hi_c) { return {lo_c + 273.15, hi_c + 273.15}; }
@@ -50,7 +50,7 @@ struct Brute {
 };
 
 // A divider-low over the grid of a beta thermistor, by the formulas (written here):
-// v = R_T/(rs + R_T); P = V²·R_T/(rs + R_T)² (REFERENCES.md, dissipation); |dv/dT| = rs·R_T·B/(T²(rs + R_T)²)
+// v = R_T/(rs + R_T); P = V²·R_T/(rs + R_T)² (docs/sources.md, dissipation); |dv/dT| = rs·R_T·B/(T²(rs + R_T)²)
 // (dv/dR_T = rs/(rs + R_T)², dR_T/dT = −B·R_T/T², by hand from the beta equation).
 Brute brute_divider_low(double rs, const std::vector<double>& t, double r25, double b, double volts) {
     std::vector<double> y;
@@ -177,7 +177,7 @@ TEST_CASE("the one-resistor continuous optimum matches scipy's minimize_scalar o
         const double f_ref = ref[i]["max_nonlinearity_pct_fsd"];
         CAPTURE(r);
         CAPTURE(r_ref);
-        CHECK(std::abs(r / r_ref - 1.0) < 1e-3);  // the task: within 0.1 % of scipy
+        CHECK(std::abs(r / r_ref - 1.0) < 1e-3);  // within 0.1 % of scipy (our own tolerance: the optimum is flat)
         CHECK(ours.max_nonlinearity_pct_fsd == doctest::Approx(f_ref).epsilon(1e-6));
         // At least as good as the values 1e-5 either side (the optimum is resolved finer than that).
         for (const double k : {1.0 - 1e-5, 1.0 + 1e-5}) {
@@ -339,8 +339,8 @@ TEST_CASE("no inflection value when B <= 2 Tc") {
 }
 
 TEST_CASE("a Steinhart-Hart model uses its local B at the span's centre") {
-    // Local B = −alpha·T² (REFERENCES.md). From 1/T = A + B·L + C·L³, L = ln R: dL/dT = −1/(T²(B + 3C·L²)),
-    // so local B = 1/(B + 3C·L²) (by hand). L at Tc from the Cardano solution (REFERENCES.md).
+    // Local B = −alpha·T² (docs/sources.md). From 1/T = A + B·L + C·L³, L = ln R: dL/dT = −1/(T²(B + 3C·L²)),
+    // so local B = 1/(B + 3C·L²) (by hand). L at Tc from the Cardano solution (docs/sources.md).
     const SteinhartHart sh{1.10e-3, 2.40e-4, 7.5e-8};  // coefficients of our own
     const Span span = span_c(20, 90);                  // water heater, centre 55 °C
     const double tc = span.centre_k();
@@ -500,7 +500,7 @@ TEST_CASE("the best shunt-divider pair is not made of neighbours of the continuo
 }
 
 TEST_CASE("a power limit makes the best standard value one far from the continuous optimum") {
-    // Greenhouse divider at 3.3 V with at most 1 µW in the thermistor. P = V²R_T/(rs + R_T)² (REFERENCES.md)
+    // Greenhouse divider at 3.3 V with at most 1 µW in the thermistor. P = V²R_T/(rs + R_T)² (docs/sources.md)
     // is far above 1 µW near the continuous optimum (about 8.5 kΩ: V²/4R ≈ 0.3 mW), so its neighbours
     // 8k2 and 9k1 are removed and the best feasible value lies over a decade away (P ≈ V²/rs there),
     // where nonlinearity is much worse: a search over the optimum's neighbours would find nothing.
@@ -568,7 +568,7 @@ TEST_CASE("each constraint removes exactly the candidates a brute force says it 
         {"max power 0.4 mW", power, 0.0, "--max-power"},
         {"min span 1.85 V", span, 0.0, "--min-span"},
         {"min sensitivity 40 mV/K", sens, 0.0, "--min-sensitivity"},
-        // δ = 1 mW/K, a small epoxy chip in still air (common practice, REFERENCES.md): 0.3 K is 0.3 mW.
+        // δ = 1 mW/K, a small epoxy chip in still air (common practice, docs/sources.md): 0.3 K is 0.3 mW.
         {"max self-heating 0.3 K at 1 mW/K", heat, 1e-3, "--max-self-heating"},
     };
     for (const ConstraintCase& c : cases) {

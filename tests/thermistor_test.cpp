@@ -1,6 +1,6 @@
 // The thermistor models: the beta equation, Steinhart–Hart with its closed-form inverse, and the
 // table model. Check values come from hand calculations written out beside them, the published
-// equations in REFERENCES.md, and scipy.interpolate.PchipInterpolator (tests/ref/pchip.py).
+// equations in docs/sources.md, and scipy.interpolate.PchipInterpolator (tests/ref/pchip.py).
 // Coefficient sets are our own, of the magnitudes a 10 kΩ-class NTC has (A ≈ 1e-3, B ≈ 2.4e-4,
 // C ≈ 1e-7); no datasheet values.
 #include <doctest/doctest.h>
@@ -69,12 +69,12 @@ TEST_CASE("the beta model's inverse holds for a resistance 400 decades from R0")
     CHECK(beta_temperature(m, 1e-200) == doctest::Approx(want).epsilon(1e-12));
     CHECK(Thermistor(m).temperature(1e-200) == doctest::Approx(want).epsilon(1e-12));
     // An ordinary ratio keeps the one logarithm: to the last bit the beta equation's inverse as
-    // REFERENCES.md writes it, 1/T = 1/T0 + ln(R/R0)/B.
+    // docs/sources.md writes it, 1/T = 1/T0 + ln(R/R0)/B.
     CHECK(beta_temperature(BetaModel{10e3, 298.15, 3500.0}, 5e3) == 1.0 / (1.0 / 298.15 + std::log(0.5) / 3500.0));
 }
 
 TEST_CASE("the B-value between two temperatures recovers B for the beta model") {
-    // B = ln(R1/R2)/(1/T1 − 1/T2) (REFERENCES: B-value between two temperatures); for the beta model
+    // B = ln(R1/R2)/(1/T1 − 1/T2) (docs/sources.md: B-value between two temperatures); for the beta model
     // ln(R1/R2) = B·(1/T1 − 1/T2), so the ratio is B itself for any pair.
     const Thermistor th(BetaModel{10e3, 298.15, 3950.0});
     CHECK(beta_between(th, 298.15, 358.15) == doctest::Approx(3950.0).epsilon(1e-12));  // B25/85
@@ -90,7 +90,7 @@ TEST_CASE("the B-value of a Steinhart-Hart model with C = 0 is 1/B_sh between an
 }
 
 TEST_CASE("alpha of the beta model is -B/T^2") {
-    // alpha = (1/R)·dR/dT = −B/T² (REFERENCES). At 0 °C with B = 3500 K:
+    // alpha = (1/R)·dR/dT = −B/T² (docs/sources.md). At 0 °C with B = 3500 K:
     //   −3500 / 273.15² = −3500 / 74610.9225 = −0.04691002 K⁻¹
     const Thermistor th(BetaModel{10e3, 298.15, 3500.0});
     CHECK(th.alpha(273.15) == doctest::Approx(-0.04691002).epsilon(1e-7));
@@ -152,7 +152,7 @@ TEST_CASE("Steinhart-Hart R(T) satisfies the forward equation at every temperatu
 }
 
 TEST_CASE("the beta model written as Steinhart-Hart has the published coefficients") {
-    // A = 1/T0 − ln(R0)/B, B_sh = 1/B, C = 0 (REFERENCES). R0 = 10 kΩ, T0 = 298.15 K, B = 3500 K:
+    // A = 1/T0 − ln(R0)/B, B_sh = 1/B, C = 0 (docs/sources.md). R0 = 10 kΩ, T0 = 298.15 K, B = 3500 K:
     //   1/298.15 = 3.35401644e-3; ln(1e4) = 9.21034037; 9.21034037/3500 = 2.63152582e-3
     //   A = 7.2249062e-4;  B_sh = 1/3500 = 2.85714286e-4
     const SteinhartHart sh = to_steinhart_hart(BetaModel{10e3, 298.15, 3500.0});

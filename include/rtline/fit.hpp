@@ -27,7 +27,7 @@ struct BetaFit {
     double max_residual_k = 0.0;
 };
 
-// Coefficients through three points exactly (Lᵢ = ln Rᵢ, Yᵢ = 1/Tᵢ; the closed form in REFERENCES).
+// Coefficients through three points exactly (Lᵢ = ln Rᵢ, Yᵢ = 1/Tᵢ; the closed form in docs/sources.md).
 // Requires three distinct temperatures with distinct resistances.
 [[nodiscard]] SteinhartHart steinhart_hart_three_point(const RtPoint& p1, const RtPoint& p2, const RtPoint& p3);
 

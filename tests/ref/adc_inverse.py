@@ -1,7 +1,7 @@
 """Exact temperature at every code of a ratiometric ADC reading a thermistor divider.
 
 Written from the published equations, independently of rtline's C++:
-  - beta model (REFERENCES.md): R(T) = R0 * exp(B * (1/T - 1/T0)), T in kelvin, so
+  - beta model (docs/sources.md): R(T) = R0 * exp(B * (1/T - 1/T0)), T in kelvin, so
     T(R) = 1 / (1/T0 + ln(R/R0) / B);
   - the divider's output ratio by Ohm's law (loads in parallel with the lower leg):
       divider-high:  v = B / (R_T + B),  B = rs || load
