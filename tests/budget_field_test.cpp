@@ -265,7 +265,7 @@ TEST_CASE("converter gain and offset alone: their change of reading over the out
 TEST_CASE("the lead resistance is part of the circuit: check shows its shift, the table's inverse subtracts it") {
     // A bare thermistor on 5 ohm of loop read by firmware that ignores the wires reads the model's
     // temperature at R + 5: to first order 5/(alpha·R) (beta equation), negative (reads cold).
-    const auto r = run_rtline({"check", "--r25", "10k", "--beta", "3950", "--span", "20:60", "--step", "40",
+    const auto r = run_rtline({"check", "--r25", "10k", "--beta", "3950", "--span", "20:60", "--step", "10",
                                "--circuit", "divider-low", "--rs", "10k", "--lead", "5", "--format", "json"});
     INFO(r.err);
     REQUIRE(r.code == 0);

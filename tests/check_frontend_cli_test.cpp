@@ -77,7 +77,7 @@ TEST_CASE("check reports a divider's source impedance and the settling error exp
 TEST_CASE("a sample that does not settle to half an LSB is warned about on stderr, the report still written") {
     // A 100k part at -40 °C behind 47k: about 46.6 kΩ into 15 pF for 1 µs leaves hundreds of LSB.
     const auto r =
-        run_rtline({"check", "--r25", "100k", "--beta", "4250", "--span", "-40:20", "--step", "20", "--circuit",
+        run_rtline({"check", "--r25", "100k", "--beta", "4250", "--span", "-40:20", "--step", "10", "--circuit",
                     "divider-low", "--rs", "47k", "--sample-cap", "15p", "--acquisition", "1u"});
     REQUIRE(r.code == 0);
     CHECK(r.err.find("rtline: warning: the sample does not settle") != std::string::npos);
@@ -87,7 +87,7 @@ TEST_CASE("a sample that does not settle to half an LSB is warned about on stder
 }
 
 TEST_CASE("check --format csv appends the front end's columns") {
-    const auto r = run_rtline(check({"--span", "0:40", "--step", "20", "--circuit", "bridge", "--r1", "10k",
+    const auto r = run_rtline(check({"--span", "0:40", "--step", "10", "--circuit", "bridge", "--r1", "10k",
                                      "--excitation", "5", "--gain", "10", "--offset", "2.5", "--format", "csv"}));
     REQUIRE(r.code == 0);
     const std::string header = r.out.substr(0, r.out.find('\n'));
@@ -120,7 +120,7 @@ TEST_CASE("front end misuse is one line on stderr, exit 2, nothing on stdout") {
 
 TEST_CASE("a current-driven bare thermistor reaches the converter as I times R_T") {
     const json j =
-        run_json(check({"--span", "15:35", "--step", "10", "--circuit", "bare", "--current", "100u", "--adc-ref", "2.5",
+        run_json(check({"--span", "15:35", "--step", "5", "--circuit", "bare", "--current", "100u", "--adc-ref", "2.5",
                         "--adc-bits", "12", "--sample-cap", "10p", "--acquisition", "2u", "--format", "json"}));
     const json& fe = j["front_end"];
     CHECK(fe["full_scale"].get<double>() == 2.5);
@@ -130,5 +130,5 @@ TEST_CASE("a current-driven bare thermistor reaches the converter as I times R_T
         CHECK(p["converter_input"].get<double>() == doctest::Approx(100e-6 * r_t).epsilon(1e-12));
         CHECK(p["source_ohm"].get<double>() == doctest::Approx(r_t).epsilon(1e-12));
     }
-    CHECK(fe["points"][1]["converter_input"].get<double>() == doctest::Approx(1.0).epsilon(1e-12));
+    CHECK(fe["points"][2]["converter_input"].get<double>() == doctest::Approx(1.0).epsilon(1e-12));
 }

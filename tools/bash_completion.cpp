@@ -43,11 +43,11 @@ std::map<std::string, Choices> choice_table() {
     t["--adc-transfer"] = {{"rounding", "truncating", "full-scale"}, true};
     t["--format"] = {{"text", "json", "csv"}, false};
     t["--model"] = {{"sh", "beta", "table"}, false};  // fit takes the first two; see below
-    t["--spacing"] = {{"code", "error"}, false};
+    t["--spacing"] = {{"code", "error", "power-of-two"}, false};
     t["--fit"] = {{"least-squares", "minimax"}, false};
     t["--emit"] = {{"c"}, false};
     t["--unit"] = {{"0.1", "0.01"}, false};
-    t["--distribution"] = {{"normal", "uniform"}, false};
+    t["--distribution"] = {{"normal", "normal-truncated", "uniform"}, false};
     t["--reading"] = {{"model", "line"}, false};
     t["--adc-ref"] = {{"excitation"}, false};  // or a voltage of the user's own
     return t;
