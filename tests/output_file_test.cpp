@@ -164,3 +164,15 @@ TEST_CASE("a reader that goes away ends the run quietly, as SIGPIPE does for Uni
     CHECK(r.out == "beta model: R25 = 10k ohm, B = 3950 K\n");
     CHECK(r.err.empty());
 }
+
+TEST_CASE("-o refuses a device as the target: the rename would replace it") {
+    // /dev/null is a character device on every Linux system (POSIX requires it); as root the rename
+    // of the temporary file would have replaced it with a plain file.
+    const std::string target = "/dev/null";
+    const auto r = run_rtline({"model", "--r25", "10k", "--beta", "3950", "--span", "0:50", "-o", target});
+    CHECK(r.code == 2);
+    CHECK(r.out.empty());
+    CHECK(r.err ==
+          "rtline: -o '/dev/null': is not a regular file (a device, a pipe or a socket); for stdout leave the flag out\n");
+    CHECK(std::filesystem::is_character_file("/dev/null"));
+}

@@ -208,6 +208,14 @@ void emit_all(const std::vector<Output>& outputs) {
     for (const Output& o : outputs) {
         if (to_stdout(o)) continue;
         const fs::path target(o.path);
+        // The rename below would replace a device (as root, -o /dev/null would replace the device with a
+        // file), so a target that exists is a regular file (a folder is refused at the rename).
+        std::error_code kind_ec;
+        const fs::file_status kind = fs::status(target, kind_ec);
+        if (fs::exists(kind) && !fs::is_regular_file(kind) && !fs::is_directory(kind)) {
+            discard();
+            throw InputError(o.flag, o.path, "is not a regular file (a device, a pipe or a socket); for stdout leave the flag out");
+        }
         const fs::path temp = target.parent_path() / (target.filename().string() + ".tmp" + std::to_string(rd()));
         pending.push_back({temp, target, &o});
         std::ofstream out(temp, std::ios::binary | std::ios::trunc);
