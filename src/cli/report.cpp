@@ -10,6 +10,7 @@
 #include <iostream>
 #include <random>
 #include <stdexcept>
+#include <string_view>
 
 #include "rtline/error.hpp"
 #include "rtline/units.hpp"
@@ -96,6 +97,42 @@ std::string Table::csv() const {
             if (c > 0) out += ',';
             out += csv_cell(row[c]);
         }
+        out += '\n';
+    }
+    return out;
+}
+
+std::string markdown_escape(const std::string& s) {
+    std::string out;
+    for (const char ch : s) {
+        if (ch == '\n' || ch == '\r') {
+            out += ' ';
+            continue;
+        }
+        if (std::string_view("|\\*_`<>").find(ch) != std::string_view::npos) out += '\\';
+        out += ch;
+    }
+    return out;
+}
+
+std::string Table::markdown() const {
+    std::string out = "|";
+    auto put = [&out](const std::string& cell) {
+        out += ' ';
+        out += markdown_escape(cell);
+        out += " |";
+    };
+    for (const Column& c : columns_) put(c.text_header);
+    out += "\n|";
+    for (std::size_t c = 0; c < columns_.size(); ++c) {
+        // Text columns (a label in the first row) align left, numbers right.
+        const bool text = !rows_.empty() && std::holds_alternative<std::string>(rows_.front()[c]);
+        out += text ? " --- |" : " ---: |";
+    }
+    out += '\n';
+    for (const auto& row : rows_) {
+        out += '|';
+        for (std::size_t c = 0; c < columns_.size(); ++c) put(text_cell(columns_[c], row[c]));
         out += '\n';
     }
     return out;
@@ -214,7 +251,8 @@ void emit_all(const std::vector<Output>& outputs) {
         const fs::file_status kind = fs::status(target, kind_ec);
         if (fs::exists(kind) && !fs::is_regular_file(kind) && !fs::is_directory(kind)) {
             discard();
-            throw InputError(o.flag, o.path, "is not a regular file (a device, a pipe or a socket); for stdout leave the flag out");
+            throw InputError(o.flag, o.path,
+                             "is not a regular file (a device, a pipe or a socket); for stdout leave the flag out");
         }
         const fs::path temp = target.parent_path() / (target.filename().string() + ".tmp" + std::to_string(rd()));
         pending.push_back({temp, target, &o});

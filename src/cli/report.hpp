@@ -37,11 +37,18 @@ public:
     [[nodiscard]] std::string text() const;
     // A header row and one row per entry, numbers with 10 significant figures; NaN is an empty field.
     [[nodiscard]] std::string csv() const;
+    // A pipe table as GitHub-flavoured Markdown renders it (a header row with the text headers and their
+    // units, a delimiter row, numbers right-aligned and printed as in text(); '|' in a cell is escaped).
+    [[nodiscard]] std::string markdown() const;
 
 private:
     std::vector<Column> columns_;
     std::vector<std::vector<Cell>> rows_;
 };
+
+// `s` made safe inside a Markdown table cell or running text: '|', '\\', '*', '_', '`', '<' and '>'
+// are backslash-escaped and line breaks become spaces.
+[[nodiscard]] std::string markdown_escape(const std::string& s);
 
 // A JSON document's opening keys: tool, version, schema, command.
 [[nodiscard]] Json document(const std::string& command);
