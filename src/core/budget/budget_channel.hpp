@@ -1,20 +1,16 @@
 // Private to the budget module: the channel (a design with everything that does not change from
 // trial to trial precomputed) and its error at one temperature for one set of parts, the bilinear maps
-// it rests on, the random number generator, and a small thread pool. Shared by the worst case and the
+// it rests on, and the random number generator. Shared by the worst case and the
 // Monte Carlo so that both evaluate exactly the same function.
 #pragma once
 
 #include <algorithm>
 #include <array>
-#include <atomic>
 #include <bit>
 #include <cmath>
 #include <cstdint>
-#include <exception>
 #include <limits>
-#include <mutex>
 #include <string>
-#include <thread>
 #include <type_traits>
 #include <vector>
 
@@ -563,31 +559,6 @@ private:
     double inv_slope_ = 0.0;
     double largest_reading_ = 0.0;
 };
-
-// Runs f(k, worker) for k in [0, n) on `threads` threads (the caller's included); rethrows the first
-// exception. Which worker runs which k varies; callers make their results independent of it.
-template <class F>
-void parallel_for(std::size_t n, unsigned threads, F&& f) {
-    const unsigned workers = static_cast<unsigned>(std::max<std::size_t>(1, std::min<std::size_t>(threads, n)));
-    std::atomic<std::size_t> next{0};
-    std::exception_ptr failure;
-    std::mutex failure_mutex;
-    auto work = [&](unsigned w) {
-        try {
-            for (std::size_t k; (k = next.fetch_add(1)) < n;) f(k, w);
-        } catch (...) {
-            const std::lock_guard<std::mutex> lock(failure_mutex);
-            if (!failure) failure = std::current_exception();
-            next.store(n);
-        }
-    };
-    std::vector<std::thread> pool;
-    pool.reserve(workers - 1);
-    for (unsigned w = 1; w < workers; ++w) pool.emplace_back(work, w);
-    work(0);
-    for (std::thread& t : pool) t.join();
-    if (failure) std::rethrow_exception(failure);
-}
 
 // Throws the InputError for a reading carried past the end of the output's range at t_k.
 [[noreturn]] void out_of_range(double t_k);

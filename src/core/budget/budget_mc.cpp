@@ -10,6 +10,7 @@
 #include <tuple>
 
 #include "budget/budget_channel.hpp"
+#include "parallel.hpp"
 #include "rtline/error.hpp"
 
 namespace rtline::budget_detail {
@@ -412,7 +413,7 @@ std::vector<McStats> monte_carlo(const Channel& ch, const BudgetSpec& spec, unsi
     if (trials > kPilotTrials) {
         Tails pilot(n);
         runner.run(0, kPilotTrials, nullptr, nullptr, tau, pilot);
-        parallel_for(n, threads, [&](std::size_t i, unsigned) {
+        detail::parallel_for(n, std::min<std::size_t>(threads, n), [&](std::size_t, std::size_t i) {
             std::vector<double>& v = pilot.kept[i];
             v.resize(pilot.count[i]);
             std::vector<double> a(v.size());
@@ -428,7 +429,7 @@ std::vector<McStats> monte_carlo(const Channel& ch, const BudgetSpec& spec, unsi
     const unsigned workers = static_cast<unsigned>(std::min<std::uint64_t>(std::max(1U, threads), blocks));
     std::vector<double> sums(2 * blocks * n, 0.0);
     std::vector<Tails> tails(workers, Tails(n));
-    parallel_for(blocks, workers, [&](std::size_t b, unsigned w) {
+    detail::parallel_for(blocks, workers, [&](std::size_t w, std::size_t b) {
         double* s1 = sums.data() + 2 * b * n;
         runner.run(b, trials_in(b, trials), s1, s1 + n, tau, tails[w]);
     });
@@ -446,7 +447,7 @@ std::vector<McStats> monte_carlo(const Channel& ch, const BudgetSpec& spec, unsi
         out[i].p99_865_k = o.signed_rank(rank_of_1e5(99865, trials));
     };
     std::vector<Order> scratch(workers);
-    parallel_for(n, workers, [&](std::size_t i, unsigned w) {
+    detail::parallel_for(n, std::min<std::size_t>(workers, n), [&](std::size_t w, std::size_t i) {
         McStats& m = out[i];
         double s1 = 0.0;
         double s2 = 0.0;
@@ -474,7 +475,7 @@ std::vector<McStats> monte_carlo(const Channel& ch, const BudgetSpec& spec, unsi
         Thresholds keep_all{std::vector<double>(n, INFINITY), std::vector<double>(n, -INFINITY)};
         for (const std::size_t i : redo) keep_all.hi[i] = -INFINITY;
         std::vector<Tails> again(workers, Tails(n));
-        parallel_for(blocks, workers, [&](std::size_t b, unsigned w) {
+        detail::parallel_for(blocks, workers, [&](std::size_t w, std::size_t b) {
             runner.run(b, trials_in(b, trials), nullptr, nullptr, keep_all, again[w]);
         });
         for (const std::size_t i : redo) bounds(i, again, keep_all, scratch[0]);
