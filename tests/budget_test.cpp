@@ -3,6 +3,7 @@
 // against `rtline check`, determinism across thread counts, and bad input.
 #include <doctest/doctest.h>
 
+#include <array>
 #include <cmath>
 #include <limits>
 #include <string>
@@ -200,6 +201,39 @@ TEST_CASE("self-heating agrees with an exact root of T_b = T + P(R(T_b))/delta (
     }
 }
 
+TEST_CASE("self-heating near the largest rise, R25 at its tolerance: the worst case agrees with scipy's root") {
+    // 10.5 V on a 10k/10k divider at 1.5 mW/K heats the thermistor by up to 10.5²/(4·10k)/1.5e-3 = 1.84 K
+    // (hand calculation), near kMaxSelfHeatingK. With R25 off by ±5 % the body temperature differs from the
+    // nominal parts' (where the budget's Newton starts) by the most a tolerance makes it; the model
+    // reading's error is monotonic in R25, so the worst low and high are the two ends, which
+    // tests/ref/budget_self_heating.py solves with scipy's brentq to 1e-14 K.
+    const std::vector<double> t_c = {-20, 0, 20, 40, 60};
+    std::array<json, 2> ends;
+    for (std::size_t k = 0; k < 2; ++k) {
+        ends[k] = python_ref("budget_self_heating.py", {{"r25_ohm", kR25},
+                                                        {"b_k", kB},
+                                                        {"rs_ohm", 10e3},
+                                                        {"supply_v", 10.5},
+                                                        {"dissipation_w_per_k", 1.5e-3},
+                                                        {"r25_factor", k == 0 ? 0.95 : 1.05},
+                                                        {"t_c", t_c}});
+    }
+    const json out =
+        run_json(with(design("20"), {"--excitation", "10.5", "--adc-ref", "excitation", "--dissipation", "1.5",
+                                     "--r25-tol", "5", "--beta-tol", "0", "--resistor-tol", "0", "--trials", "0"}));
+    REQUIRE(out["points"].size() == t_c.size());
+    for (std::size_t i = 0; i < t_c.size(); ++i) {
+        const json& p = out["points"][i];
+        CAPTURE(p["t_c"].get<double>());
+        const double a = ends[0]["points"][i]["off_model_error_k"].get<double>();
+        const double b = ends[1]["points"][i]["off_model_error_k"].get<double>();
+        CHECK(ends[0]["points"][i]["rise_k"].get<double>() > 0.5);
+        // 1e-9 K: the precision docs/budget.md states for the body temperature.
+        CHECK(std::abs(p["worst_low_c"].get<double>() - std::min(a, b)) < 1e-9);
+        CHECK(std::abs(p["worst_high_c"].get<double>() - std::max(a, b)) < 1e-9);
+    }
+}
+
 TEST_CASE("the line reading with zero tolerances equals rtline check's endpoint-line error at every point") {
     const std::vector<std::vector<std::string>> circuits = {
         {"--circuit", "divider-low", "--rs", "10k"},
@@ -369,9 +403,9 @@ TEST_CASE("the JSON carries the issue's keys, the assumptions, and null where a 
         CHECK(p["mc"][key].is_number());
     }
     for (const char* key : {"r25_c", "beta_c", "resistors_c"}) CHECK(p["components"][key].is_number());
-    for (const char* key : {"nonlinearity_c", "model_error_c", "thermistor_dt_c", "drift_c", "resistor_drift_c",
-                            "lead_c", "excitation_c", "reference_c", "adc_offset_c", "adc_gain_c", "adc_inl_c",
-                            "quantization_c", "self_heating_c"}) {
+    for (const char* key :
+         {"nonlinearity_c", "model_error_c", "thermistor_dt_c", "drift_c", "resistor_drift_c", "lead_c", "excitation_c",
+          "reference_c", "adc_offset_c", "adc_gain_c", "adc_inl_c", "quantization_c", "self_heating_c"}) {
         CHECK(p["components"][key].is_null());
     }
     CHECK(j["assumptions"]["truncated_at_tolerance"] == false);
@@ -403,8 +437,8 @@ TEST_CASE("the text output has a table per temperature with units, then the summ
                                "C)",
                                "resolution (\xC2\xB0"
                                "C/LSB)",
-                               "normal, tolerance = 3 sigma, not truncated", "can exceed the worst case", "2000 trials, seed 20250101", "worst case over the span",
-                               "largest cause there"}) {
+                               "normal, tolerance = 3 sigma, not truncated", "can exceed the worst case",
+                               "2000 trials, seed 20250101", "worst case over the span", "largest cause there"}) {
         CHECK(r.out.find(header) != std::string::npos);
     }
 }
@@ -426,7 +460,8 @@ TEST_CASE("bad budget flags exit 2, name the flag and the value, and print nothi
         {{"--excitation-tol", "1"},
          "--excitation-tol '1': applies only to a reading in volts (a drive read against a fixed --adc-ref); a "
          "ratiometric reading cancels the excitation"},
-        {{"--distribution", "gauss"}, "--distribution 'gauss': unknown distribution; choose normal, normal-truncated or uniform"},
+        {{"--distribution", "gauss"},
+         "--distribution 'gauss': unknown distribution; choose normal, normal-truncated or uniform"},
         {{"--reading", "table"}, "--reading 'table': unknown reading; choose model or line"},
         {{"--dissipation", "2"},
          "--dissipation '2': self-heating needs the real drive; give --excitation V (with --adc-ref excitation for "

@@ -1,7 +1,10 @@
 """Self-heating of a thermistor in a voltage divider, solved exactly with scipy.
 
 Input (JSON on stdin): r25_ohm, b_k (beta model at 25 degC), rs_ohm (series resistor, divider-low:
-rs from the supply to the output, thermistor to ground), supply_v, dissipation_w_per_k, t_c (list).
+rs from the supply to the output, thermistor to ground), supply_v, dissipation_w_per_k, t_c (list);
+optional r25_factor (default 1): the part's R25 is r25_ohm times it while the firmware inverts the
+nominal model, which adds the model reading's "off_model_error_k": the temperature the nominal divider and
+beta model give for the output, minus T.
 Output: for each temperature, the body temperature rise and the error of two readings:
   model: the firmware inverts the nominal divider and beta model exactly, so it reads the body
          temperature: error = T_body - T.
@@ -29,6 +32,11 @@ def main():
     def ratio(r):  # divider-low: output over supply
         return r / (r + rs)
 
+    factor = d.get("r25_factor", 1.0)
+
+    def part_resistance(t_k):
+        return factor * resistance(t_k)
+
     temps = [t + 273.15 for t in d["t_c"]]
     lo, hi = temps[0], temps[-1]
     slope = (ratio(resistance(hi)) - ratio(resistance(lo))) / (hi - lo)
@@ -42,8 +50,16 @@ def main():
 
         tb = brentq(balance, t, t + 50.0, xtol=1e-14, rtol=1e-15, maxiter=200)
         y = ratio(resistance(tb))
+        def part_balance(tb):
+            r = part_resistance(tb)
+            return tb - t - v * v * r / (r + rs) ** 2 / delta
+
+        tb_part = brentq(part_balance, t, t + 50.0, xtol=1e-14, rtol=1e-15, maxiter=200)
+        y_part = ratio(part_resistance(tb_part))
+        r_read = rs * y_part / (1.0 - y_part)  # the nominal divider inverted
+        t_read = 1.0 / (1.0 / T0 + math.log(r_read / r25) / b)  # the nominal beta model inverted
         out.append({"t_c": t - 273.15, "rise_k": tb - t, "model_error_k": tb - t,
-                    "line_error_k": (y - intercept) / slope - t})
+                    "line_error_k": (y - intercept) / slope - t, "off_model_error_k": t_read - t})
     json.dump({"points": out}, sys.stdout)
 
 

@@ -6,6 +6,8 @@
 #include <thread>
 
 #include "budget/budget_channel.hpp"
+#include "golden.hpp"
+#include "parallel.hpp"
 #include "rtline/error.hpp"
 
 namespace rtline {
@@ -283,7 +285,7 @@ private:
     // Improves best = sign·error from the parts `s` by coordinate scans; returns the best found.
     [[nodiscard]] double refine(double sign, Slots s, double best) const {
         constexpr int kScan = 8;
-        constexpr int kGolden = 48;
+        constexpr double kGoldenTolerance = 1e-10;
         for (int sweep = 0; sweep < 4; ++sweep) {
             bool improved = false;
             for (const Dim& d : dims_) {
@@ -300,32 +302,20 @@ private:
                 double u_best = u[k_best];
                 double v_best = v[k_best];
                 if (k_best > 0 && k_best < kScan) {
-                    // Golden-section search for the interior maximum bracketed by the scan.
-                    const double r = 0.5 * (std::sqrt(5.0) - 1.0);
-                    double a = u[k_best - 1];
-                    double b = u[k_best + 1];
-                    for (int it = 0; it < kGolden; ++it) {
-                        const double c = b - r * (b - a);
-                        const double e = a + r * (b - a);
-                        Slots tc = s;
-                        Slots te = s;
-                        tc[d.slot] = c;
-                        te[d.slot] = e;
-                        const double vc = sign * eval(tc);
-                        const double ve = sign * eval(te);
-                        if (vc > v_best) {
-                            v_best = vc;
-                            u_best = c;
-                        }
-                        if (ve > v_best) {
-                            v_best = ve;
-                            u_best = e;
-                        }
-                        if (vc > ve) {
-                            b = e;
-                        } else {
-                            a = c;
-                        }
+                    // The interior maximum bracketed by the scan, to 1e-10 of the bracket.
+                    const double a = u[k_best - 1];
+                    const double b = u[k_best + 1];
+                    double f_min = 0.0;
+                    const double u_golden = detail::golden_section_min(
+                        [&](double x) {
+                            Slots t = s;
+                            t[d.slot] = x;
+                            return -sign * eval(t);
+                        },
+                        a, b, kGoldenTolerance * (b - a), f_min);
+                    if (-f_min > v_best) {
+                        v_best = -f_min;
+                        u_best = u_golden;
                     }
                 }
                 if (v_best > best + 1e-13) {
@@ -485,7 +475,8 @@ Budget compute_budget(const Grid& grid, const Thermistor& model, const Circuit& 
     b.line = ch.line();
     b.lsb = ch.lsb();
     b.points.resize(ch.size());
-    parallel_for(ch.size(), threads, [&](std::size_t i, unsigned) { b.points[i] = point_bounds(ch, plain, spec, i); });
+    detail::parallel_for(ch.size(), std::min<std::size_t>(threads, ch.size()),
+                         [&](std::size_t, std::size_t i) { b.points[i] = point_bounds(ch, plain, spec, i); });
     if (spec.trials > 0) {
         const std::vector<McStats> mc = monte_carlo(ch, spec, threads);
         for (std::size_t i = 0; i < ch.size(); ++i) b.points[i].mc = mc[i];

@@ -1,20 +1,16 @@
 // Private to the budget module: the channel (a design with everything that does not change from
 // trial to trial precomputed) and its error at one temperature for one set of parts, the bilinear maps
-// it rests on, the random number generator, and a small thread pool. Shared by the worst case and the
+// it rests on, and the random number generator. Shared by the worst case and the
 // Monte Carlo so that both evaluate exactly the same function.
 #pragma once
 
 #include <algorithm>
 #include <array>
-#include <atomic>
 #include <bit>
 #include <cmath>
 #include <cstdint>
-#include <exception>
 #include <limits>
-#include <mutex>
 #include <string>
-#include <thread>
 #include <type_traits>
 #include <vector>
 
@@ -318,6 +314,17 @@ public:
         if (!spec.lead_compensated) firmware_.lead_ohm = 0.0;
         fw_reading_ = maps(firmware_, power_, Slots{}).reading;
         nominal_ = trial(Slots{});
+        // The nominal body resistance, from the first-order rise by Newton to convergence (closed-form
+        // curves; the table path solves on its own).
+        dl_nominal_.assign(n, 0.0);
+        if (heat_ && inverse_ != Inverse::table) {
+            for (std::size_t i = 0; i < n; ++i) {
+                const double x0 = r_[i];
+                const double vx = nominal_.vt.at(x0);
+                const double l = newton_body(nominal_, i, lnr_[i] + alpha_[i] * vx * vx / x0 * inv_dissipation_, 8);
+                dl_nominal_[i] = l - lnr_[i];
+            }
+        }
         Analysis a = analyze(grid, model, firmware_, LineKind::endpoint, 0.0);
         line_ = a.line;
         inv_slope_ = 1.0 / line_.slope;
@@ -388,37 +395,39 @@ public:
         } else if constexpr (kInverse == Inverse::table) {
             return body_resistance_general(tr, i);
         } else {
-            // Newton on l = ln R' for f(l) = T_part(l) − shift − T − P(e^l)/δ, where T_part(l) is the
-            // part's temperature at that resistance, explicit for Steinhart–Hart (and the beta model):
-            // 1/T = a + b·L + c·L³ with L = (l − ln g + db·ln R0)/(1 + db). From the first-order
-            // estimate, Newton converges quadratically: three steps reach rounding (below 1e-12 K).
-            const double inv1db = 1.0 / (1.0 + tr.db);
-            const double lshift = -tr.ln_g + tr.db * ln_r0_;
-            const Bilinear& v = tr.vt;
-            const double det = v.a * v.d - v.b * v.c;
-            auto power = [&](double x, double& dp_dl) {
-                const double den = v.c * x + v.d;
-                const double vx = (v.a * x + v.b) / den;
-                const double p = vx * vx / x;
-                dp_dl = 2.0 * vx * det / (den * den) - p;
-                return p;
-            };
-            double dp = 0.0;
-            const double p0 = power(exp_fast(l0), dp);
-            double l = l0 + (1.0 + tr.db) * alpha_[i] * (tr.shift_k + p0 * inv_dissipation_);
-            for (int step = 0; step < kNewtonSteps; ++step) {
-                const double x = exp_fast(l);
-                const double p = power(x, dp);
-                const double big_l = (l + lshift) * inv1db;
-                const double inv_t = sh_inverse_t(psh_, big_l);
-                const double t_part = 1.0 / inv_t;
-                const double f = t_part - tr.shift_k - t_[i] - p * inv_dissipation_;
-                const double df =
-                    -t_part * t_part * (psh_.b + 3.0 * psh_.c * big_l * big_l) * inv1db - dp * inv_dissipation_;
-                l -= f / df;
-            }
-            return exp_fast(l);
+            // Newton from the nominal parts' body resistance, moved by the trial's curve and shift:
+            // ln R' at the nominal body temperature plus the shift's first-order move. That start is
+            // off by the change of the rise with the parts (a few % of at most kMaxSelfHeatingK) and
+            // the shift's curvature; quadratic convergence takes two steps to rounding.
+            const double start = l0 + (1.0 + tr.db) * (dl_nominal_[i] + alpha_[i] * tr.shift_k);
+            return exp_fast(newton_body(tr, i, start, kNewtonSteps));
         }
+    }
+
+    // kSteps Newton steps from l on l = ln R' for f(l) = T_part(l) − shift − T − P(e^l)/δ, where
+    // T_part(l) is the part's temperature at that resistance, explicit for Steinhart–Hart (and the
+    // beta model): 1/T = a + b·L + c·L³ with L = (l − ln g + db·ln R0)/(1 + db).
+    [[nodiscard]] [[gnu::always_inline]] inline double newton_body(const Trial& tr, std::size_t i, double l,
+                                                                   int steps) const {
+        const double inv1db = 1.0 / (1.0 + tr.db);
+        const double lshift = -tr.ln_g + tr.db * ln_r0_;
+        const Bilinear& v = tr.vt;
+        const double det = v.a * v.d - v.b * v.c;
+        for (int step = 0; step < steps; ++step) {
+            const double x = exp_fast(l);
+            const double den = v.c * x + v.d;
+            const double vx = (v.a * x + v.b) / den;
+            const double p = vx * vx / x;
+            const double dp = 2.0 * vx * det / (den * den) - p;
+            const double big_l = (l + lshift) * inv1db;
+            const double inv_t = sh_inverse_t(psh_, big_l);
+            const double t_part = 1.0 / inv_t;
+            const double f = t_part - tr.shift_k - t_[i] - p * inv_dissipation_;
+            const double df =
+                -t_part * t_part * (psh_.b + 3.0 * psh_.c * big_l * big_l) * inv1db - dp * inv_dissipation_;
+            l -= f / df;
+        }
+        return l;
     }
 
     // error() with its branches chosen at compile time: straight-line code that vectorizes.
@@ -452,7 +461,7 @@ public:
         return t_read - t_[i];
     }
 
-    static constexpr int kNewtonSteps = 3;
+    static constexpr int kNewtonSteps = 2;
 
 private:
     static double Circuit::*field_of(const std::string& name) {
@@ -553,6 +562,7 @@ private:
     double code_out_ = 0.0;
     double ln_r0_ = 0.0;
     std::vector<double> t_, r_, lnr_, lnq_, alpha_, sensitivity_;
+    std::vector<double> dl_nominal_;  // ln R_body − ln R of the nominal parts at each point
     std::array<double, 3> fit_x_{};
     Inverse inverse_ = Inverse::closed;
     SteinhartHart sh_;   // the firmware's model
@@ -563,31 +573,6 @@ private:
     double inv_slope_ = 0.0;
     double largest_reading_ = 0.0;
 };
-
-// Runs f(k, worker) for k in [0, n) on `threads` threads (the caller's included); rethrows the first
-// exception. Which worker runs which k varies; callers make their results independent of it.
-template <class F>
-void parallel_for(std::size_t n, unsigned threads, F&& f) {
-    const unsigned workers = static_cast<unsigned>(std::max<std::size_t>(1, std::min<std::size_t>(threads, n)));
-    std::atomic<std::size_t> next{0};
-    std::exception_ptr failure;
-    std::mutex failure_mutex;
-    auto work = [&](unsigned w) {
-        try {
-            for (std::size_t k; (k = next.fetch_add(1)) < n;) f(k, w);
-        } catch (...) {
-            const std::lock_guard<std::mutex> lock(failure_mutex);
-            if (!failure) failure = std::current_exception();
-            next.store(n);
-        }
-    };
-    std::vector<std::thread> pool;
-    pool.reserve(workers - 1);
-    for (unsigned w = 1; w < workers; ++w) pool.emplace_back(work, w);
-    work(0);
-    for (std::thread& t : pool) t.join();
-    if (failure) std::rethrow_exception(failure);
-}
 
 // Throws the InputError for a reading carried past the end of the output's range at t_k.
 [[noreturn]] void out_of_range(double t_k);

@@ -10,6 +10,7 @@
 #include <tuple>
 
 #include "budget/budget_channel.hpp"
+#include "parallel.hpp"
 #include "rtline/error.hpp"
 
 namespace rtline::budget_detail {
@@ -169,6 +170,7 @@ struct Tails {
     std::vector<std::uint64_t> equal_lo;  // not counted where lo equals hi (equal_hi has them)
     std::uint64_t trials = 0;
     std::vector<double> max_abs;
+    std::vector<double> stage;  // one block's candidates, kBlockTrials a temperature
 };
 
 struct Thresholds {
@@ -208,10 +210,9 @@ public:
     // entry per temperature; null to skip) and keeps the tails above `tau` in `tails`.
     void run(std::uint64_t b, std::uint64_t count, double* s1, double* s2, const Thresholds& tau, Tails& tails) const {
         // Room for every trial of the block at every temperature, so that the loop stores without a
-        // branch and advances the count by whether the sample is kept.
-        for (std::size_t i = 0; i < ch_.size(); ++i) {
-            if (tails.kept[i].size() < tails.count[i] + count) tails.kept[i].resize(tails.count[i] + count);
-        }
+        // branch and advances the count by whether the sample is kept; the kept ones are appended to
+        // the tails after the block (no store into memory that is cleared first or left unused).
+        tails.stage.resize(ch_.size() * kBlockTrials);
         block_fn_(*this, BlockJob{b, count, s1, s2, &tau, &tails});
     }
 
@@ -225,7 +226,8 @@ public:
         std::vector<std::size_t> flag(n);
         std::vector<double*> out(n);
         Tails& tails = *job.tails;
-        for (std::size_t i = 0; i < n; ++i) out[i] = tails.kept[i].data();
+        for (std::size_t i = 0; i < n; ++i) out[i] = tails.stage.data() + i * kBlockTrials;
+        std::vector<std::size_t> in_block(n, 0);
         double* const ep = e.data();
         std::size_t* const fp = flag.data();
         const double* const ref = e_ref_.data();
@@ -234,7 +236,7 @@ public:
         double* const mx = tails.max_abs.data();
         std::uint64_t* const eq_hi = tails.equal_hi.data();
         std::uint64_t* const eq_lo = tails.equal_lo.data();
-        std::size_t* const kept = tails.count.data();
+        std::size_t* const kept = in_block.data();
         double* const s1 = job.s1;
         double* const s2 = job.s2;
         const bool per_point = sampler_.per_point();
@@ -268,6 +270,10 @@ public:
                 out[i][kept[i]] = ep[i];
                 kept[i] += fp[i];
             }
+        }
+        for (std::size_t i = 0; i < n; ++i) {
+            tails.kept[i].insert(tails.kept[i].end(), out[i], out[i] + in_block[i]);
+            tails.count[i] += in_block[i];
         }
         tails.trials += job.count;
     }
@@ -321,12 +327,49 @@ std::uint64_t rank_of_1e5(std::uint64_t parts, std::uint64_t n) {
     return std::max<std::uint64_t>(1, (parts * n + 99999) / 100000);
 }
 
-// The k-th smallest (1-based) of the values in v[from, end) with nth_element; v[from, end) must hold
-// ranks from `from` on (nth_element leaves that true above the rank it places).
-double kth(std::vector<double>& v, std::size_t from, std::size_t k) {
-    const auto at = v.begin() + static_cast<std::ptrdiff_t>(k - 1);
-    std::nth_element(v.begin() + static_cast<std::ptrdiff_t>(from), at, v.end());
-    return *at;
+// The k1-th and k2-th smallest (1-based, k1 ≤ k2) of v, v left as it is: a histogram of kSelectBins
+// equal bins over [min, max] finds the bins that hold the two ranks (bins are ordered intervals, the
+// bin index being monotone in the value), and nth_element orders only those bins' values, copied to
+// `s1` and `s2`. Three linear passes instead of introselect's several over the whole tail, twice.
+constexpr std::size_t kSelectBins = 4096;
+std::pair<double, double> kth2(const std::vector<double>& v, std::size_t k1, std::size_t k2, std::vector<double>& s1,
+                               std::vector<double>& s2) {
+    const auto [lo_it, hi_it] = std::minmax_element(v.begin(), v.end());
+    const double lo = *lo_it;
+    const double scale = static_cast<double>(kSelectBins) / (*hi_it - lo);
+    auto nth = [](std::vector<double>& w, std::size_t k) {
+        const auto at = w.begin() + static_cast<std::ptrdiff_t>(k - 1);
+        std::nth_element(w.begin(), at, w.end());
+        return *at;
+    };
+    if (!(*hi_it > lo) || !std::isfinite(scale)) {
+        s1.assign(v.begin(), v.end());
+        const double x1 = nth(s1, k1);
+        return {x1, nth(s1, k2)};
+    }
+    auto bin = [&](double x) { return std::min(kSelectBins - 1, static_cast<std::size_t>((x - lo) * scale)); };
+    std::vector<std::size_t> count(kSelectBins, 0);
+    for (const double x : v) ++count[bin(x)];
+    std::size_t before1 = 0;
+    std::size_t b1 = 0;
+    while (before1 + count[b1] < k1) before1 += count[b1++];
+    std::size_t before2 = before1;
+    std::size_t b2 = b1;
+    while (before2 + count[b2] < k2) before2 += count[b2++];
+    s1.clear();
+    s2.clear();
+    for (const double x : v) {
+        const std::size_t j = bin(x);
+        if (j == b1) s1.push_back(x);
+        if (j == b2) s2.push_back(x);
+    }
+    const double x1 = nth(s1, k1 - before1);
+    return {x1, nth(s2, k2 - before2)};
+}
+
+// The k-th smallest (1-based) of v, v left as it is.
+double kth(const std::vector<double>& v, std::size_t k, std::vector<double>& s1, std::vector<double>& s2) {
+    return kth2(v, k, k, s1, s2).first;
 }
 
 // The statistics of one temperature from every worker's tail: the samples above hi or below lo are
@@ -334,20 +377,30 @@ double kth(std::vector<double>& v, std::size_t from, std::size_t k) {
 // is [below lo][lo × n_lo][between][hi × n_hi][above hi]. A rank that falls between is NaN (the pilot
 // misled; the caller runs that temperature again keeping all).
 struct Order {
-    std::vector<double> above, below, big;
+    std::vector<double> above, below, big, s1, s2;
     std::uint64_t n = 0, n_hi = 0, n_lo = 0;
     double hi = 0.0, lo = 0.0;
 
-    // The k-th smallest error.
-    double signed_rank(std::uint64_t k) {
+    // The k1-th and k2-th smallest errors (k1 ≤ k2).
+    std::pair<double, double> signed_ranks(std::uint64_t k1, std::uint64_t k2) {
         const std::uint64_t nb = below.size();
         const std::uint64_t na = above.size();
         const std::uint64_t between = n - na - nb - n_hi - n_lo;
-        if (k <= nb) return kth(below, 0, static_cast<std::size_t>(k));
-        if (k <= nb + n_lo) return lo;
-        if (k <= nb + n_lo + between) return NAN;
-        if (k <= nb + n_lo + between + n_hi) return hi;
-        return kth(above, 0, static_cast<std::size_t>(k - (n - na)));
+        auto side = [&](std::uint64_t k) { return k <= nb ? 0 : k <= n - na ? 1 : 2; };
+        auto middle = [&](std::uint64_t k) {
+            if (k <= nb + n_lo) return lo;
+            if (k <= nb + n_lo + between) return static_cast<double>(NAN);
+            return hi;
+        };
+        // Both in one kept side: one selection serves the two.
+        if (side(k1) == 0 && side(k2) == 0) return kth2(below, k1, k2, s1, s2);
+        if (side(k1) == 2 && side(k2) == 2) return kth2(above, k1 - (n - na), k2 - (n - na), s1, s2);
+        auto one = [&](std::uint64_t k) {
+            if (side(k) == 0) return kth(below, k, s1, s2);
+            if (side(k) == 2) return kth(above, k - (n - na), s1, s2);
+            return middle(k);
+        };
+        return {one(k1), one(k2)};
     }
 
     // The k-th smallest |error| for ranks k1 ≤ k2. Every sample between the thresholds has |e| < C =
@@ -364,14 +417,13 @@ struct Order {
         }
         const std::uint64_t ties = (std::abs(hi) == c ? n_hi : 0) + (std::abs(lo) == c ? n_lo : 0);
         const std::uint64_t small = n - big.size() - ties;
-        auto at = [&](std::uint64_t k, std::size_t from) {
+        if (k1 > small + ties) return kth2(big, k1 - small - ties, k2 - small - ties, s1, s2);
+        auto at = [&](std::uint64_t k) {
             if (k <= small) return static_cast<double>(NAN);
             if (k <= small + ties) return c;
-            return kth(big, from, static_cast<std::size_t>(k - small - ties));
+            return kth(big, static_cast<std::size_t>(k - small - ties), s1, s2);
         };
-        const double v1 = at(k1, 0);
-        const std::uint64_t placed = k1 > small + ties ? k1 - small - ties : 0;
-        return {v1, at(k2, static_cast<std::size_t>(placed))};
+        return {at(k1), at(k2)};
     }
 };
 
@@ -409,26 +461,40 @@ std::vector<McStats> monte_carlo(const Channel& ch, const BudgetSpec& spec, unsi
     // minus that 93 % point. The bounds lie beyond them unless the pilot misleads; then that
     // temperature is run again keeping all.
     Thresholds tau{std::vector<double>(n, -INFINITY), std::vector<double>(n, INFINITY)};
+    std::vector<double> kept_fraction(n, 0.0);  // of the pilot's samples beyond the thresholds
     if (trials > kPilotTrials) {
         Tails pilot(n);
         runner.run(0, kPilotTrials, nullptr, nullptr, tau, pilot);
-        parallel_for(n, threads, [&](std::size_t i, unsigned) {
+        detail::parallel_for(n, std::min<std::size_t>(threads, n), [&](std::size_t, std::size_t i) {
             std::vector<double>& v = pilot.kept[i];
             v.resize(pilot.count[i]);
             std::vector<double> a(v.size());
             for (std::size_t j = 0; j < v.size(); ++j) a[j] = std::abs(v[j]);
-            const double t_abs = kth(a, 0, static_cast<std::size_t>(rank_of(kPilotPermille, a.size())));
-            const double t_hi = kth(v, 0, static_cast<std::size_t>(rank_of(kPilotSignedPermille, v.size())));
-            const double t_lo = kth(v, 0, static_cast<std::size_t>(rank_of(1000 - kPilotSignedPermille, v.size())));
+            std::vector<double> s1;
+            std::vector<double> s2;
+            const double t_abs = kth(a, static_cast<std::size_t>(rank_of(kPilotPermille, a.size())), s1, s2);
+            const auto [t_lo, t_hi] = kth2(v, static_cast<std::size_t>(rank_of(1000 - kPilotSignedPermille, v.size())),
+                                           static_cast<std::size_t>(rank_of(kPilotSignedPermille, v.size())), s1, s2);
             tau.hi[i] = std::min(t_hi, t_abs);
             tau.lo[i] = std::min(std::max(t_lo, -t_abs), tau.hi[i]);
+            const auto beyond =
+                std::count_if(v.begin(), v.end(), [&](double e) { return e > tau.hi[i] || e < tau.lo[i]; });
+            kept_fraction[i] = static_cast<double>(beyond) / static_cast<double>(kPilotTrials);
         });
     }
 
     const unsigned workers = static_cast<unsigned>(std::min<std::uint64_t>(std::max(1U, threads), blocks));
     std::vector<double> sums(2 * blocks * n, 0.0);
     std::vector<Tails> tails(workers, Tails(n));
-    parallel_for(blocks, workers, [&](std::size_t b, unsigned w) {
+    // Room for a worker's share of the tails as the pilot predicts it, with a quarter to spare, so
+    // that they rarely grow (and copy) as blocks append to them.
+    for (Tails& t : tails) {
+        for (std::size_t i = 0; i < n; ++i) {
+            const double share = 1.25 * kept_fraction[i] * static_cast<double>(trials) / workers;
+            t.kept[i].reserve(static_cast<std::size_t>(share) + kBlockTrials);
+        }
+    }
+    detail::parallel_for(blocks, workers, [&](std::size_t w, std::size_t b) {
         double* s1 = sums.data() + 2 * b * n;
         runner.run(b, trials_in(b, trials), s1, s1 + n, tau, tails[w]);
     });
@@ -440,13 +506,12 @@ std::vector<McStats> monte_carlo(const Channel& ch, const BudgetSpec& spec, unsi
     auto bounds = [&](std::size_t i, std::vector<Tails>& from, const Thresholds& th, Order& o) {
         gather(from, i, th.hi[i], th.lo[i], o);
         std::tie(out[i].p95_k, out[i].p99_7_k) = o.abs_ranks(k95, k997);
-        out[i].p0_135_k = o.signed_rank(rank_of_1e5(135, trials));
-        out[i].p2_5_k = o.signed_rank(rank_of_1e5(2500, trials));
-        out[i].p97_5_k = o.signed_rank(rank_of_1e5(97500, trials));
-        out[i].p99_865_k = o.signed_rank(rank_of_1e5(99865, trials));
+        std::tie(out[i].p0_135_k, out[i].p2_5_k) = o.signed_ranks(rank_of_1e5(135, trials), rank_of_1e5(2500, trials));
+        std::tie(out[i].p97_5_k, out[i].p99_865_k) =
+            o.signed_ranks(rank_of_1e5(97500, trials), rank_of_1e5(99865, trials));
     };
     std::vector<Order> scratch(workers);
-    parallel_for(n, workers, [&](std::size_t i, unsigned w) {
+    detail::parallel_for(n, std::min<std::size_t>(workers, n), [&](std::size_t w, std::size_t i) {
         McStats& m = out[i];
         double s1 = 0.0;
         double s2 = 0.0;
@@ -474,7 +539,7 @@ std::vector<McStats> monte_carlo(const Channel& ch, const BudgetSpec& spec, unsi
         Thresholds keep_all{std::vector<double>(n, INFINITY), std::vector<double>(n, -INFINITY)};
         for (const std::size_t i : redo) keep_all.hi[i] = -INFINITY;
         std::vector<Tails> again(workers, Tails(n));
-        parallel_for(blocks, workers, [&](std::size_t b, unsigned w) {
+        detail::parallel_for(blocks, workers, [&](std::size_t w, std::size_t b) {
             runner.run(b, trials_in(b, trials), nullptr, nullptr, keep_all, again[w]);
         });
         for (const std::size_t i : redo) bounds(i, again, keep_all, scratch[0]);

@@ -7,46 +7,15 @@
 #include <cmath>
 #include <stdexcept>
 
+#include "circuit/search_kernels.hpp"
+#include "golden.hpp"
 #include "parallel.hpp"
 #include "rtline/error.hpp"
 #include "rtline/sizing.hpp"
-#include "circuit/search_kernels.hpp"
 
 namespace rtline {
 
 namespace {
-
-constexpr double kGolden = 0.38196601125010515;  // 2 − φ
-
-// Golden-section search for a minimum of f on [a, b] to an interval of `tol`.
-template <class F>
-double golden(F&& f, double a, double b, double tol, double& fbest) {
-    double x1 = a + kGolden * (b - a);
-    double x2 = b - kGolden * (b - a);
-    double f1 = f(x1);
-    double f2 = f(x2);
-    while (b - a > tol) {
-        if (f1 <= f2) {
-            b = x2;
-            x2 = x1;
-            f2 = f1;
-            x1 = a + kGolden * (b - a);
-            f1 = f(x1);
-        } else {
-            a = x1;
-            x1 = x2;
-            f1 = f2;
-            x2 = b - kGolden * (b - a);
-            f2 = f(x2);
-        }
-    }
-    if (f1 <= f2) {
-        fbest = f1;
-        return x1;
-    }
-    fbest = f2;
-    return x2;
-}
 
 // The scan of minimize_1d: n points evenly spaced over [lo, hi] and f at each.
 struct Scan1d {
@@ -88,7 +57,7 @@ double refine_1d(F&& f, const Scan1d& scan, double tol, double& fbest, std::size
         const std::size_t i = minima[j];
         const double a = x[i == 0 ? 0 : i - 1];
         const double b = x[std::min(i + 1, x.size() - 1)];
-        xv[j] = golden([&](double v) { return f(w, v); }, a, b, tol, fv[j]);
+        xv[j] = detail::golden_section_min([&](double v) { return f(w, v); }, a, b, tol, fv[j]);
     });
     for (std::size_t j = 0; j < minima.size(); ++j) {
         if (fv[j] < fbest) {
