@@ -333,6 +333,21 @@ public:
         for (std::size_t i = 0; i < n; ++i) {
             largest_reading_ = std::max(largest_reading_, std::abs(nominal_.reading.at(r_[i])));
         }
+        // The table of the firmware's temperature by code, for a closed-form inverse: the codes of the
+        // nominal readings with a quarter of that range and 64 codes to spare at each end (codes
+        // outside are computed), up to kMaxCodeTable entries (a finer converter computes each).
+        if (lsb_ > 0.0 && (inverse_ == Inverse::closed || inverse_ == Inverse::scaled)) {
+            const double top = std::ceil(largest_reading_ * inv_lsb_);
+            const double margin = std::ceil(top / 4.0) + 64.0;
+            if (top + 2.0 * margin < static_cast<double>(kMaxCodeTable)) {
+                code_lo_ = -margin;
+                code_span_ = top + 2.0 * margin;
+                code_table_.resize(static_cast<std::size_t>(code_span_) + 1);
+                for (std::size_t j = 0; j < code_table_.size(); ++j) {
+                    code_table_[j] = code_temperature_exact(code_lo_ + static_cast<double>(j));
+                }
+            }
+        }
     }
 
     [[nodiscard]] std::size_t size() const { return t_.size(); }
@@ -384,62 +399,73 @@ public:
         return with_kernel(solve, mode, inverse_, [&](auto kernel) { return point_error(kernel, tr, i, adc); });
     }
 
-    // The thermistor's resistance in the circuit at grid point i: its body runs warm by
-    // P(R(T_b))/δ, and its curve is the part's with R25, B, drift and the shift as drawn.
-    template <bool kSolve, Inverse kInverse>
-    [[nodiscard]] [[gnu::always_inline]] inline double body_resistance(const Trial& tr, std::size_t i) const {
-        // ln R' = ln g + ln R + db·(ln R − ln R0), R the part's nominal curve.
+    // ---- one sample in stages. point_error() runs them at one point; errors() runs each stage over
+    // every point of a trial before the next, so that the processor overlaps the points' long
+    // dependency chains (an exponential, then divisions). Both call the same functions in the same
+    // order, so they give the same bits. A further circuit enters through maps() (its reading and
+    // thermistor-voltage maps); the stages below do not change with the topology.
+
+    // Stage 1: ln R' of the part at grid point i before self-heating, or the self-heating Newton's
+    // start. ln R' = ln g + ln R + db·(ln R − ln R0), R the part's nominal curve.
+    template <bool kSolve>
+    [[nodiscard]] [[gnu::always_inline]] inline double body_start(const Trial& tr, std::size_t i) const {
         const double l0 = lnr_[i] + tr.ln_g + tr.db * lnq_[i];
         if constexpr (!kSolve) {
-            return exp_fast(l0);
-        } else if constexpr (kInverse == Inverse::table) {
-            return body_resistance_general(tr, i);
+            return l0;
         } else {
             // Newton from the nominal parts' body resistance, moved by the trial's curve and shift:
             // ln R' at the nominal body temperature plus the shift's first-order move. That start is
             // off by the change of the rise with the parts (a few % of at most kMaxSelfHeatingK) and
             // the shift's curvature; quadratic convergence takes two steps to rounding.
-            const double start = l0 + (1.0 + tr.db) * (dl_nominal_[i] + alpha_[i] * tr.shift_k);
-            return exp_fast(newton_body(tr, i, start, kNewtonSteps));
+            return l0 + (1.0 + tr.db) * (dl_nominal_[i] + alpha_[i] * tr.shift_k);
         }
     }
 
-    // kSteps Newton steps from l on l = ln R' for f(l) = T_part(l) − shift − T − P(e^l)/δ, where
+    // The thermistor's resistance in the circuit at grid point i: its body runs warm by
+    // P(R(T_b))/δ, and its curve is the part's with R25, B, drift and the shift as drawn.
+    template <bool kSolve, Inverse kInverse>
+    [[nodiscard]] [[gnu::always_inline]] inline double body_resistance(const Trial& tr, std::size_t i) const {
+        if constexpr (kSolve && kInverse == Inverse::table) {
+            return body_resistance_general(tr, i);
+        } else {
+            double l = body_start<kSolve>(tr, i);
+            if constexpr (kSolve) l = newton_body(tr, i, l, kNewtonSteps);
+            return exp_fast(l);
+        }
+    }
+
+    // Stage 2: one Newton step on l = ln R' for f(l) = T_part(l) − shift − T − P(e^l)/δ, where
     // T_part(l) is the part's temperature at that resistance, explicit for Steinhart–Hart (and the
     // beta model): 1/T = a + b·L + c·L³ with L = (l − ln g + db·ln R0)/(1 + db).
-    [[nodiscard]] [[gnu::always_inline]] inline double newton_body(const Trial& tr, std::size_t i, double l,
-                                                                   int steps) const {
+    [[nodiscard]] [[gnu::always_inline]] inline double newton_step(const Trial& tr, std::size_t i, double l) const {
         const double inv1db = 1.0 / (1.0 + tr.db);
         const double lshift = -tr.ln_g + tr.db * ln_r0_;
         const Bilinear& v = tr.vt;
         const double det = v.a * v.d - v.b * v.c;
-        for (int step = 0; step < steps; ++step) {
-            const double x = exp_fast(l);
-            const double den = v.c * x + v.d;
-            const double vx = (v.a * x + v.b) / den;
-            const double p = vx * vx / x;
-            const double dp = 2.0 * vx * det / (den * den) - p;
-            const double big_l = (l + lshift) * inv1db;
-            const double inv_t = sh_inverse_t(psh_, big_l);
-            const double t_part = 1.0 / inv_t;
-            const double f = t_part - tr.shift_k - t_[i] - p * inv_dissipation_;
-            const double df =
-                -t_part * t_part * (psh_.b + 3.0 * psh_.c * big_l * big_l) * inv1db - dp * inv_dissipation_;
-            l -= f / df;
-        }
+        const double x = exp_fast(l);
+        const double den = v.c * x + v.d;
+        const double vx = (v.a * x + v.b) / den;
+        const double p = vx * vx / x;
+        const double dp = 2.0 * vx * det / (den * den) - p;
+        const double big_l = (l + lshift) * inv1db;
+        const double inv_t = sh_inverse_t(psh_, big_l);
+        const double t_part = 1.0 / inv_t;
+        const double f = t_part - tr.shift_k - t_[i] - p * inv_dissipation_;
+        const double df = -t_part * t_part * (psh_.b + 3.0 * psh_.c * big_l * big_l) * inv1db - dp * inv_dissipation_;
+        return l - f / df;
+    }
+
+    // `steps` Newton steps from l.
+    [[nodiscard]] [[gnu::always_inline]] inline double newton_body(const Trial& tr, std::size_t i, double l,
+                                                                   int steps) const {
+        for (int step = 0; step < steps; ++step) l = newton_step(tr, i, l);
         return l;
     }
 
-    // error() with its branches chosen at compile time: straight-line code that vectorizes.
+    // Stage 3: the temperature read minus the true one at grid point i for the thermistor at x ohm.
     template <bool kSolve, Adc kMode, Inverse kInverse>
-    [[nodiscard]] [[gnu::always_inline]] inline double point_error(Kernel<kSolve, kMode, kInverse>, const Trial& tr,
-                                                                   std::size_t i, double adc) const {
-        if constexpr (kInverse == Inverse::scaled && kMode == Adc::none && !kSolve) {
-            // ln of the R_T the firmware infers: ln R + ln g + db·ln(R/R0) + ln(factor).
-            const double l = lnr_[i] + tr.ln_scale + tr.db * lnq_[i];
-            return 1.0 / sh_inverse_t(sh_, l) - t_[i];
-        }
-        const double x = body_resistance<kSolve, kInverse>(tr, i);
+    [[nodiscard]] [[gnu::always_inline]] inline double read_error(Kernel<kSolve, kMode, kInverse>, const Trial& tr,
+                                                                  std::size_t i, double x, double adc) const {
         double t_read = 0.0;
         constexpr bool kClosed = kInverse == Inverse::closed || kInverse == Inverse::scaled;
         if constexpr (kClosed && kMode == Adc::none) {
@@ -447,8 +473,11 @@ public:
         } else {
             double y = tr.reading.at(x);
             if constexpr (kMode == Adc::offset) y = y * tr.gain + adc;
-            if constexpr (kMode == Adc::rounded)
-                y = (round_even(y * tr.gain * inv_lsb_ + adc + code_in_) + code_out_) * lsb_;
+            if constexpr (kMode == Adc::rounded) {
+                const double k = code_of(tr, x, adc);
+                if constexpr (kClosed) return code_temperature(k) - t_[i];
+                y = (k + code_out_) * lsb_;
+            }
             if constexpr (kInverse == Inverse::line) {
                 t_read = (y - line_.intercept) * inv_slope_;
             } else if constexpr (kClosed) {
@@ -461,7 +490,89 @@ public:
         return t_read - t_[i];
     }
 
+    // error() with its branches chosen at compile time: straight-line code that vectorizes.
+    template <bool kSolve, Adc kMode, Inverse kInverse>
+    [[nodiscard]] [[gnu::always_inline]] inline double point_error(Kernel<kSolve, kMode, kInverse> kernel,
+                                                                   const Trial& tr, std::size_t i, double adc) const {
+        if constexpr (kInverse == Inverse::scaled && kMode == Adc::none && !kSolve) {
+            // ln of the R_T the firmware infers: ln R + ln g + db·ln(R/R0) + ln(factor).
+            const double l = lnr_[i] + tr.ln_scale + tr.db * lnq_[i];
+            return 1.0 / sh_inverse_t(sh_, l) - t_[i];
+        } else {
+            return read_error(kernel, tr, i, body_resistance<kSolve, kInverse>(tr, i), adc);
+        }
+    }
+
+    // point_error() at every grid point into e[0, size()), stage by stage; `work` holds size() doubles.
+    template <bool kSolve, Adc kMode, Inverse kInverse>
+    [[gnu::always_inline]] inline void errors(Kernel<kSolve, kMode, kInverse> kernel, const Trial& tr, double adc,
+                                              double* __restrict e, double* __restrict work) const {
+        const std::size_t n = t_.size();
+        if constexpr ((kInverse == Inverse::scaled && kMode == Adc::none && !kSolve) ||
+                      (kSolve && kInverse == Inverse::table)) {
+            for (std::size_t i = 0; i < n; ++i) e[i] = point_error(kernel, tr, i, adc);
+        } else {
+            for (std::size_t i = 0; i < n; ++i) work[i] = body_start<kSolve>(tr, i);
+            if constexpr (kSolve) {
+                for (int step = 0; step < kNewtonSteps; ++step) {
+                    for (std::size_t i = 0; i < n; ++i) work[i] = newton_step(tr, i, work[i]);
+                }
+            }
+            constexpr bool kClosed = kInverse == Inverse::closed || kInverse == Inverse::scaled;
+            if constexpr (kMode == Adc::rounded && kClosed) {
+                // The firmware's temperature is a function of the code alone: looked up in the table
+                // of code_temperature_exact(), the codes outside it (none in a sound design) computed.
+                for (std::size_t i = 0; i < n; ++i) work[i] = code_of(tr, exp_fast(work[i]), adc);
+                if (!code_lookup(work, e)) {
+                    for (std::size_t i = 0; i < n; ++i) e[i] = code_temperature(work[i]) - t_[i];
+                }
+            } else {
+                for (std::size_t i = 0; i < n; ++i) e[i] = read_error(kernel, tr, i, exp_fast(work[i]), adc);
+            }
+        }
+    }
+
+    // The converter's code (an integer as a double) for the thermistor at x ohm: the reading with the
+    // trial's gain and an error of `adc` LSB, rounded (or truncated: see code_in_).
+    [[nodiscard]] [[gnu::always_inline]] inline double code_of(const Trial& tr, double x, double adc) const {
+        return round_even(tr.reading.at(x) * tr.gain * inv_lsb_ + adc + code_in_);
+    }
+
+    // The firmware's temperature for code k, closed-form inverse: its reading (k + code_out)·LSB
+    // through the nominal circuit's inverse to R_T and the model's 1/T = a + b·ln R + c·ln³R.
+    [[nodiscard]] double code_temperature_exact(double k) const {
+        return 1.0 / sh_inverse_t(sh_, log_fast(fw_reading_.inverse((k + code_out_) * lsb_)));
+    }
+
+    // code_temperature_exact(k), from the table where it holds k.
+    [[nodiscard]] double code_temperature(double k) const {
+        if (k >= code_lo_ && k <= code_lo_ + code_span_) {
+            return code_table_[static_cast<std::size_t>(k - code_lo_)];
+        }
+        return code_temperature_exact(k);
+    }
+
+    // e[i] = code_temperature(k[i]) − T_i at every point from the table; false (e partly unset) when a
+    // code (or NaN) lies outside it.
+    [[gnu::always_inline]] inline bool code_lookup(const double* __restrict k, double* __restrict e) const {
+        const std::size_t n = t_.size();
+        if (code_table_.empty()) return false;
+        const double lo = code_lo_;
+        const double span = code_span_;
+        const double* const table = code_table_.data();
+        const double* const t = t_.data();
+        int outside = 0;
+        for (std::size_t i = 0; i < n; ++i) {
+            const double j = k[i] - lo;
+            outside |= !(j >= 0.0) | !(j <= span);
+            const double at = std::min(j > 0.0 ? j : 0.0, span);  // NaN to 0
+            e[i] = table[static_cast<int>(at)] - t[i];
+        }
+        return outside == 0;
+    }
+
     static constexpr int kNewtonSteps = 2;
+    static constexpr std::size_t kMaxCodeTable = std::size_t{1} << 17;
 
 private:
     static double Circuit::*field_of(const std::string& name) {
@@ -560,6 +671,9 @@ private:
     double inv_lsb_ = 0.0;
     double code_in_ = 0.0;
     double code_out_ = 0.0;
+    double code_lo_ = 0.0;                 // the first code of code_table_
+    double code_span_ = 0.0;               // its size − 1
+    std::vector<double> code_table_;       // code_temperature_exact() of the codes from code_lo_
     double ln_r0_ = 0.0;
     std::vector<double> t_, r_, lnr_, lnq_, alpha_, sensitivity_;
     std::vector<double> dl_nominal_;  // ln R_body − ln R of the nominal parts at each point

@@ -223,6 +223,8 @@ public:
         SplitMix64 rng(block_state(seed_, job.block));
         const std::size_t n = ch_.size();
         std::vector<double> e(n);
+        std::vector<double> work(n);
+        double* const wp = work.data();
         std::vector<std::size_t> flag(n);
         std::vector<double*> out(n);
         Tails& tails = *job.tails;
@@ -252,7 +254,7 @@ public:
                 const Slots s = sampler_.compose(d, std::isnan(d.board_k) ? kCoefficientReferenceK : d.board_k);
                 const Trial tr = ch_.trial(s);
                 const double adc = s[kAdc];
-                for (std::size_t i = 0; i < n; ++i) ep[i] = ch_.point_error(kernel, tr, i, adc);
+                ch_.errors(kernel, tr, adc, ep, wp);
             }
             if (s1 != nullptr) {
                 for (std::size_t i = 0; i < n; ++i) {
