@@ -438,11 +438,16 @@ public:
     // T_part(l) is the part's temperature at that resistance, explicit for Steinhart–Hart (and the
     // beta model): 1/T = a + b·L + c·L³ with L = (l − ln g + db·ln R0)/(1 + db).
     [[nodiscard]] [[gnu::always_inline]] inline double newton_step(const Trial& tr, std::size_t i, double l) const {
+        return newton_update(tr, i, l, exp_fast(l));
+    }
+
+    // The step from l with x = e^l given (errors() computes the exponentials in a loop of their own).
+    [[nodiscard]] [[gnu::always_inline]] inline double newton_update(const Trial& tr, std::size_t i, double l,
+                                                                     double x) const {
         const double inv1db = 1.0 / (1.0 + tr.db);
         const double lshift = -tr.ln_g + tr.db * ln_r0_;
         const Bilinear& v = tr.vt;
         const double det = v.a * v.d - v.b * v.c;
-        const double x = exp_fast(l);
         const double den = v.c * x + v.d;
         const double vx = (v.a * x + v.b) / den;
         const double p = vx * vx / x;
@@ -512,22 +517,27 @@ public:
                       (kSolve && kInverse == Inverse::table)) {
             for (std::size_t i = 0; i < n; ++i) e[i] = point_error(kernel, tr, i, adc);
         } else {
+            // Each exponential in a loop of its own, then what depends on it (a chain of divisions):
+            // short loop bodies let the processor run several points' chains at once.
+            double* const x = e;
             for (std::size_t i = 0; i < n; ++i) work[i] = body_start<kSolve>(tr, i);
+            for (std::size_t i = 0; i < n; ++i) x[i] = exp_fast(work[i]);
             if constexpr (kSolve) {
                 for (int step = 0; step < kNewtonSteps; ++step) {
-                    for (std::size_t i = 0; i < n; ++i) work[i] = newton_step(tr, i, work[i]);
+                    for (std::size_t i = 0; i < n; ++i) work[i] = newton_update(tr, i, work[i], x[i]);
+                    for (std::size_t i = 0; i < n; ++i) x[i] = exp_fast(work[i]);
                 }
             }
             constexpr bool kClosed = kInverse == Inverse::closed || kInverse == Inverse::scaled;
             if constexpr (kMode == Adc::rounded && kClosed) {
                 // The firmware's temperature is a function of the code alone: looked up in the table
                 // of code_temperature_exact(), the codes outside it (none in a sound design) computed.
-                for (std::size_t i = 0; i < n; ++i) work[i] = code_of(tr, exp_fast(work[i]), adc);
+                for (std::size_t i = 0; i < n; ++i) work[i] = code_of(tr, x[i], adc);
                 if (!code_lookup(work, e)) {
                     for (std::size_t i = 0; i < n; ++i) e[i] = code_temperature(work[i]) - t_[i];
                 }
             } else {
-                for (std::size_t i = 0; i < n; ++i) e[i] = read_error(kernel, tr, i, exp_fast(work[i]), adc);
+                for (std::size_t i = 0; i < n; ++i) e[i] = read_error(kernel, tr, i, x[i], adc);
             }
         }
     }
