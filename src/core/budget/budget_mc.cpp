@@ -268,11 +268,14 @@ public:
                     s2[i] += dv * dv;
                 }
             }
-            // Simple loops, each of which the compiler vectorizes.
-            for (std::size_t i = 0; i < n; ++i) mx[i] = std::max(mx[i], std::abs(ep[i]));
-            for (std::size_t i = 0; i < n; ++i) eq_hi[i] += ep[i] == hi[i] ? 1 : 0;
-            for (std::size_t i = 0; i < n; ++i) eq_lo[i] += (ep[i] == lo[i]) & (lo[i] != hi[i]) ? 1 : 0;
-            for (std::size_t i = 0; i < n; ++i) fp[i] = (ep[i] > hi[i]) | (ep[i] < lo[i]) ? 1 : 0;
+            // One loop the compiler vectorizes, the scalar staging after it.
+            for (std::size_t i = 0; i < n; ++i) {
+                const double v = ep[i];
+                mx[i] = std::max(mx[i], std::abs(v));
+                eq_hi[i] += v == hi[i] ? 1 : 0;
+                eq_lo[i] += (v == lo[i]) & (lo[i] != hi[i]) ? 1 : 0;
+                fp[i] = (v > hi[i]) | (v < lo[i]) ? 1 : 0;
+            }
             for (std::size_t i = 0; i < n; ++i) {
                 stage[np[i]] = ep[i];
                 np[i] += fp[i];
