@@ -451,6 +451,7 @@ Budget compute_budget(const Grid& grid, const Thermistor& model, const Circuit& 
     const Channel ch(grid, model, circuit, spec);
     BudgetSpec plain_spec = spec;
     plain_spec.part.reset();
+    plain_spec.trials = 0;  // no Monte Carlo runs on it
     const Channel plain(grid, model, circuit, plain_spec);
     if (spec.adc.bits > 0 && ch.largest_reading() > spec.adc.full_scale) {
         throw InputError("--adc-ref", describe(spec.adc.full_scale) + (spec.ratiometric ? "" : " V"),

@@ -335,8 +335,9 @@ public:
         }
         // The table of the firmware's temperature by code, for a closed-form inverse: the codes of the
         // nominal readings with a quarter of that range and 64 codes to spare at each end (codes
-        // outside are computed), up to kMaxCodeTable entries (a finer converter computes each).
-        if (lsb_ > 0.0 && (inverse_ == Inverse::closed || inverse_ == Inverse::scaled)) {
+        // outside are computed), up to kMaxCodeTable entries (a finer converter computes each). Only
+        // the Monte Carlo uses it.
+        if (spec.trials > 0 && lsb_ > 0.0 && (inverse_ == Inverse::closed || inverse_ == Inverse::scaled)) {
             const double top = std::ceil(largest_reading_ * inv_lsb_);
             const double margin = std::ceil(top / 4.0) + 64.0;
             if (top + 2.0 * margin < static_cast<double>(kMaxCodeTable)) {
