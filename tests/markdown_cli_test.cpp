@@ -34,8 +34,8 @@ Args with(Args a, const Args& more) {
 }
 
 struct Page {
-    json md;      // the Markdown as markdown_read.py reads it
-    json doc;     // the same run's JSON document: the reference
+    json md;   // the Markdown as markdown_read.py reads it
+    json doc;  // the same run's JSON document: the reference
     std::string err;
 };
 
@@ -149,9 +149,9 @@ TEST_CASE("markdown_read.py reads an escaped pipe as text and refuses a row of t
     REQUIRE(ok["tables"].size() == 1);
     CHECK(ok["tables"][0]["rows"][0] == json::array({"x | y", "2"}));
     CHECK(ok["tables"][0]["align"] == json::array({"none", "right"}));
-    const auto bad = rtline::test::run_shell(
-        "/usr/bin/python3 " + rtline::test::source_dir() + "/tests/ref/markdown_read.py",
-        json{{"text", "| a | b |\n| --- | --- |\n| x | y | z |\n"}}.dump());
+    const auto bad =
+        rtline::test::run_shell("/usr/bin/python3 " + rtline::test::source_dir() + "/tests/ref/markdown_read.py",
+                                json{{"text", "| a | b |\n| --- | --- |\n| x | y | z |\n"}}.dump());
     CHECK(bad.code != 0);
     CHECK(bad.err.find("line 3: a row of 3 cells under a header of 2") != std::string::npos);
 }
@@ -159,12 +159,14 @@ TEST_CASE("markdown_read.py reads an escaped pipe as text and refuses a row of t
 TEST_CASE("check --format markdown: the points table holds the JSON's points, row by row") {
     const Page p = run_both(rtline_args("check", {"--span", "-10:50", "--step", "5", "--circuit", "divider-low", "--rs",
                                                   "5k6", "--excitation", "3.3", "--dissipation", "2"}));
-    CHECK(p.md["headings"][0]["text"] == "rtline check: divider-low, -10 to 50 \xC2\xB0"
-                                         "C");
+    CHECK(p.md["headings"][0]["text"] ==
+          "rtline check: divider-low, -10 to 50 \xC2\xB0"
+          "C");
     const json& t = table_under(p.md, "Points");
     const json& pts = p.doc["points"];
-    const std::string deg = "\xC2\xB0"
-                            "C";
+    const std::string deg =
+        "\xC2\xB0"
+        "C";
     check_column(t, "T (" + deg + ")", pluck(pts, {"t_c"}));
     check_column(t, "R_T (ohm)", pluck(pts, {"r_t_ohm"}));
     check_column(t, "output (V)", pluck(pts, {"output"}));
@@ -202,8 +204,9 @@ TEST_CASE("size --format markdown: the candidates, their resistors and figures, 
         CHECK(got.size() == 2);
     }
     check_column(t, "nonlinearity (%FSD)", pluck(cs, {"max_nonlinearity_pct_fsd"}));
-    check_column(t, "error (\xC2\xB0"
-                    "C)",
+    check_column(t,
+                 "error (\xC2\xB0"
+                 "C)",
                  pluck(cs, {"max_error_c"}));
     check_column(t, "span (V/V)", pluck(cs, {"output_span"}));
     check_column(t, "min sens (V/V/K)", pluck(cs, {"sensitivity_per_k", "min"}));
@@ -223,7 +226,8 @@ TEST_CASE("size --compare --format markdown: one row per topology the JSON compa
 
 TEST_CASE("size --format markdown quotes the run's warnings, which still go to stderr") {
     // Over 20 to 22 °C a divider's output moves by far less than 10 % of its excitation.
-    const Page p = run_both(rtline_args("size", {"--span", "20:22", "--step", "0.5", "--circuit", "divider-low", "--excitation", "3.3"}));
+    const Page p = run_both(
+        rtline_args("size", {"--span", "20:22", "--step", "0.5", "--circuit", "divider-low", "--excitation", "3.3"}));
     REQUIRE(p.doc.contains("warnings"));
     const std::string w = p.doc["warnings"][0];
     CHECK(p.err.find("rtline: warning: " + w) != std::string::npos);
@@ -233,10 +237,11 @@ TEST_CASE("size --format markdown quotes the run's warnings, which still go to s
 }
 
 TEST_CASE("budget --format markdown: the error and split tables hold the JSON's points, escaped pipes and all") {
-    const Page p = run_both(rtline_args("budget", {"--span", "-20:60", "--step", "10", "--circuit", "divider-low", "--rs",
-                                                   "10k", "--adc-bits", "12", "--trials", "4000"}));
-    const std::string deg = " (\xC2\xB0"
-                            "C)";
+    const Page p = run_both(rtline_args("budget", {"--span", "-20:60", "--step", "10", "--circuit", "divider-low",
+                                                   "--rs", "10k", "--adc-bits", "12", "--trials", "4000"}));
+    const std::string deg =
+        " (\xC2\xB0"
+        "C)";
     const json& pts = p.doc["points"];
     const json& e = table_under(p.md, "Error per temperature");
     check_column(e, "T" + deg, pluck(pts, {"t_c"}));
@@ -262,8 +267,9 @@ TEST_CASE("budget --format markdown: the error and split tables hold the JSON's 
         ++causes;
     }
     CHECK(causes >= 4);  // R25, B, resistors, quantization
-    check_column(s, "resolution (\xC2\xB0"
-                    "C/LSB)",
+    check_column(s,
+                 "resolution (\xC2\xB0"
+                 "C/LSB)",
                  pluck(pts, {"resolution_c_per_lsb"}));
     CHECK(s["header"].size() == causes + 2);
     CHECK(has_caution(p.md));
@@ -275,11 +281,13 @@ TEST_CASE("table --format markdown: the breakpoints and the polynomial's coeffic
     const json& t = table_under(p.md, "Breakpoints");
     const json& rows = p.doc["table"];
     check_column(t, "code", pluck(rows, {"code"}));
-    check_column(t, "T (\xC2\xB0"
-                    "C)",
+    check_column(t,
+                 "T (\xC2\xB0"
+                 "C)",
                  pluck(rows, {"t_c"}));
-    check_column(t, "T (0.01 \xC2\xB0"
-                    "C)",
+    check_column(t,
+                 "T (0.01 \xC2\xB0"
+                 "C)",
                  pluck(rows, {"t_fixed"}));
     const json& c = table_under(p.md, "Polynomial");
     std::vector<json> coefficients(p.doc["polynomial"]["coefficients"].begin(),
@@ -290,9 +298,24 @@ TEST_CASE("table --format markdown: the breakpoints and the polynomial's coeffic
 }
 
 TEST_CASE("--format markdown leaves --emit c alone: the two are refused together as any format is") {
-    const auto r = run_rtline(rtline_args("table", {"--span", "0:45", "--circuit", "divider-low", "--rs", "10k",
-                                                    "--emit", "c", "--format", "markdown"}));
+    const auto r = run_rtline(rtline_args(
+        "table", {"--span", "0:45", "--circuit", "divider-low", "--rs", "10k", "--emit", "c", "--format", "markdown"}));
     CHECK(r.code == 2);
     CHECK(r.err == "rtline: --format 'markdown': give either --emit c or --format, not both\n");
     CHECK(r.out.empty());
+}
+
+TEST_CASE("check --format markdown quotes the front end's warning as stderr has it, the front end in a code block") {
+    const auto r = run_rtline(rtline_args(
+        "check", {"--span", "-40:20", "--step", "10", "--circuit", "divider-low", "--rs", "47k", "--adc-bits", "12",
+                  "--sample-cap", "15p", "--acquisition", "1u", "--format", "markdown"}));
+    REQUIRE(r.code == 0);
+    const json md = python_ref("markdown_read.py", {{"text", r.out}});
+    CHECK(md["code_blocks"] == 1);
+    const std::string prefix = "rtline: warning: ";
+    REQUIRE(r.err.rfind(prefix, 0) == 0);
+    const std::string w = r.err.substr(prefix.size(), r.err.find('\n') - prefix.size());
+    bool quoted = false;
+    for (const json& q : md["quotes"]) quoted = quoted || q == "Warning: " + w;
+    CHECK(quoted);
 }

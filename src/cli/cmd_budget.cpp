@@ -417,13 +417,14 @@ Facts budget_header(const Budget& b, const BudgetSpec& s, const Thermistor& mode
     f.push_back({"circuit", describe_circuit(circuit)});
     f.push_back({"reading", reading_description(s, circuit, unit)});
     f.push_back({"parts", parts_description(s, unit == "V") + "; R25 at " +
-                              format_number(kelvin_to_celsius(tolerance_reference_k(s.part ? *s.part : model))) +
-                              " " + kDegC});
+                              format_number(kelvin_to_celsius(tolerance_reference_k(s.part ? *s.part : model))) + " " +
+                              kDegC});
     if (tl.resistor_tc_per_k > 0.0 || tl.reference_tc_per_k > 0.0) {
-        f.push_back({"board", (s.board.sensed ? std::string("at the sensed temperature (a probe inside the product)")
-                                              : range_text(s.board.lo_k, s.board.hi_k) + " (uniform in the Monte Carlo)") +
-                                  "; coefficients from " + format_number(kelvin_to_celsius(kCoefficientReferenceK)) +
-                                  " " + kDegC});
+        f.push_back(
+            {"board", (s.board.sensed ? std::string("at the sensed temperature (a probe inside the product)")
+                                      : range_text(s.board.lo_k, s.board.hi_k) + " (uniform in the Monte Carlo)") +
+                          "; coefficients from " + format_number(kelvin_to_celsius(kCoefficientReferenceK)) + " " +
+                          kDegC});
     }
     if (circuit.lead_ohm > 0.0) {
         f.push_back({"leads", format_resistance(circuit.lead_ohm, 6) + " ohm loop at 20 " + kDegC + " " +
@@ -433,14 +434,17 @@ Facts budget_header(const Budget& b, const BudgetSpec& s, const Thermistor& mode
                                                       : "not compensated: all of it counts")});
     }
     if (tl.reference > 0.0 || tl.reference_tc_per_k > 0.0) {
-        f.push_back({"reference", pm_pct(tl.reference) + " and " + pm_ppm(tl.reference_tc_per_k) +
-                                      (unit == "V" ? "" : " (ratiometric: it is the excitation too, so it cancels in the reading)")});
+        f.push_back(
+            {"reference",
+             pm_pct(tl.reference) + " and " + pm_ppm(tl.reference_tc_per_k) +
+                 (unit == "V" ? "" : " (ratiometric: it is the excitation too, so it cancels in the reading)")});
     }
     if (s.adc.bits > 0) {
         f.push_back({"converter", std::to_string(s.adc.bits) + " bits, 1 LSB = " + format_number(b.lsb, 4) + " " +
                                       unit + "; " + describe_adc_transfer(s.adc.transfer, s.adc.bits)});
-        std::string q = "quantization \xC2\xB1"
-                        "0.5 LSB";
+        std::string q =
+            "quantization \xC2\xB1"
+            "0.5 LSB";
         if (s.adc.offset_lsb > 0.0) q += ", offset \xC2\xB1" + format_number(s.adc.offset_lsb) + " LSB";
         if (s.adc.gain > 0.0) q += ", gain " + pm_pct(s.adc.gain);
         if (s.adc.inl_lsb > 0.0) q += ", INL \xC2\xB1" + format_number(s.adc.inl_lsb) + " LSB";

@@ -207,7 +207,13 @@ void run_check(const CheckCommand& o) {
                     md.section("Front end");
                     md.code(front_end_text(*fe, circuit));
                 }
-                bytes = md.str(fe ? fe->warnings : std::vector<std::string>{});
+                // The front end's warnings go to stderr as "rtline: warning: ..." after the output.
+                std::vector<std::string> fe_warnings;
+                for (std::string w : fe ? fe->warnings : std::vector<std::string>{}) {
+                    if (w.rfind("warning: ", 0) == 0) w.erase(0, 9);
+                    fe_warnings.push_back(w);
+                }
+                bytes = md.str(fe_warnings);
             } else {
                 bytes = facts_text(header, 9) + "\n" + table.text() + "\n" + facts_text(summary, 24, "");
                 if (fe) bytes += front_end_text(*fe, circuit);

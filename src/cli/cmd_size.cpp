@@ -412,7 +412,8 @@ std::string run_compare(const SizeCommand& o, Setup& s, Format format) {
         if (power) row.emplace_back(1e3 * c.max_power_w);
         t.add_row(std::move(row));
     }
-    const std::string topology_text = "every topology, best " + std::string(series_name(s.spec.series)) + " values each";
+    const std::string topology_text =
+        "every topology, best " + std::string(series_name(s.spec.series)) + " values each";
     if (format == Format::markdown) {
         Markdown md = markdown_start(s, o, "every topology", topology_text);
         md.section("Best of each topology");
@@ -555,8 +556,9 @@ void run_size(const SizeCommand& o) {
                   {"output span", format_number(continuous.output_span, 4) + " " + unit}};
         if (!cont_fails.empty()) opt.push_back({"constraints", "fails " + cont_fails});
         if (continuous.ridge) {
-            opt.push_back({"ridge", "every pair with the same equivalent resistance gives this nonlinearity; shown "
-                                    "is the pair with the largest output span"});
+            opt.push_back({"ridge",
+                           "every pair with the same equivalent resistance gives this nonlinearity; shown "
+                           "is the pair with the largest output span"});
         }
         if (one) {
             const std::string& r = names.front();

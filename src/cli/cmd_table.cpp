@@ -271,17 +271,17 @@ std::string text_report(const Result& r) {
 std::string markdown_report(const Result& r) {
     const CodeMap& m = r.map;
     const std::vector<std::string> reading = reading_lines(m, kDeg);
-    Facts header{{"model", describe_model(r.thermistor)},
-                 {"circuit", describe_circuit(r.circuit)},
-                 {"reading", reading[0]},
-                 {"", reading[1]},
-                 {"", reading[2]},
-                 {"table", std::to_string(r.table.codes.size()) + " entries, " + spacing_words(r.table) +
-                               ", linear interpolation; fixed point in " + unit_text(r.fixed) + " " + kDeg + " (" +
-                               fixed_type(r.fixed) + ", " + std::to_string(r.fixed.arithmetic_bits) +
-                               "-bit arithmetic)"},
-                 {"target", target_words(r, kDeg) +
-                                (r.table_searched ? "; the fewest entries whose shipped error meets it" : "")}};
+    Facts header{
+        {"model", describe_model(r.thermistor)},
+        {"circuit", describe_circuit(r.circuit)},
+        {"reading", reading[0]},
+        {"", reading[1]},
+        {"", reading[2]},
+        {"table", std::to_string(r.table.codes.size()) + " entries, " + spacing_words(r.table) +
+                      ", linear interpolation; fixed point in " + unit_text(r.fixed) + " " + kDeg + " (" +
+                      fixed_type(r.fixed) + ", " + std::to_string(r.fixed.arithmetic_bits) + "-bit arithmetic)"},
+        {"target",
+         target_words(r, kDeg) + (r.table_searched ? "; the fewest entries whose shipped error meets it" : "")}};
     Markdown md("rtline table: " + std::string(topology_name(r.circuit.topology)) + ", " +
                 format_number(kelvin_to_celsius(r.span.lo_k)) + " to " + format_number(kelvin_to_celsius(r.span.hi_k)) +
                 " " + kDeg + ", " + std::to_string(m.adc_bits) + "-bit codes");
@@ -291,18 +291,17 @@ std::string markdown_report(const Result& r) {
     md.facts({{"shipped error", format_fixed(r.fixed.max_error_k, 4) + " " + kDeg + " " + at(m, r.fixed.at_code) +
                                     ": the integer code as emitted, over all " + std::to_string(m.size()) +
                                     " codes of the span"},
-              {"interpolation error", format_fixed(r.table.max_error_k, 4) + " " + kDeg + " " +
-                                          at(m, r.table.at_code) + ", before rounding to " + unit_text(r.fixed) +
-                                          " " + kDeg}});
+              {"interpolation error", format_fixed(r.table.max_error_k, 4) + " " + kDeg + " " + at(m, r.table.at_code) +
+                                          ", before rounding to " + unit_text(r.fixed) + " " + kDeg}});
     md.section("Fault codes");
     md.list(fault_lines(r, kDeg));
     if (r.polynomial) {
         const Polynomial& p = *r.polynomial;
         md.section("Polynomial");
-        md.facts({{"fit", std::string(fit_name(p.fit)) + ", degree " + std::to_string(p.degree) +
-                              (r.degree_searched ? " (the lowest that meets " + format_number(r.target_k, 4) + " " +
-                                                       kDeg + ")"
-                                                 : "")},
+        md.facts({{"fit",
+                   std::string(fit_name(p.fit)) + ", degree " + std::to_string(p.degree) +
+                       (r.degree_searched ? " (the lowest that meets " + format_number(r.target_k, 4) + " " + kDeg + ")"
+                                          : "")},
                   {"form", std::string("T(x) = sum of c_i x^i in ") + kDeg + ", " + x_definition(p)},
                   {"shipped error (double precision)",
                    format_fixed(p.max_error_k, 4) + " " + kDeg + " " + at(m, p.at_code)}});

@@ -22,9 +22,9 @@ Format parse_format(const std::string& text, bool markdown) {
     if (text == "json") return Format::json;
     if (text == "csv") return Format::csv;
     if (text == "markdown" && markdown) return Format::markdown;
-    throw InputError("--format", text,
-                     markdown ? "unknown format; choose text, json, csv or markdown"
-                              : "unknown format; choose text, json or csv");
+    throw InputError(
+        "--format", text,
+        markdown ? "unknown format; choose text, json, csv or markdown" : "unknown format; choose text, json or csv");
 }
 
 namespace {
