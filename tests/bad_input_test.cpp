@@ -160,6 +160,10 @@ TEST_CASE("an unknown name, count or ADC width is refused by its flag and its te
          "--series 'E25': unknown series; choose E3, E6, E12, E24, E48, E96 or E192"},
         {"an unknown format", with(kModel, {"--span", "0:50", "--format", "xml"}),
          "--format 'xml': unknown format; choose text, json or csv"},
+        {"Markdown from a command that writes none", with(kModel, {"--span", "0:50", "--format", "markdown"}),
+         "--format 'markdown': unknown format; choose text, json or csv"},
+        {"an unknown format where Markdown is one", with(kCheck, {"divider-low", "--rs", "10k", "--format", "xml"}),
+         "--format 'xml': unknown format; choose text, json, csv or markdown"},
         {"an unknown reference line", with(kCheck, {"divider-low", "--rs", "10k", "--line", "straight"}),
          "--line 'straight': unknown line; choose endpoint, best-fit or minimax"},
         {"an unknown table spacing", with(kTable, {"--spacing", "log"}),
@@ -240,6 +244,10 @@ TEST_CASE("an argument mistake is named in our words, with the nearest real name
         {"--jsonl with CSV",
          {"model", "--jsonl", "--format", "csv"},
          "--format 'csv': not with --jsonl: each result is one line of JSON; leave out --format",
+         ""},
+        {"--jsonl with Markdown",
+         {"check", "--jsonl", "--format", "markdown"},
+         "--format 'markdown': not with --jsonl: each result is one line of JSON; leave out --format",
          ""},
     });
 }

@@ -41,7 +41,7 @@ std::map<std::string, Choices> choice_table() {
     t["--series"] = {{"E3", "E6", "E12", "E24", "E48", "E96", "E192"}, true};
     t["--line"] = {{"endpoint", "best-fit", "minimax"}, true};
     t["--adc-transfer"] = {{"rounding", "truncating", "full-scale"}, true};
-    t["--format"] = {{"text", "json", "csv"}, false};
+    t["--format"] = {{"text", "json", "csv", "markdown"}, false};
     t["--model"] = {{"sh", "beta", "table"}, false};  // fit takes the first two; see below
     t["--spacing"] = {{"code", "error", "power-of-two"}, false};
     t["--fit"] = {{"least-squares", "minimax"}, false};

@@ -7,6 +7,7 @@
 
 #include "commands.hpp"
 #include "common.hpp"
+#include "markdown.hpp"
 #include "pictures.hpp"
 #include "rtline/budget.hpp"
 #include "rtline/error.hpp"
@@ -406,53 +407,63 @@ std::string largest_cause(const BudgetPoint& p) {
            kDegC + ")";
 }
 
-std::string budget_text(const Budget& b, const BudgetSpec& s, const Thermistor& model, const Circuit& circuit,
-                        const std::string& unit) {
+// The run's inputs, as the text and Markdown outputs open with them.
+Facts budget_header(const Budget& b, const BudgetSpec& s, const Thermistor& model, const Circuit& circuit,
+                    const std::string& unit) {
     const bool mc = s.trials > 0;
     const Tolerances& tl = s.tolerance;
-    const std::string deg = std::string(" (") + kDegC + ")";
-    std::string t = "model:        " + describe_model(model) + (s.part ? " (the firmware inverts this)" : "") + "\n";
-    if (s.part) t += "part:         " + describe_model(*s.part) + " (its real curve: the model error)\n";
-    t += "circuit:      " + describe_circuit(circuit) + "\n";
-    t += "reading:      " + reading_description(s, circuit, unit) + "\n";
-    t += "parts:        " + parts_description(s, unit == "V") + "; R25 at " +
-         format_number(kelvin_to_celsius(tolerance_reference_k(s.part ? *s.part : model))) + " " + kDegC + "\n";
+    Facts f{{"model", describe_model(model) + (s.part ? " (the firmware inverts this)" : "")}};
+    if (s.part) f.push_back({"part", describe_model(*s.part) + " (its real curve: the model error)"});
+    f.push_back({"circuit", describe_circuit(circuit)});
+    f.push_back({"reading", reading_description(s, circuit, unit)});
+    f.push_back({"parts", parts_description(s, unit == "V") + "; R25 at " +
+                              format_number(kelvin_to_celsius(tolerance_reference_k(s.part ? *s.part : model))) + " " +
+                              kDegC});
     if (tl.resistor_tc_per_k > 0.0 || tl.reference_tc_per_k > 0.0) {
-        t += "board:        " +
-             (s.board.sensed ? std::string("at the sensed temperature (a probe inside the product)")
-                             : range_text(s.board.lo_k, s.board.hi_k) + " (uniform in the Monte Carlo)") +
-             "; coefficients from " + format_number(kelvin_to_celsius(kCoefficientReferenceK)) + " " + kDegC + "\n";
+        f.push_back(
+            {"board", (s.board.sensed ? std::string("at the sensed temperature (a probe inside the product)")
+                                      : range_text(s.board.lo_k, s.board.hi_k) + " (uniform in the Monte Carlo)") +
+                          "; coefficients from " + format_number(kelvin_to_celsius(kCoefficientReferenceK)) + " " +
+                          kDegC});
     }
     if (circuit.lead_ohm > 0.0) {
-        t += "leads:        " + format_resistance(circuit.lead_ohm, 6) + " ohm loop at 20 " + kDegC + " " +
-             pm_pct(tl.lead) + ", copper " + format_number(100.0 * kCopperAlphaPerK) + " %/K (IEC 60028) at " +
-             range_text(s.cable_lo_k, s.cable_hi_k) + "; " +
-             (s.lead_compensated ? "the firmware subtracts the nominal loop" : "not compensated: all of it counts") +
-             "\n";
+        f.push_back({"leads", format_resistance(circuit.lead_ohm, 6) + " ohm loop at 20 " + kDegC + " " +
+                                  pm_pct(tl.lead) + ", copper " + format_number(100.0 * kCopperAlphaPerK) +
+                                  " %/K (IEC 60028) at " + range_text(s.cable_lo_k, s.cable_hi_k) + "; " +
+                                  (s.lead_compensated ? "the firmware subtracts the nominal loop"
+                                                      : "not compensated: all of it counts")});
     }
     if (tl.reference > 0.0 || tl.reference_tc_per_k > 0.0) {
-        t += "reference:    " + pm_pct(tl.reference) + " and " + pm_ppm(tl.reference_tc_per_k) +
-             (unit == "V" ? "" : " (ratiometric: it is the excitation too, so it cancels in the reading)") + "\n";
+        f.push_back(
+            {"reference",
+             pm_pct(tl.reference) + " and " + pm_ppm(tl.reference_tc_per_k) +
+                 (unit == "V" ? "" : " (ratiometric: it is the excitation too, so it cancels in the reading)")});
     }
     if (s.adc.bits > 0) {
-        t += "converter:    " + std::to_string(s.adc.bits) + " bits, 1 LSB = " + format_number(b.lsb, 4) + " " + unit +
-             "; " + describe_adc_transfer(s.adc.transfer, s.adc.bits) + "\n";
-        t += "              quantization \xC2\xB1"
-             "0.5 LSB";
-        if (s.adc.offset_lsb > 0.0) t += ", offset \xC2\xB1" + format_number(s.adc.offset_lsb) + " LSB";
-        if (s.adc.gain > 0.0) t += ", gain " + pm_pct(s.adc.gain);
-        if (s.adc.inl_lsb > 0.0) t += ", INL \xC2\xB1" + format_number(s.adc.inl_lsb) + " LSB";
-        if (s.adc.error_lsb > 0.0) t += ", further error \xC2\xB1" + format_number(s.adc.error_lsb) + " LSB";
-        t += " (uniform in the Monte Carlo)\n";
+        f.push_back({"converter", std::to_string(s.adc.bits) + " bits, 1 LSB = " + format_number(b.lsb, 4) + " " +
+                                      unit + "; " + describe_adc_transfer(s.adc.transfer, s.adc.bits)});
+        std::string q =
+            "quantization \xC2\xB1"
+            "0.5 LSB";
+        if (s.adc.offset_lsb > 0.0) q += ", offset \xC2\xB1" + format_number(s.adc.offset_lsb) + " LSB";
+        if (s.adc.gain > 0.0) q += ", gain " + pm_pct(s.adc.gain);
+        if (s.adc.inl_lsb > 0.0) q += ", INL \xC2\xB1" + format_number(s.adc.inl_lsb) + " LSB";
+        if (s.adc.error_lsb > 0.0) q += ", further error \xC2\xB1" + format_number(s.adc.error_lsb) + " LSB";
+        f.push_back({"", q + " (uniform in the Monte Carlo)"});
     }
     if (s.dissipation_w_per_k > 0.0) {
-        t += "self-heating: dissipation constant " + format_number(1e3 * s.dissipation_w_per_k) +
-             " mW/K, body temperature solved exactly (reads warm)\n";
+        f.push_back({"self-heating", "dissipation constant " + format_number(1e3 * s.dissipation_w_per_k) +
+                                         " mW/K, body temperature solved exactly (reads warm)"});
     }
-    t += "Monte Carlo:  " +
-         (mc ? std::to_string(s.trials) + " trials, seed " + std::to_string(s.seed) : std::string("off (--trials 0)")) +
-         "\n\n";
+    f.push_back({"Monte Carlo", mc ? std::to_string(s.trials) + " trials, seed " + std::to_string(s.seed)
+                                   : std::string("off (--trials 0)")});
+    return f;
+}
 
+// The signed error per temperature: worst case, and the Monte Carlo's figures when it ran.
+Table error_table(const Budget& b, const BudgetSpec& s) {
+    const bool mc = s.trials > 0;
+    const std::string deg = std::string(" (") + kDegC + ")";
     std::vector<Column> cols = {{"T" + deg, "", 2}, {"worst low" + deg, "", 4}, {"worst high" + deg, "", 4}};
     if (mc) {
         cols.insert(cols.end(), {{"MC mean" + deg, "", 4},
@@ -473,9 +484,12 @@ std::string budget_text(const Budget& b, const BudgetSpec& s, const Thermistor& 
         }
         errors.add_row(row);
     }
-    t += errors.text() + "\n";
+    return errors;
+}
 
-    // The split: one column per cause that applies.
+// The split: one column per cause that applies, and the resolution with a converter.
+Table split_table(const Budget& b, const BudgetSpec& s) {
+    const std::string deg = std::string(" (") + kDegC + ")";
     const BudgetComponents& k0 = b.points.front().components;
     std::vector<Column> split_cols = {{"T" + deg, "", 2}};
     std::vector<std::size_t> shown;
@@ -493,24 +507,51 @@ std::string budget_text(const Budget& b, const BudgetSpec& s, const Thermistor& 
         if (s.adc.bits > 0) row.push_back(p.resolution_k_per_lsb);
         split.add_row(row);
     }
-    t += "each cause alone (largest |change of error| over its tolerance):\n" + split.text() + "\n";
+    return split;
+}
 
+const char* const kSplitTitle = "each cause alone (largest |change of error| over its tolerance)";
+
+Facts budget_summary(const Budget& b, const BudgetSpec& s) {
     const BudgetSummary& sm = b.summary;
-    t += "worst case over the span   " + format_fixed(sm.worst_case_k, 4) + " " + kDegC + " at " + celsius(sm.at_t_k) +
-         " " + kDegC + " (signed: " + format_fixed(sm.worst_low_k, 4) + " to +" + format_fixed(sm.worst_high_k, 4) +
-         " " + kDegC + ")\n";
-    if (mc) {
-        t += "99.7 % bound over the span " + format_fixed(sm.p99_7_k, 4) + " " + kDegC + " at " +
-             celsius(sm.p99_7_at_t_k) + " " + kDegC + "\n";
+    Facts f{{"worst case over the span", format_fixed(sm.worst_case_k, 4) + " " + kDegC + " at " + celsius(sm.at_t_k) +
+                                             " " + kDegC + " (signed: " + format_fixed(sm.worst_low_k, 4) + " to +" +
+                                             format_fixed(sm.worst_high_k, 4) + " " + kDegC + ")"}};
+    if (s.trials > 0) {
+        f.push_back({"99.7 % bound over the span",
+                     format_fixed(sm.p99_7_k, 4) + " " + kDegC + " at " + celsius(sm.p99_7_at_t_k) + " " + kDegC});
     }
     for (const BudgetPoint& p : b.points) {
-        if (p.t_k == sm.at_t_k) t += "largest cause there        " + largest_cause(p) + "\n";
+        if (p.t_k == sm.at_t_k) f.push_back({"largest cause there", largest_cause(p)});
     }
-    return t;
+    return f;
+}
+
+std::string budget_text(const Budget& b, const BudgetSpec& s, const Thermistor& model, const Circuit& circuit,
+                        const std::string& unit) {
+    return facts_text(budget_header(b, s, model, circuit, unit), 14) + "\n" + error_table(b, s).text() + "\n" +
+           kSplitTitle + ":\n" + split_table(b, s).text() + "\n" + facts_text(budget_summary(b, s), 27, "");
+}
+
+std::string budget_markdown(const Budget& b, const BudgetSpec& s, const Thermistor& model, const Circuit& circuit,
+                            const std::string& unit, const Span& span) {
+    Markdown md("rtline budget: " + std::string(topology_name(circuit.topology)) + ", " +
+                format_number(kelvin_to_celsius(span.lo_k)) + " to " + format_number(kelvin_to_celsius(span.hi_k)) +
+                " " + kDegC);
+    md.facts(budget_header(b, s, model, circuit, unit));
+    md.section("Error per temperature");
+    md.table(error_table(b, s));
+    std::string split_title = kSplitTitle;
+    split_title[0] = 'E';
+    md.section(split_title);
+    md.table(split_table(b, s));
+    md.section("Summary");
+    md.facts(budget_summary(b, s));
+    return md.str();
 }
 
 void run_budget(const BudgetOptions& o) {
-    const Format format = parse_format(o.out.format);
+    const Format format = parse_format(o.out.format, true);
     const Thermistor thermistor = build_model(o.model);
     const Span span = build_span(o.span);
     const Grid grid = build_grid(thermistor, span, o.span);
@@ -531,6 +572,7 @@ void run_budget(const BudgetOptions& o) {
         case Format::json: bytes = dump(budget_json(b, spec, thermistor, span, circuit, unit)); break;
         case Format::csv: bytes = budget_csv(b); break;
         case Format::text: bytes = budget_text(b, spec, thermistor, circuit, unit); break;
+        case Format::markdown: bytes = budget_markdown(b, spec, thermistor, circuit, unit, span); break;
     }
     std::vector<Output> outputs{{o.out.output, bytes, "-o"}};
     if (!o.svg.empty()) {
@@ -612,7 +654,7 @@ void setup_budget(CLI::App& app) {
     sub->add_option("--seed", opt->seed, "Random seed (default " + std::to_string(kDefaultSeed) + ")")->group(mc);
     sub->add_option("--threads", opt->threads, "Threads (default: every core; the result does not depend on it)")
         ->group(mc);
-    add_output_options(*sub, opt->out);
+    add_output_options(*sub, opt->out, true);
     add_svg_option(*sub, opt->svg);
     sub->footer(
         std::string("Example:\n"

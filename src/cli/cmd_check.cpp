@@ -7,6 +7,7 @@
 #include "commands.hpp"
 #include "common.hpp"
 #include "frontend_report.hpp"
+#include "markdown.hpp"
 #include "pictures.hpp"
 #include "rtline/analysis.hpp"
 #include "rtline/error.hpp"
@@ -14,6 +15,10 @@
 namespace rtline::cli {
 
 namespace {
+
+const char* const kDeg =
+    "\xC2\xB0"
+    "C";
 
 struct CheckCommand {
     ModelOptions model;
@@ -61,8 +66,37 @@ std::pair<double, double> lead_shift_range(const Circuit& c, const Thermistor& m
     return {lo, hi};
 }
 
+// The summary under the points table, in the text's words.
+Facts summary_facts(const AnalysisSummary& s, const Circuit& circuit, const Thermistor& thermistor, const Grid& grid,
+                    LineKind line, double dissipation_w_per_k) {
+    const std::string unit = output_unit(circuit);
+    const std::string deg(kDeg);
+    Facts f{{"largest |nonlinearity|", format_fixed(s.max_nonlinearity_pct_fsd, 3) + " %FSD at " + celsius(s.at_t_k) +
+                                           " " + deg + " (against the " + std::string(line_name(line)) + " line)"},
+            {"largest |error|", format_fixed(s.max_error_k, 3) + " " + deg},
+            {"output span", format_number(s.output_span, 5) + " " + unit},
+            {"sensitivity", format_number(s.sensitivity_min_per_k, 4) + " to " +
+                                format_number(s.sensitivity_max_per_k, 4) + " " + unit + " per K"}};
+    if (circuit.lead_ohm > 0.0) {
+        const auto [lo, hi] = lead_shift_range(circuit, thermistor, grid);
+        f.push_back({"lead wires", format_fixed(lo, 3) + " to " + format_fixed(hi, 3) + " " + deg +
+                                       " if the firmware does not subtract their " +
+                                       format_resistance(circuit.lead_ohm, 6) + " ohm"});
+    }
+    if (circuit.excitation.drive == Drive::ratiometric) {
+        f.push_back({"power, self-heating", "none without a drive; give --excitation V or --current A"});
+    } else if (std::isfinite(s.max_power_w)) {
+        f.push_back({"largest power", format_number(1e3 * s.max_power_w, 4) + " mW"});
+    }
+    if (std::isfinite(s.max_self_heating_k)) {
+        f.push_back({"largest self-heating", format_number(s.max_self_heating_k, 4) + " K (dissipation constant " +
+                                                 format_number(1e3 * dissipation_w_per_k) + " mW/K)"});
+    }
+    return f;
+}
+
 void run_check(const CheckCommand& o) {
-    const Format format = parse_format(o.out.format);
+    const Format format = parse_format(o.out.format, true);
     const Thermistor thermistor = build_model(o.model);
     const Span span = build_span(o.span);
     const LineKind line = parse_line(o.line, "--line");
@@ -156,38 +190,34 @@ void run_check(const CheckCommand& o) {
         if (csv) {
             bytes = table.csv();
         } else {
-            const AnalysisSummary& s = a.summary;
-            std::string t = "model:   " + describe_model(thermistor) + "\n" + "circuit: " + describe_circuit(circuit) +
-                            "\n" + "line:    " + line_description(line) + "\n\n" + table.text() + "\n";
-            t += "largest |nonlinearity|  " + format_fixed(s.max_nonlinearity_pct_fsd, 3) + " %FSD at " +
-                 celsius(s.at_t_k) +
-                 " \xC2\xB0"
-                 "C (against the " +
-                 std::string(line_name(line)) + " line)\n";
-            t += "largest |error|         " + format_fixed(s.max_error_k, 3) +
-                 " \xC2\xB0"
-                 "C\n";
-            t += "output span             " + format_number(s.output_span, 5) + " " + unit + "\n";
-            t += "sensitivity             " + format_number(s.sensitivity_min_per_k, 4) + " to " +
-                 format_number(s.sensitivity_max_per_k, 4) + " " + unit + " per K\n";
-            if (circuit.lead_ohm > 0.0) {
-                const auto [lo, hi] = lead_shift_range(circuit, thermistor, grid);
-                t += "lead wires              " + format_fixed(lo, 3) + " to " + format_fixed(hi, 3) +
-                     " \xC2\xB0"
-                     "C if the firmware does not subtract their " +
-                     format_resistance(circuit.lead_ohm, 6) + " ohm\n";
+            const Facts header{{"model", describe_model(thermistor)},
+                               {"circuit", describe_circuit(circuit)},
+                               {"line", line_description(line)}};
+            const Facts summary = summary_facts(a.summary, circuit, thermistor, grid, line, dissipation_w_per_k);
+            if (format == Format::markdown) {
+                Markdown md("rtline check: " + std::string(topology_name(circuit.topology)) + ", " +
+                            format_number(kelvin_to_celsius(span.lo_k)) + " to " +
+                            format_number(kelvin_to_celsius(span.hi_k)) + " " + kDeg);
+                md.facts(header);
+                md.section("Points");
+                md.table(table);
+                md.section("Summary");
+                md.facts(summary);
+                if (fe) {
+                    md.section("Front end");
+                    md.code(front_end_text(*fe, circuit));
+                }
+                // The front end's warnings go to stderr as "rtline: warning: ..." after the output.
+                std::vector<std::string> fe_warnings;
+                for (std::string w : fe ? fe->warnings : std::vector<std::string>{}) {
+                    if (w.rfind("warning: ", 0) == 0) w.erase(0, 9);
+                    fe_warnings.push_back(w);
+                }
+                bytes = md.str(fe_warnings);
+            } else {
+                bytes = facts_text(header, 9) + "\n" + table.text() + "\n" + facts_text(summary, 24, "");
+                if (fe) bytes += front_end_text(*fe, circuit);
             }
-            if (!driven) {
-                t += "power, self-heating     none without a drive; give --excitation V or --current A\n";
-            } else if (std::isfinite(s.max_power_w)) {
-                t += "largest power           " + format_number(1e3 * s.max_power_w, 4) + " mW\n";
-            }
-            if (std::isfinite(s.max_self_heating_k)) {
-                t += "largest self-heating    " + format_number(s.max_self_heating_k, 4) + " K (dissipation constant " +
-                     format_number(1e3 * dissipation_w_per_k) + " mW/K)\n";
-            }
-            if (fe) t += front_end_text(*fe, circuit);
-            bytes = t;
         }
     }
     std::vector<Output> outputs{{o.out.output, bytes, "-o"}};
@@ -210,7 +240,7 @@ void setup_check(CLI::App& app) {
         ->group("Circuit");
     sub->add_option("--line", opt->line, "Reference line: endpoint (default), best-fit or minimax")->group("Analysis");
     add_front_end_options(*sub, opt->front_end);
-    add_output_options(*sub, opt->out);
+    add_output_options(*sub, opt->out, true);
     add_svg_option(*sub, opt->svg);
     sub->footer(
         std::string("Example:\n"

@@ -6,6 +6,7 @@
 
 #include "commands.hpp"
 #include "common.hpp"
+#include "markdown.hpp"
 #include "pictures.hpp"
 #include "rtline/error.hpp"
 #include "rtline/sizing.hpp"
@@ -13,6 +14,10 @@
 namespace rtline::cli {
 
 namespace {
+
+const char* const kDeg =
+    "\xC2\xB0"
+    "C";
 
 struct SizeCommand {
     ModelOptions model;
@@ -231,16 +236,30 @@ std::string span_warning(const Candidate& c) {
            ", below 10 % of the excitation; consider --min-span";
 }
 
+Facts header_facts(const Setup& s, const SizeCommand& o, const std::string& topology_text) {
+    return {{"model", describe_model(s.model)},
+            {"circuit", topology_text},
+            {"span", format_number(kelvin_to_celsius(s.span.lo_k)) + " to " +
+                         format_number(kelvin_to_celsius(s.span.hi_k)) + " " + kDeg + ", " +
+                         std::to_string(s.grid.size()) + " points; objective: largest |nonlinearity| against the " +
+                         std::string(line_name(s.spec.line)) + " line"},
+            {"values", std::string(series_name(s.spec.series)) + " from " + format_resistance(s.spec.range_lo_ohm) +
+                           " to " + format_resistance(s.spec.range_hi_ohm) + " ohm" +
+                           (o.range == "1:10M" ? " (the default range)" : "")}};
+}
+
 std::string header_text(const Setup& s, const SizeCommand& o, const std::string& topology_text) {
-    return "model:   " + describe_model(s.model) + "\n" + "circuit: " + topology_text + "\n" +
-           "span:    " + format_number(kelvin_to_celsius(s.span.lo_k)) + " to " +
-           format_number(kelvin_to_celsius(s.span.hi_k)) +
-           " \xC2\xB0"
-           "C, " +
-           std::to_string(s.grid.size()) + " points; objective: largest |nonlinearity| against the " +
-           std::string(line_name(s.spec.line)) + " line\n" + "values:  " + std::string(series_name(s.spec.series)) +
-           " from " + format_resistance(s.spec.range_lo_ohm) + " to " + format_resistance(s.spec.range_hi_ohm) +
-           " ohm" + (o.range == "1:10M" ? " (the default range)" : "") + "\n";
+    return facts_text(header_facts(s, o, topology_text), 9);
+}
+
+// A Markdown document's opening: its heading and the header facts.
+Markdown markdown_start(const Setup& s, const SizeCommand& o, const std::string& what,
+                        const std::string& topology_text) {
+    Markdown md("rtline size: " + what + ", " + format_number(kelvin_to_celsius(s.span.lo_k)) + " to " +
+                format_number(kelvin_to_celsius(s.span.hi_k)) + " " + kDeg + ", " +
+                std::string(series_name(s.spec.series)));
+    md.facts(header_facts(s, o, topology_text));
+    return md;
 }
 
 Json header_json(const Setup& s, const std::string& command) {
@@ -393,16 +412,26 @@ std::string run_compare(const SizeCommand& o, Setup& s, Format format) {
         if (power) row.emplace_back(1e3 * c.max_power_w);
         t.add_row(std::move(row));
     }
-    std::string text =
-        header_text(s, o, "every topology, best " + std::string(series_name(s.spec.series)) + " values each") + "\n" +
-        t.text();
+    const std::string topology_text =
+        "every topology, best " + std::string(series_name(s.spec.series)) + " values each";
+    if (format == Format::markdown) {
+        Markdown md = markdown_start(s, o, "every topology", topology_text);
+        md.section("Best of each topology");
+        md.table(t);
+        Facts notes;
+        for (const std::string& k : skipped) notes.push_back({"skipped", k});
+        if (!power) notes.push_back({"power", "none without a drive; give --excitation V or --current A"});
+        md.facts(notes);
+        return md.str();
+    }
+    std::string text = header_text(s, o, topology_text) + "\n" + t.text();
     for (const std::string& k : skipped) text += "skipped: " + k + "\n";
     if (!power) text += "power: none without a drive; give --excitation V or --current A\n";
     return text;
 }
 
 void run_size(const SizeCommand& o) {
-    const Format format = parse_format(o.out.format);
+    const Format format = parse_format(o.out.format, true);
     if (o.compare && !o.circuit.circuit.empty()) {
         throw InputError("--compare", o.circuit.circuit, "compares every topology; leave out --circuit");
     }
@@ -458,6 +487,14 @@ void run_size(const SizeCommand& o) {
             bytes = dump(doc);
         } else if (csv) {
             bytes = candidate_table(front, unit, true, false, heat).csv();
+        } else if (format == Format::markdown) {
+            Markdown md = markdown_start(s, o, o.circuit.circuit + " trade-off", describe_circuit(s.spec.base));
+            md.section("Pareto front");
+            md.paragraph("Each value is the most linear of all values with at least its output span.");
+            md.table(candidate_table(front, unit, false, false, heat));
+            if (!driven(front.front()))
+                md.facts({{"power, self-heating", "none without a drive; give --excitation V or --current A"}});
+            bytes = md.str();
         } else {
             bytes = header_text(s, o, describe_circuit(s.spec.base)) +
                     "\nPareto front: each value is the most linear of all values with at least its output span\n" +
@@ -511,6 +548,33 @@ void run_size(const SizeCommand& o) {
         bytes = dump(doc);
     } else if (csv) {
         bytes = candidate_table(found.best, unit, true, false, heat).csv();
+    } else if (format == Format::markdown) {
+        Markdown md = markdown_start(s, o, o.circuit.circuit, describe_circuit(s.spec.base));
+        md.section("Continuous optimum");
+        Facts opt{{"resistors", resistors_text(continuous.circuit, 6)},
+                  {"nonlinearity", format_fixed(continuous.max_nonlinearity_pct_fsd, 4) + " %FSD"},
+                  {"output span", format_number(continuous.output_span, 4) + " " + unit}};
+        if (!cont_fails.empty()) opt.push_back({"constraints", "fails " + cont_fails});
+        if (continuous.ridge) {
+            opt.push_back({"ridge",
+                           "every pair with the same equivalent resistance gives this nonlinearity; shown "
+                           "is the pair with the largest output span"});
+        }
+        if (one) {
+            const std::string& r = names.front();
+            opt.push_back({"inflection at " + format_number(kelvin_to_celsius(cf.centre_k)) + " " + kDeg +
+                               " (Pallas-Areny & Webster, ch. 2)",
+                           cf.inflection_ohm ? r + " = " + format_resistance(*cf.inflection_ohm, 5) : "none"});
+            opt.push_back({"three-point (ends and centre)",
+                           cf.three_point_ohm ? r + " = " + format_resistance(*cf.three_point_ohm, 5) : "none"});
+        }
+        md.facts(opt);
+        md.section("Best " + std::string(series_name(s.spec.series)) + " values");
+        md.paragraph(std::to_string(found.examined) + " combinations examined, exhaustively.");
+        md.table(candidate_table(found.best, unit, false, false, heat));
+        if (!driven(found.best.front()))
+            md.facts({{"power, self-heating", "none without a drive; give --excitation V or --current A"}});
+        bytes = md.str();
     } else {
         std::string t = header_text(s, o, describe_circuit(s.spec.base)) + "\n";
         t += "continuous optimum   " + resistors_text(continuous.circuit, 6) + "  ->  " +
@@ -588,7 +652,7 @@ void setup_size(CLI::App& app) {
     sub->add_option("--min-sensitivity", opt->min_sensitivity,
                     "Smallest |d output/dT| over the span, output units per K")
         ->group("Constraints");
-    add_output_options(*sub, opt->out);
+    add_output_options(*sub, opt->out, true);
     add_svg_option(*sub, opt->svg);
     sub->footer(
         std::string("Examples:\n"

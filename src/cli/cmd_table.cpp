@@ -7,6 +7,7 @@
 #include "commands.hpp"
 #include "common.hpp"
 #include "emit_c.hpp"
+#include "markdown.hpp"
 #include "pictures.hpp"
 #include "rtline/budget.hpp"
 #include "rtline/correction.hpp"
@@ -265,6 +266,53 @@ std::string text_report(const Result& r) {
     return t;
 }
 
+// The review document: the reading and the table's figures, the breakpoints, the fault codes and the
+// polynomial, in the text report's words.
+std::string markdown_report(const Result& r) {
+    const CodeMap& m = r.map;
+    const std::vector<std::string> reading = reading_lines(m, kDeg);
+    Facts header{
+        {"model", describe_model(r.thermistor)},
+        {"circuit", describe_circuit(r.circuit)},
+        {"reading", reading[0]},
+        {"", reading[1]},
+        {"", reading[2]},
+        {"table", std::to_string(r.table.codes.size()) + " entries, " + spacing_words(r.table) +
+                      ", linear interpolation; fixed point in " + unit_text(r.fixed) + " " + kDeg + " (" +
+                      fixed_type(r.fixed) + ", " + std::to_string(r.fixed.arithmetic_bits) + "-bit arithmetic)"},
+        {"target",
+         target_words(r, kDeg) + (r.table_searched ? "; the fewest entries whose shipped error meets it" : "")}};
+    Markdown md("rtline table: " + std::string(topology_name(r.circuit.topology)) + ", " +
+                format_number(kelvin_to_celsius(r.span.lo_k)) + " to " + format_number(kelvin_to_celsius(r.span.hi_k)) +
+                " " + kDeg + ", " + std::to_string(m.adc_bits) + "-bit codes");
+    md.facts(header);
+    md.section("Breakpoints");
+    md.table(breakpoint_table(r));
+    md.facts({{"shipped error", format_fixed(r.fixed.max_error_k, 4) + " " + kDeg + " " + at(m, r.fixed.at_code) +
+                                    ": the integer code as emitted, over all " + std::to_string(m.size()) +
+                                    " codes of the span"},
+              {"interpolation error", format_fixed(r.table.max_error_k, 4) + " " + kDeg + " " + at(m, r.table.at_code) +
+                                          ", before rounding to " + unit_text(r.fixed) + " " + kDeg}});
+    md.section("Fault codes");
+    md.list(fault_lines(r, kDeg));
+    if (r.polynomial) {
+        const Polynomial& p = *r.polynomial;
+        md.section("Polynomial");
+        md.facts({{"fit",
+                   std::string(fit_name(p.fit)) + ", degree " + std::to_string(p.degree) +
+                       (r.degree_searched ? " (the lowest that meets " + format_number(r.target_k, 4) + " " + kDeg + ")"
+                                          : "")},
+                  {"form", std::string("T(x) = sum of c_i x^i in ") + kDeg + ", " + x_definition(p)},
+                  {"shipped error (double precision)",
+                   format_fixed(p.max_error_k, 4) + " " + kDeg + " " + at(m, p.at_code)}});
+        Table coefficients({{"i", "i", 0}, {"c_i", "c_i", -1, 12}});
+        const std::vector<double> c = coefficients_c(p);
+        for (std::size_t i = 0; i < c.size(); ++i) coefficients.add_row({static_cast<double>(i), c[i]});
+        md.table(coefficients);
+    }
+    return md.str();
+}
+
 std::string c_report(const Result& r, const std::string& prefix) {
     const CodeMap& m = r.map;
     CHeader h;
@@ -358,7 +406,7 @@ void refuse_unreadable(const CircuitOptions& o) {
 }
 
 void run_table(const TableCommand& o) {
-    const Format format = parse_format(o.out.format);
+    const Format format = parse_format(o.out.format, true);
     const bool emit_c = !o.emit.empty();
     if (emit_c && o.emit != "c") throw InputError("--emit", o.emit, "the only form is c (a C99 header)");
     if (emit_c && format != Format::text) {
@@ -453,6 +501,8 @@ void run_table(const TableCommand& o) {
         bytes = json_report(r);
     } else if (format == Format::csv) {
         bytes = breakpoint_table(r).csv();
+    } else if (format == Format::markdown) {
+        bytes = markdown_report(r);
     } else {
         bytes = text_report(r);
     }
@@ -495,7 +545,7 @@ void setup_table(CLI::App& app) {
                     "Largest shipped error in degC: find the smallest table (and lowest degree with --fit); default "
                     "one unit or half the widest code step")
         ->group("Table");
-    add_output_options(*sub, opt->out);
+    add_output_options(*sub, opt->out, true);
     sub->add_option("--emit", opt->emit, "c: write a C99 header (table and interpolation function) instead")
         ->group("Output");
     sub->add_option("--prefix", opt->prefix, "With --emit c: prefix of the C names (default ntc_)")->group("Output");

@@ -338,8 +338,11 @@ std::string non_empty_file_name(const std::string& path) {
     return path.empty() ? std::string("expects a file name, not an empty text") : std::string();
 }
 
-void add_output_options(CLI::App& app, OutputOptions& o) {
-    app.add_option("--format", o.format, "text (default), json or csv")->group("Output");
+void add_output_options(CLI::App& app, OutputOptions& o, bool markdown) {
+    app.add_option(
+           "--format", o.format,
+           markdown ? "text (default), json, csv or markdown (for a design review)" : "text (default), json or csv")
+        ->group("Output");
     app.add_option("-o,--output", o.output, "Write to FILE (replaced only when the run succeeds)")
         ->check(non_empty_file_name)
         ->group("Output");

@@ -76,7 +76,8 @@ struct OutputOptions {
     std::string format = "text";
     std::string output;  // -o FILE
 };
-void add_output_options(CLI::App& app, OutputOptions& o);
+// --format (text, json, csv, and markdown when `markdown`) and -o.
+void add_output_options(CLI::App& app, OutputOptions& o, bool markdown = false);
 // A CLI11 check for a FILE flag: an empty name is refused (it would read as "not given").
 [[nodiscard]] std::string non_empty_file_name(const std::string& path);
 

@@ -17,11 +17,14 @@
 
 namespace rtline::cli {
 
-Format parse_format(const std::string& text) {
+Format parse_format(const std::string& text, bool markdown) {
     if (text == "text") return Format::text;
     if (text == "json") return Format::json;
     if (text == "csv") return Format::csv;
-    throw InputError("--format", text, "unknown format; choose text, json or csv");
+    if (text == "markdown" && markdown) return Format::markdown;
+    throw InputError(
+        "--format", text,
+        markdown ? "unknown format; choose text, json, csv or markdown" : "unknown format; choose text, json or csv");
 }
 
 namespace {

@@ -12,10 +12,10 @@ namespace rtline::cli {
 
 using Json = nlohmann::ordered_json;
 
-enum class Format { text, json, csv };
+enum class Format { text, json, csv, markdown };
 
-// Parses --format; throws InputError.
-[[nodiscard]] Format parse_format(const std::string& text);
+// Parses --format; `markdown` says whether the command writes Markdown. Throws InputError.
+[[nodiscard]] Format parse_format(const std::string& text, bool markdown = false);
 
 // A column: its header in text (with the unit) and in CSV (snake_case with a unit suffix), and how
 // its numbers print in text: `decimals` ≥ 0 fixed decimals, otherwise `digits` significant figures.
