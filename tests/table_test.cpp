@@ -44,7 +44,10 @@ Circuit circuit(const Design& d) {
 
 Span span(const Design& d) { return {celsius_to_kelvin(d.lo_c), celsius_to_kelvin(d.hi_c)}; }
 
-CodeMap code_map(const Design& d) { return map_codes(thermistor(d), circuit(d), span(d), d.adc_bits); }
+// The converter reads the divider directly, ratiometrically.
+Channel channel(const Design& d) { return Channel{circuit(d), std::nullopt, 1.0}; }
+
+CodeMap code_map(const Design& d) { return map_codes(thermistor(d), channel(d), span(d), d.adc_bits); }
 
 nlohmann::json ref_input(const Design& d) {
     nlohmann::json j = {{"r25_ohm", d.r25_ohm}, {"b_k", d.b_k},
@@ -107,7 +110,7 @@ TEST_CASE("the exact inverse undoes each ratiometric circuit's output, load incl
             const double v = output(c, r_t);
             CAPTURE(topology_name(k.topology));
             CAPTURE(r_t);
-            CHECK(resistance_at_ratio(c, v) == doctest::Approx(r_t).epsilon(1e-10));
+            CHECK(channel_resistance(Channel{c, std::nullopt, 1.0}, v) == doctest::Approx(r_t).epsilon(1e-10));
         }
     }
 }
@@ -369,19 +372,19 @@ TEST_CASE("fault bands: open and short by the circuit equations, the margin from
     Design high;
     high.topology = Topology::divider_high;
     const CodeMap hm = code_map(high);
-    CHECK(open_ratio(circuit(high)) == 0.0);
-    CHECK(short_ratio(circuit(high)) == 1.0);
-    const auto margin = tolerance_margin(hm, thermistor(high), circuit(high), span(high), Tolerances{});
+    CHECK(open_ratio(channel(high)) == 0.0);
+    CHECK(short_ratio(channel(high)) == 1.0);
+    const auto margin = tolerance_margin(hm, thermistor(high), channel(high), span(high), Tolerances{});
     CHECK(margin.first > 1);
     CHECK(margin.second > 1);
-    const FaultBands f = fault_bands(hm, circuit(high), margin.first, margin.second);
+    const FaultBands f = fault_bands(hm, channel(high), margin.first, margin.second);
     CHECK(f.classify(0) == CodeMeaning::open);
     CHECK(f.classify(4095) == CodeMeaning::short_circuit);
     CHECK(f.classify(hm.code_lo) == CodeMeaning::reading);
     CHECK(f.reading_lo() == hm.code_lo - margin.first);
     const Design low;
-    CHECK(open_ratio(circuit(low)) == 1.0);
-    CHECK(short_ratio(circuit(low)) == 0.0);
+    CHECK(open_ratio(channel(low)) == 1.0);
+    CHECK(short_ratio(channel(low)) == 0.0);
 }
 
 TEST_CASE("with lead wires a shorted thermistor leaves the wires' loop, an open one is still infinite") {
@@ -416,8 +419,8 @@ TEST_CASE("with lead wires a shorted thermistor leaves the wires' loop, an open 
         d.rp_ohm = k.rp;
         d.lo_c = 0.0;
         d.hi_c = 50.0;
-        Circuit c = circuit(d);
-        c.lead_ohm = k.lead;
+        Channel c = channel(d);
+        c.circuit.lead_ohm = k.lead;
         CHECK(open_ratio(c) == doctest::Approx(k.open_v).epsilon(1e-14));
         CHECK(short_ratio(c) == doctest::Approx(k.short_v).epsilon(1e-14));
         const CodeMap map = map_codes(thermistor(d), c, span(d), d.adc_bits);
