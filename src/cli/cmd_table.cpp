@@ -540,6 +540,10 @@ void setup_table(CLI::App& app) {
     add_span_options(*sub, opt->span);
     sub->remove_option(sub->get_option("--step"));  // every ADC code of the span is evaluated instead
     add_circuit_options(*sub, opt->circuit);
+    sub->get_option("--circuit")
+        ->description("divider-high, divider-low or shunt-divider (ratiometric); bridge or shunt-bridge "
+                      "(ratiometric, through --gain/--offset or --auto-range); bare or shunt (with --current and "
+                      "--adc-ref)");
     add_amplifier_options(*sub, opt->front);
     sub->add_option("--adc-bits", opt->adc_bits, "ADC resolution N, 1 to 24 bits (default 12)")->group("Reading");
     add_adc_transfer_option(*sub, opt->adc_transfer, "Reading");
@@ -571,10 +575,15 @@ void setup_table(CLI::App& app) {
                             "--adc-bits 12 --entries 17\n"
                             "  rtline table --r25 10k --beta 3950 --span -20:60 --circuit divider-high --rs 10k "
                             "--max-error 0.1 --spacing error --emit c --prefix pack_ -o pack_temp.h\n"
-                            "The ADC reference is the divider's excitation (ratiometric); --adc-transfer says which "
-                            "ratio a code stands for.\nThe shipped error is the emitted integer code's, measured "
-                            "over every code of the span against the exact inverse (ratio -> R_T -> T by the "
-                            "model).\n\n") +
+                            "  rtline table --r25 10k --beta 3950 --span 0:50 --circuit bridge --r1 10k --auto-range "
+                            "--max-error 0.05\n"
+                            "  rtline table --r25 10k --beta 3950 --span 10:60 --circuit bare --current 50u "
+                            "--adc-ref 2.5 --max-error 0.2\n"
+                            "A divider or bridge is read ratiometrically (the ADC reference is its excitation); a "
+                            "current drive against --adc-ref volts.\n--adc-transfer says which ratio a code stands "
+                            "for. The shipped error is the emitted integer code's, measured over every code of the "
+                            "span\nagainst the exact inverse (code -> ratio -> amplifier -> network -> R_T -> T by "
+                            "the model).\n\n") +
                 kSafetyNote);
     sub->callback([opt] { run_table(*opt); });
 }
