@@ -62,7 +62,7 @@ std::vector<std::string> channel_lines(const Channel& ch, const AmplifierChoice&
     if (ch.ratiometric()) {
         lines.push_back("ratiometric: the ADC reference is the circuit's excitation");
     } else {
-        lines.push_back("not ratiometric: the ADC reads the current through the network against a " +
+        lines.push_back("not ratiometric: the ADC reads the voltage the current makes across the network against a " +
                         format_number(ch.reference, 6) +
                         " V reference (the current's and the reference's own errors move every reading)");
     }
