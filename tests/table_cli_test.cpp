@@ -600,3 +600,24 @@ TEST_CASE("bridges through their amplifier and current-driven thermistors reach 
         }
     }
 }
+
+TEST_CASE("a shunt on a current source: the open code is I·rp, and within the margin it reads as a temperature") {
+    // Hand calculation: an open thermistor leaves rp alone, 100 µA · 4.7 kΩ = 0.47 V, 0.47/2.5 of
+    // 4096 = 770.05 LSB, code 770; the span's cold end 33.62 kΩ ∥ 4.7 kΩ = 4123 Ω is code 675. A
+    // 100-code margin reaches past 770: the report says the open cannot be told, and the header's
+    // sensor_state() reads it as a temperature.
+    const std::vector<std::string> flags = {"table", "--r25", "10k", "--beta", "3950", "--span", "0:50", "--circuit",
+                                            "shunt", "--rp", "4k7", "--current", "100u", "--adc-ref", "2.5"};
+    const Json told = run_json(flags);
+    CHECK(told["faults"]["open_code"] == 770);
+    CHECK(told["reading"]["code_hi"] == 675);
+    CHECK(told["faults"]["not_told_from_a_reading"].empty());
+    CHECK(told["front_end"]["ratiometric"] == false);
+    CHECK(told["front_end"]["reference"].get<double>() == 2.5);
+    const std::vector<std::string> wide = with(flags, {"--fault-margin", "100"});
+    const Json hidden = run_json(wide);
+    CHECK(hidden["faults"]["not_told_from_a_reading"] == Json::array({"open"}));
+    const auto readings = run_header(wide, "sh_", false, 0, 4095);
+    CHECK(readings[770].state == 0);
+    CHECK(readings[776].state == 3);  // past the readings, and no fault gives it
+}
