@@ -90,8 +90,8 @@ TEST_CASE("the --help of table, budget and size names exactly the circuits each 
     // Each circuit the help line names runs (exit 0) with the flags it names; the ones it leaves out
     // are refused (exit 2). Which ones: table reads every voltage output through its channel; budget
     // reads each network's output directly; size has nothing to size in a bare thermistor.
-    const std::vector<std::string> all = {"bare",         "divider-high", "divider-low", "shunt",
-                                          "shunt-divider", "bridge",      "shunt-bridge"};
+    const std::vector<std::string> all = {"bare",          "divider-high", "divider-low", "shunt",
+                                          "shunt-divider", "bridge",       "shunt-bridge"};
     auto parts = [](const std::string& t) -> std::vector<std::string> {
         if (t == "divider-high" || t == "divider-low") return {"--rs", "10k"};
         if (t == "shunt-divider") return {"--rs", "10k", "--rp", "47k"};

@@ -520,12 +520,12 @@ TEST_CASE("bridges through their amplifier and current-driven thermistors reach 
     const std::vector<std::string> thermistor = {"table", "--r25", "10k", "--beta", "3950", "--adc-bits", "12"};
     const Case cases[] = {
         {"bridge, amplifier fitted to 5..95 % of the range",
-         with(thermistor, {"--span", "0:50", "--circuit", "bridge", "--r1", "10k", "--auto-range", "--max-error", "0.05"}),
-         ref({{"topology", "bridge"}, {"r1_ohm", 10e3}, {"r2_ohm", 10e3}, {"lo_c", 0.0}, {"hi_c", 50.0}}),
-         0.01},
+         with(thermistor,
+              {"--span", "0:50", "--circuit", "bridge", "--r1", "10k", "--auto-range", "--max-error", "0.05"}),
+         ref({{"topology", "bridge"}, {"r1_ohm", 10e3}, {"r2_ohm", 10e3}, {"lo_c", 0.0}, {"hi_c", 50.0}}), 0.01},
         {"loaded shunt-bridge, inputs swapped (gain -2), equal-error spacing",
-         with(thermistor, {"--span", "0:50", "--circuit", "shunt-bridge", "--r1", "10k", "--rp", "47k", "--load", "100k",
-                           "--gain", "-2", "--offset", "0.05", "--max-error", "0.05", "--spacing", "error"}),
+         with(thermistor, {"--span", "0:50", "--circuit", "shunt-bridge", "--r1", "10k", "--rp", "47k", "--load",
+                           "100k", "--gain", "-2", "--offset", "0.05", "--max-error", "0.05", "--spacing", "error"}),
          ref({{"topology", "shunt-bridge"},
               {"r1_ohm", 10e3},
               {"r2_ohm", 10e3},
@@ -537,11 +537,11 @@ TEST_CASE("bridges through their amplifier and current-driven thermistors reach 
         {"bare thermistor, 50 uA into a 2.5 V converter, 0.1 degC",
          with(thermistor, {"--span", "10:60", "--circuit", "bare", "--current", "50u", "--adc-ref", "2.5", "--unit",
                            "0.1", "--max-error", "0.2"}),
-         ref({{"topology", "bare"}, {"current_a", 50e-6}, {"reference", 2.5}, {"lo_c", 10.0}, {"hi_c", 60.0}}),
-         0.1},
+         ref({{"topology", "bare"}, {"current_a", 50e-6}, {"reference", 2.5}, {"lo_c", 10.0}, {"hi_c", 60.0}}), 0.1},
         {"shunt, 100 uA, single-ended amplifier into 3.3 V, power-of-two segments",
-         with(thermistor, {"--span", "0:50", "--circuit", "shunt", "--rp", "22k", "--current", "100u", "--adc-ref", "3.3",
-                           "--gain", "1.5", "--offset", "0.1", "--spacing", "power-of-two", "--max-error", "0.1"}),
+         with(thermistor,
+              {"--span", "0:50", "--circuit", "shunt", "--rp", "22k", "--current", "100u", "--adc-ref", "3.3", "--gain",
+               "1.5", "--offset", "0.1", "--spacing", "power-of-two", "--max-error", "0.1"}),
          ref({{"topology", "shunt"},
               {"rp_ohm", 22e3},
               {"current_a", 100e-6},
@@ -606,8 +606,9 @@ TEST_CASE("a shunt on a current source: the open code is I·rp, and within the m
     // 4096 = 770.05 LSB, code 770; the span's cold end 33.62 kΩ ∥ 4.7 kΩ = 4123 Ω is code 675. A
     // 100-code margin reaches past 770: the report says the open cannot be told, and the header's
     // sensor_state() reads it as a temperature.
-    const std::vector<std::string> flags = {"table", "--r25", "10k", "--beta", "3950", "--span", "0:50", "--circuit",
-                                            "shunt", "--rp", "4k7", "--current", "100u", "--adc-ref", "2.5"};
+    const std::vector<std::string> flags = {"table",  "--r25",     "10k",       "--beta",    "3950",
+                                            "--span", "0:50",      "--circuit", "shunt",     "--rp",
+                                            "4k7",    "--current", "100u",      "--adc-ref", "2.5"};
     const Json told = run_json(flags);
     CHECK(told["faults"]["open_code"] == 770);
     CHECK(told["reading"]["code_hi"] == 675);

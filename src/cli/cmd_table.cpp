@@ -67,8 +67,9 @@ std::vector<std::string> channel_lines(const Channel& ch, const AmplifierChoice&
                         " V reference (the current's and the reference's own errors move every reading)");
     }
     if (ch.amplifier) {
-        lines.push_back(std::string("through an amplifier, ") + (is_bridge(ch.circuit.topology) ? "differential, " : "") +
-                        describe_amplifier(amp, ch.circuit) + "; its output taken to saturate at 0 and full scale");
+        lines.push_back(std::string("through an amplifier, ") +
+                        (is_bridge(ch.circuit.topology) ? "differential, " : "") + describe_amplifier(amp, ch.circuit) +
+                        "; its output taken to saturate at 0 and full scale");
     }
     return lines;
 }
@@ -319,21 +320,19 @@ std::string c_report(const Result& r, const std::string& prefix) {
         for (std::size_t pos; (pos = s.find("\xC2\xB0")) != std::string::npos;) s.replace(pos, 2, "deg");
         return s;
     };
-    h.comment = {"ADC code to temperature, written by rtline " RTLINE_VERSION " (rtline table).",
-                 "",
-                 "model:   " + ascii(describe_model(r.thermistor)),
-                 "circuit: " + describe_circuit(r.circuit)};
+    h.comment = {"ADC code to temperature, written by rtline " RTLINE_VERSION " (rtline table).", "",
+                 "model:   " + ascii(describe_model(r.thermistor)), "circuit: " + describe_circuit(r.circuit)};
     const std::vector<std::string> reading = reading_lines(m, r.channel, r.amp, "degC");
     for (std::size_t i = 0; i < reading.size(); ++i)
         h.comment.push_back((i == 0 ? "reading: " : "         ") + reading[i]);
-    h.comment.insert(h.comment.end(), {
-                 "table:   " + std::to_string(r.table.codes.size()) + " entries, spacing " +
-                     std::string(spacing_name(r.table.spacing)) + ", in " + unit_text(r.fixed) + " degC, " +
-                     std::to_string(r.fixed.arithmetic_bits) + "-bit arithmetic",
-                 "target:  " + target_words(r, "degC"),
-                 "error:   this integer code " + format_fixed(r.fixed.max_error_k, 4) + " degC at code " +
-                     std::to_string(r.fixed.at_code) + " (interpolation alone " + format_fixed(r.table.max_error_k, 4) +
-                     " degC at code " + std::to_string(r.table.at_code) + ")"});
+    h.comment.insert(h.comment.end(), {"table:   " + std::to_string(r.table.codes.size()) + " entries, spacing " +
+                                           std::string(spacing_name(r.table.spacing)) + ", in " + unit_text(r.fixed) +
+                                           " degC, " + std::to_string(r.fixed.arithmetic_bits) + "-bit arithmetic",
+                                       "target:  " + target_words(r, "degC"),
+                                       "error:   this integer code " + format_fixed(r.fixed.max_error_k, 4) +
+                                           " degC at code " + std::to_string(r.fixed.at_code) +
+                                           " (interpolation alone " + format_fixed(r.table.max_error_k, 4) +
+                                           " degC at code " + std::to_string(r.table.at_code) + ")"});
     if (r.polynomial) {
         h.comment.push_back("poly:    " + std::string(fit_name(r.polynomial->fit)) + ", degree " +
                             std::to_string(r.polynomial->degree) + ", error " +
@@ -459,11 +458,24 @@ void run_table(const TableCommand& o) {
     const AdcTransfer transfer = build_adc_transfer(o.adc_transfer);
 
     refuse_unreadable(o);
-    Result r{build_model(o.model), build_span(o.span), {}, {}, {}, {}, {}, {}, {}, {}, {}, 0.0, target_k.has_value(),
+    Result r{build_model(o.model),
+             build_span(o.span),
+             {},
+             {},
+             {},
+             {},
+             {},
+             {},
+             {},
+             {},
+             {},
+             0.0,
+             target_k.has_value(),
              target_k};
     r.circuit = build_circuit(o.circuit, r.thermistor, r.span);
     // The output is monotone in R_T: the span's ends are the extremes --auto-range maps.
-    const Grid ends{{r.span.lo_k, r.span.hi_k}, {r.thermistor.resistance(r.span.lo_k), r.thermistor.resistance(r.span.hi_k)}};
+    const Grid ends{{r.span.lo_k, r.span.hi_k},
+                    {r.thermistor.resistance(r.span.lo_k), r.thermistor.resistance(r.span.hi_k)}};
     r.amp = choose_amplifier(o.front, r.circuit, ends);
     r.channel = {r.circuit, r.amp.amplifier, r.amp.full_scale};
     try {
@@ -541,9 +553,10 @@ void setup_table(CLI::App& app) {
     sub->remove_option(sub->get_option("--step"));  // every ADC code of the span is evaluated instead
     add_circuit_options(*sub, opt->circuit);
     sub->get_option("--circuit")
-        ->description("divider-high, divider-low or shunt-divider (ratiometric); bridge or shunt-bridge "
-                      "(ratiometric, through --gain/--offset or --auto-range); bare or shunt (with --current and "
-                      "--adc-ref)");
+        ->description(
+            "divider-high, divider-low or shunt-divider (ratiometric); bridge or shunt-bridge "
+            "(ratiometric, through --gain/--offset or --auto-range); bare or shunt (with --current and "
+            "--adc-ref)");
     add_amplifier_options(*sub, opt->front);
     sub->add_option("--adc-bits", opt->adc_bits, "ADC resolution N, 1 to 24 bits (default 12)")->group("Reading");
     add_adc_transfer_option(*sub, opt->adc_transfer, "Reading");

@@ -30,7 +30,8 @@ CodeMap map_codes(const Thermistor& model, const Channel& channel, const Span& s
             throw InputError("range", describe(v),
                              "at " + format_number(kelvin_to_celsius(t_k), 4) +
                                  " \xC2\xB0"
-                                 "C the converter input is " + format_number(v, 4) +
+                                 "C the converter input is " +
+                                 format_number(v, 4) +
                                  " of the reference, outside 0 to 1: that end of the span would read as a rail");
         }
     }

@@ -93,7 +93,8 @@ std::pair<std::int64_t, std::int64_t> tolerance_margin(const CodeMap& map, const
                     auto sign = [corner](std::size_t i) { return (corner >> i & 1U) != 0 ? 1.0 : -1.0; };
                     for (std::size_t i = 0; i < names.size(); ++i) {
                         const std::string& n = names[i];
-                        set_resistor(ch.circuit, n, resistor_value(channel.circuit, n) * (1.0 + sign(i) * tol.resistors));
+                        set_resistor(ch.circuit, n,
+                                     resistor_value(channel.circuit, n) * (1.0 + sign(i) * tol.resistors));
                     }
                     if (current) {
                         ch.circuit.excitation.value *= 1.0 + sign(names.size()) * tol.excitation;
