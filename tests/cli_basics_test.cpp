@@ -65,3 +65,66 @@ TEST_CASE("model, fit and check give exit code 0 on success, and size and table 
     CHECK(table.code == 1);
     CHECK(table.out.empty());
 }
+
+namespace {
+
+// The --circuit line of a command's --help.
+std::string circuit_help(const std::string& command) {
+    const auto r = run_rtline({command, "--help"});
+    const std::size_t at = r.out.find("--circuit");
+    REQUIRE(at != std::string::npos);
+    return r.out.substr(at, r.out.find('\n', at) - at);
+}
+
+// The flags that give each topology what it needs, on a 10k B3950 thermistor over 0 to 50 degC.
+std::vector<std::string> run_with(const std::string& command, const std::string& topology,
+                                  const std::vector<std::string>& more) {
+    std::vector<std::string> a = {command, "--r25", "10k", "--beta", "3950", "--span", "0:50", "--circuit", topology};
+    a.insert(a.end(), more.begin(), more.end());
+    return a;
+}
+
+}  // namespace
+
+TEST_CASE("the --help of table, budget and size names exactly the circuits each runs") {
+    // Each circuit the help line names runs (exit 0) with the flags it names; the ones it leaves out
+    // are refused (exit 2). Which ones: table reads every voltage output through its channel; budget
+    // reads each network's output directly; size has nothing to size in a bare thermistor.
+    const std::vector<std::string> all = {"bare",          "divider-high", "divider-low", "shunt",
+                                          "shunt-divider", "bridge",       "shunt-bridge"};
+    auto parts = [](const std::string& t) -> std::vector<std::string> {
+        if (t == "divider-high" || t == "divider-low") return {"--rs", "10k"};
+        if (t == "shunt-divider") return {"--rs", "10k", "--rp", "47k"};
+        if (t == "bridge") return {"--r1", "10k"};
+        if (t == "shunt-bridge") return {"--r1", "10k", "--rp", "47k"};
+        if (t == "shunt") return {"--rp", "47k"};
+        return {};
+    };
+    for (const std::string& command : {std::string("table"), std::string("budget"), std::string("size")}) {
+        const std::string help = circuit_help(command);
+        CAPTURE(help);
+        for (const std::string& t : all) {
+            CAPTURE(command);
+            CAPTURE(t);
+            std::vector<std::string> more = command == "size" ? std::vector<std::string>{} : parts(t);
+            const bool current = t == "bare" || t == "shunt";
+            if (command == "table") {
+                if (current) more.insert(more.end(), {"--current", "50u", "--adc-ref", "2.5"});
+                if (t == "bridge" || t == "shunt-bridge") more.push_back("--auto-range");
+            }
+            if (command == "budget") {
+                more.insert(more.end(), {"--step", "10", "--trials", "0"});
+                if (current) more.insert(more.end(), {"--current", "50u", "--adc-ref", "2.5", "--adc-bits", "12"});
+            }
+            if (command == "size") more.insert(more.end(), {"--step", "5"});
+            // A name in the help line, not inside another name (divider-low inside shunt-divider).
+            const bool listed = help.find(" " + t + ",") != std::string::npos ||
+                                help.find(" " + t + " ") != std::string::npos ||
+                                help.find(" " + t + ";") != std::string::npos;
+            const bool excluded = help.find("(" + t + " has no") != std::string::npos;
+            const auto r = run_rtline(run_with(command, t, more));
+            INFO(r.err);
+            CHECK(r.code == (listed && !excluded ? 0 : 2));
+        }
+    }
+}

@@ -125,3 +125,64 @@ TEST_CASE("the converter reads a bridge only through an amplifier, a bare thermi
     bare.excitation = {Drive::current, 100e-6};
     CHECK_NOTHROW(rtline::validate_front_end(bare, std::nullopt));
 }
+
+TEST_CASE("the channel's ratio and its inverse agree with hand calculations through each network") {
+    // Hand calculations (Ohm's law, each bridge side a Thevenin source): r1 = r2 = r3 = 10 kΩ and
+    // R_T = 5 kΩ give V_A0 = 5/15, V_B0 = 1/2, so V_A − V_B = −1/6 unloaded; a 20 kΩ load between A
+    // and B leaves −1/6 · 20/(20 + 10·5/15 + 5) = −2/17. Gain 2 and offset 0.5 (V/V) give 1/6 and
+    // 9/34 of the reference. A shunt on 100 µA: 10 kΩ ∥ 22 kΩ = 6875 Ω, 0.6875 V of 2.5 V = 0.275.
+    rtline::Channel bridge;
+    bridge.circuit.topology = Topology::bridge;
+    bridge.circuit.r1 = bridge.circuit.r2 = bridge.circuit.r3 = 10e3;
+    bridge.amplifier = rtline::Amplifier{2.0, 0.5, 0.0};
+    CHECK(rtline::channel_ratio(bridge, 5e3) == doctest::Approx(1.0 / 6.0).epsilon(1e-14));
+    CHECK(rtline::channel_resistance(bridge, 1.0 / 6.0) == doctest::Approx(5e3).epsilon(1e-12));
+    rtline::Channel loaded = bridge;
+    loaded.circuit.load_ohm = 20e3;
+    CHECK(rtline::channel_ratio(loaded, 5e3) == doctest::Approx(9.0 / 34.0).epsilon(1e-14));
+    CHECK(rtline::channel_resistance(loaded, 9.0 / 34.0) == doctest::Approx(5e3).epsilon(1e-12));
+
+    rtline::Channel shunt;
+    shunt.circuit.topology = Topology::shunt;
+    shunt.circuit.rp = 22e3;
+    shunt.circuit.excitation = {Drive::current, 100e-6};
+    shunt.reference = 2.5;
+    CHECK(rtline::channel_ratio(shunt, 10e3) == doctest::Approx(0.275).epsilon(1e-14));
+    CHECK(rtline::channel_resistance(shunt, 0.275) == doctest::Approx(10e3).epsilon(1e-12));
+
+    // Every network, loaded, with lead wires and an amplifier: the inverse returns the R_T it was given.
+    for (const Topology t : rtline::all_topologies()) {
+        rtline::Channel ch;
+        ch.circuit.topology = t;
+        ch.circuit.rs = 6.8e3;
+        ch.circuit.rp = 33e3;
+        ch.circuit.r1 = 12e3;
+        ch.circuit.r2 = 10e3;
+        ch.circuit.r3 = 4.7e3;
+        ch.circuit.load_ohm = 150e3;
+        ch.circuit.lead_ohm = 12.0;
+        ch.amplifier = rtline::Amplifier{-3.0, 0.7, 0.0};
+        if (rtline::gives_resistance(t)) {
+            ch.circuit.excitation = {Drive::current, 20e-6};
+            ch.reference = 1.25;
+        }
+        REQUIRE_NOTHROW(rtline::validate(ch));
+        for (const double r_t : {800.0, 4.7e3, 22e3}) {
+            CAPTURE(rtline::topology_name(t));
+            CAPTURE(r_t);
+            CHECK(rtline::channel_resistance(ch, rtline::channel_ratio(ch, r_t)) == doctest::Approx(r_t).epsilon(1e-9));
+        }
+    }
+}
+
+TEST_CASE("a channel the converter cannot read is refused in the core's own words") {
+    rtline::Channel ch;
+    ch.circuit.topology = Topology::bridge;
+    ch.circuit.r1 = ch.circuit.r2 = ch.circuit.r3 = 10e3;
+    CHECK_THROWS_WITH_AS(rtline::validate(ch), doctest::Contains("through an amplifier"), rtline::InputError);
+    ch.circuit.topology = Topology::bare;
+    ch.circuit.excitation = {Drive::current, 1e-4};
+    ch.reference = std::nan("");
+    CHECK_THROWS_WITH_AS(rtline::validate(ch), doctest::Contains("reference must be given in volts"),
+                         rtline::InputError);
+}

@@ -472,11 +472,11 @@ TEST_CASE("bad input exits 2 with one line naming the flag and the value") {
          "--format 'csv': CSV carries the table alone; use text or json for the "
          "polynomial"},
         {{"--excitation", "3.3"},
-         "--excitation '3.3': the table reads the ADC ratiometrically (its reference is the "
-         "excitation), so the supply voltage does not matter; leave --excitation out"},
+         "--excitation '3.3': the reading is ratiometric (the converter's reference is the excitation), "
+         "so the supply voltage does not matter; leave it out"},
         {{"--current", "100u"},
-         "--current '100u': a current drive is not ratiometric; the table needs a divider read "
-         "against its own excitation"},
+         "--current '100u': a current drive is read only across a bare or shunt thermistor; a divider "
+         "or bridge is read ratiometrically, against its own excitation"},
     };
     for (const Bad& b : cases) {
         const auto r = run_rtline(with(base, b.args));
@@ -487,16 +487,138 @@ TEST_CASE("bad input exits 2 with one line naming the flag and the value") {
     }
     const std::pair<const char*, const char*> circuits[] = {
         {"bare",
-         "--circuit 'bare': the output is a resistance, not a voltage an ADC reads; use divider-high, "
-         "divider-low or shunt-divider"},
+         "--circuit 'bare': the output is a resistance, not a voltage; a converter reads it through a "
+         "current drive, against a reference in volts (give --current and --adc-ref)"},
         {"bridge",
-         "--circuit 'bridge': a bridge's differential output needs an amplifier whose gain and offset the "
-         "table does not know; use divider-high, divider-low or shunt-divider (node A of the bridge alone is "
-         "a divider-low with rs = r1)"},
+         "--gain: a bridge's output is the difference V_A - V_B; a converter reads it through an amplifier "
+         "(its gain and output offset) (give --gain and --offset, or --auto-range)"},
     };
     for (const auto& [topology, message] : circuits) {
         const auto r = run_rtline({"table", "--r25", "10k", "--beta", "3950", "--span", "0:45", "--circuit", topology});
         CHECK(r.code == 2);
         CHECK(r.err == std::string("rtline: ") + message + "\n");
     }
+}
+
+TEST_CASE("bridges through their amplifier and current-driven thermistors reach the firmware, every code checked") {
+    // Reference: tests/ref/adc_inverse.py — the bridge by Kirchhoff's current law at nodes A and B
+    // (numpy.linalg.solve), the current drive by Ohm's law V = I·(R_T ∥ rp ∥ load), an ideal amplifier
+    // gain·v + offset over the converter's reference, inverted by scipy's brentq; open and short as
+    // R_T = 1e18 and 1e-12 ohm through the same equations, quantized and held to the rails. The
+    // emitted C is compiled and run over every code 0 … 2^N − 1.
+    struct Case {
+        const char* name;
+        std::vector<std::string> flags;
+        Json ref;
+        double unit_c;
+    };
+    const Json beta = {{"r25_ohm", 10e3}, {"b_k", 3950.0}, {"t0_c", 25.0}, {"adc_bits", 12}};
+    auto ref = [&beta](Json more) {
+        more.update(beta);
+        return more;
+    };
+    const std::vector<std::string> thermistor = {"table", "--r25", "10k", "--beta", "3950", "--adc-bits", "12"};
+    const Case cases[] = {
+        {"bridge, amplifier fitted to 5..95 % of the range",
+         with(thermistor,
+              {"--span", "0:50", "--circuit", "bridge", "--r1", "10k", "--auto-range", "--max-error", "0.05"}),
+         ref({{"topology", "bridge"}, {"r1_ohm", 10e3}, {"r2_ohm", 10e3}, {"lo_c", 0.0}, {"hi_c", 50.0}}), 0.01},
+        {"loaded shunt-bridge, inputs swapped (gain -2), equal-error spacing",
+         with(thermistor, {"--span", "0:50", "--circuit", "shunt-bridge", "--r1", "10k", "--rp", "47k", "--load",
+                           "100k", "--gain", "-2", "--offset", "0.05", "--max-error", "0.05", "--spacing", "error"}),
+         ref({{"topology", "shunt-bridge"},
+              {"r1_ohm", 10e3},
+              {"r2_ohm", 10e3},
+              {"rp_ohm", 47e3},
+              {"load_ohm", 100e3},
+              {"lo_c", 0.0},
+              {"hi_c", 50.0}}),
+         0.01},
+        {"bare thermistor, 50 uA into a 2.5 V converter, 0.1 degC",
+         with(thermistor, {"--span", "10:60", "--circuit", "bare", "--current", "50u", "--adc-ref", "2.5", "--unit",
+                           "0.1", "--max-error", "0.2"}),
+         ref({{"topology", "bare"}, {"current_a", 50e-6}, {"reference", 2.5}, {"lo_c", 10.0}, {"hi_c", 60.0}}), 0.1},
+        {"shunt, 100 uA, single-ended amplifier into 3.3 V, power-of-two segments",
+         with(thermistor,
+              {"--span", "0:50", "--circuit", "shunt", "--rp", "22k", "--current", "100u", "--adc-ref", "3.3", "--gain",
+               "1.5", "--offset", "0.1", "--spacing", "power-of-two", "--max-error", "0.1"}),
+         ref({{"topology", "shunt"},
+              {"rp_ohm", 22e3},
+              {"current_a", 100e-6},
+              {"reference", 3.3},
+              {"gain", 1.5},
+              {"offset", 0.1},
+              {"lo_c", 0.0},
+              {"hi_c", 50.0}}),
+         0.01},
+    };
+    for (const char* transfer : {"rounding", "full-scale"}) {
+        for (const Case& k : cases) {
+            CAPTURE(transfer);
+            CAPTURE(k.name);
+            const std::vector<std::string> flags = with(k.flags, {"--adc-transfer", transfer});
+            const Json doc = run_json(flags);
+            Json in = k.ref;
+            in["transfer"] = transfer;
+            if (doc["circuit"]["resistors_ohm"].contains("r3")) {
+                in["r3_ohm"] = doc["circuit"]["resistors_ohm"]["r3"];  // the null the bridge was completed for
+            }
+            const Json& amp = doc["front_end"]["amplifier"];
+            if (!amp.is_null()) {
+                in["gain"] = amp["gain_v_per_v"];
+                in["offset"] = amp["offset"];
+            }
+            const Json r = python_ref("adc_inverse.py", in);
+            if (!amp.is_null() && amp["auto_range"] == true) {
+                // The fitted amplifier puts the span's ends at 5 % and 95 % of the range.
+                CHECK(std::min(r["ratio_lo"].get<double>(), r["ratio_hi"].get<double>()) ==
+                      doctest::Approx(0.05).epsilon(1e-12));
+                CHECK(std::max(r["ratio_lo"].get<double>(), r["ratio_hi"].get<double>()) ==
+                      doctest::Approx(0.95).epsilon(1e-12));
+            }
+            const long lo = r["code_lo"].get<long>();
+            const long hi = r["code_hi"].get<long>();
+            REQUIRE(doc["reading"]["code_lo"].get<long>() == lo);
+            REQUIRE(doc["reading"]["code_hi"].get<long>() == hi);
+            const auto readings = run_header(flags, "ch_", false, 0, 4095);
+            double worst = 0.0;
+            for (const CReading& c : readings) {
+                if (c.code < lo || c.code > hi) continue;
+                const double exact = r["t_c"][static_cast<std::size_t>(c.code - lo)].get<double>();
+                worst = std::max(worst, std::abs(static_cast<double>(c.counts) * k.unit_c - exact));
+                CHECK(c.state == 0);
+            }
+            CHECK(worst == doctest::Approx(doc["shipped"]["max_error_c"].get<double>()).epsilon(1e-9));
+            CHECK(worst <= doc["max_error_target_c"].get<double>());
+            const long open = r["open_code"].get<long>();
+            const long shorted = r["short_code"].get<long>();
+            CHECK(doc["faults"]["open_code"].get<long>() == open);
+            CHECK(doc["faults"]["short_code"].get<long>() == shorted);
+            CHECK(doc["faults"]["not_told_from_a_reading"].empty());
+            CHECK(readings[static_cast<std::size_t>(open)].state == 1);
+            CHECK(readings[static_cast<std::size_t>(shorted)].state == 2);
+        }
+    }
+}
+
+TEST_CASE("a shunt on a current source: the open code is I·rp, and within the margin it reads as a temperature") {
+    // Hand calculation: an open thermistor leaves rp alone, 100 µA · 4.7 kΩ = 0.47 V, 0.47/2.5 of
+    // 4096 = 770.05 LSB, code 770; the span's cold end 33.62 kΩ ∥ 4.7 kΩ = 4123 Ω is code 675. A
+    // 100-code margin reaches past 770: the report says the open cannot be told, and the header's
+    // sensor_state() reads it as a temperature.
+    const std::vector<std::string> flags = {"table",  "--r25",     "10k",       "--beta",    "3950",
+                                            "--span", "0:50",      "--circuit", "shunt",     "--rp",
+                                            "4k7",    "--current", "100u",      "--adc-ref", "2.5"};
+    const Json told = run_json(flags);
+    CHECK(told["faults"]["open_code"] == 770);
+    CHECK(told["reading"]["code_hi"] == 675);
+    CHECK(told["faults"]["not_told_from_a_reading"].empty());
+    CHECK(told["front_end"]["ratiometric"] == false);
+    CHECK(told["front_end"]["reference"].get<double>() == 2.5);
+    const std::vector<std::string> wide = with(flags, {"--fault-margin", "100"});
+    const Json hidden = run_json(wide);
+    CHECK(hidden["faults"]["not_told_from_a_reading"] == Json::array({"open"}));
+    const auto readings = run_header(wide, "sh_", false, 0, 4095);
+    CHECK(readings[770].state == 0);
+    CHECK(readings[776].state == 3);  // past the readings, and no fault gives it
 }

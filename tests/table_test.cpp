@@ -44,7 +44,10 @@ Circuit circuit(const Design& d) {
 
 Span span(const Design& d) { return {celsius_to_kelvin(d.lo_c), celsius_to_kelvin(d.hi_c)}; }
 
-CodeMap code_map(const Design& d) { return map_codes(thermistor(d), circuit(d), span(d), d.adc_bits); }
+// The converter reads the divider directly, ratiometrically.
+Channel channel(const Design& d) { return Channel{circuit(d), std::nullopt, 1.0}; }
+
+CodeMap code_map(const Design& d) { return map_codes(thermistor(d), channel(d), span(d), d.adc_bits); }
 
 nlohmann::json ref_input(const Design& d) {
     nlohmann::json j = {{"r25_ohm", d.r25_ohm}, {"b_k", d.b_k},
@@ -107,7 +110,7 @@ TEST_CASE("the exact inverse undoes each ratiometric circuit's output, load incl
             const double v = output(c, r_t);
             CAPTURE(topology_name(k.topology));
             CAPTURE(r_t);
-            CHECK(resistance_at_ratio(c, v) == doctest::Approx(r_t).epsilon(1e-10));
+            CHECK(channel_resistance(Channel{c, std::nullopt, 1.0}, v) == doctest::Approx(r_t).epsilon(1e-10));
         }
     }
 }
@@ -369,17 +372,64 @@ TEST_CASE("fault bands: open and short by the circuit equations, the margin from
     Design high;
     high.topology = Topology::divider_high;
     const CodeMap hm = code_map(high);
-    CHECK(open_ratio(circuit(high)) == 0.0);
-    CHECK(short_ratio(circuit(high)) == 1.0);
-    const auto margin = tolerance_margin(hm, thermistor(high), circuit(high), span(high), Tolerances{});
+    CHECK(open_ratio(channel(high)) == 0.0);
+    CHECK(short_ratio(channel(high)) == 1.0);
+    const auto margin = tolerance_margin(hm, thermistor(high), channel(high), span(high), Tolerances{});
     CHECK(margin.first > 1);
     CHECK(margin.second > 1);
-    const FaultBands f = fault_bands(hm, circuit(high), margin.first, margin.second);
+    const FaultBands f = fault_bands(hm, channel(high), margin.first, margin.second);
     CHECK(f.classify(0) == CodeMeaning::open);
     CHECK(f.classify(4095) == CodeMeaning::short_circuit);
     CHECK(f.classify(hm.code_lo) == CodeMeaning::reading);
     CHECK(f.reading_lo() == hm.code_lo - margin.first);
     const Design low;
-    CHECK(open_ratio(circuit(low)) == 1.0);
-    CHECK(short_ratio(circuit(low)) == 0.0);
+    CHECK(open_ratio(channel(low)) == 1.0);
+    CHECK(short_ratio(channel(low)) == 0.0);
+}
+
+TEST_CASE("with lead wires a shorted thermistor leaves the wires' loop, an open one is still infinite") {
+    // Hand calculation through the circuit equations (Ohm's law, circuit.hpp) with the arm
+    // R_T + R_lead: shorted, R_T = 0 leaves R_lead; open, R_T → ∞ whatever the wires. Codes by the
+    // rounding transfer, round(v·4096).
+    struct Case {
+        Topology topology;
+        double rs;
+        double rp;
+        double lead;
+        double open_v;
+        double short_v;
+        std::int64_t open_code;
+        std::int64_t short_code;
+    };
+    const Case cases[] = {
+        // divider-high: v = rs/(R_arm + rs): open 0; short 10000/10050 = 0.995025, 4075.62 LSB.
+        {Topology::divider_high, 10e3, 0.0, 50.0, 0.0, 10e3 / 10050.0, 0, 4076},
+        // divider-low: v = R_arm/(rs + R_arm): open 1 (the top code); short 50/10050, 20.38 LSB.
+        {Topology::divider_low, 10e3, 0.0, 50.0, 1.0, 50.0 / 10050.0, 4095, 20},
+        // shunt-divider: v = rs/(Q + rs), Q = R_arm ∥ rp: open Q = rp, 4700/37700 = 0.124668,
+        // 510.64 LSB; short Q = 100 ∥ 33000 = 99.6979, 4700/4799.70 = 0.979228, 4010.92 LSB.
+        {Topology::shunt_divider, 4.7e3, 33e3, 100.0, 4.7e3 / 37.7e3, 4.7e3 / (4.7e3 + 100.0 * 33e3 / 33.1e3), 511,
+         4011},
+    };
+    for (const Case& k : cases) {
+        CAPTURE(topology_name(k.topology));
+        Design d;
+        d.topology = k.topology;
+        d.rs_ohm = k.rs;
+        d.rp_ohm = k.rp;
+        d.lo_c = 0.0;
+        d.hi_c = 50.0;
+        Channel c = channel(d);
+        c.circuit.lead_ohm = k.lead;
+        CHECK(open_ratio(c) == doctest::Approx(k.open_v).epsilon(1e-14));
+        CHECK(short_ratio(c) == doctest::Approx(k.short_v).epsilon(1e-14));
+        const CodeMap map = map_codes(thermistor(d), c, span(d), d.adc_bits);
+        const FaultBands f = fault_bands(map, c, 3, 3);
+        CHECK(f.open_code == k.open_code);
+        CHECK(f.short_code == k.short_code);
+        CHECK(f.classify(k.open_code) == CodeMeaning::open);
+        CHECK(f.classify(k.short_code) == CodeMeaning::short_circuit);
+        // The wires move the short off the rail, never into the readings: R_T > 0 at every reading.
+        CHECK(f.hidden.empty());
+    }
 }

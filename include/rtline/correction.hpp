@@ -1,6 +1,7 @@
-// Firmware correction: ADC code → temperature. A ratiometric ADC's code k stands for a ratio of its
-// reference, which is the circuit's excitation; which ratio depends on the converter's transfer
-// (converter.hpp). The exact inverse (code → ratio → R_T → T) gives every code's temperature; lookup
+// Firmware correction: ADC code → temperature. A code stands for a ratio of the converter's reference
+// (the excitation when ratiometric, volts with a current drive); which ratio depends on the converter's
+// transfer (converter.hpp). The channel (frontend.hpp) maps that ratio back to R_T through any
+// amplifier and the network. The exact inverse (code → ratio → R_T → T) gives every code's temperature; lookup
 // tables with linear interpolation and polynomials approximate it. The figure a target bounds is the
 // shipped error: what the integer code firmware runs computes, over every code of the span. A broken
 // sensor drives the code towards a rail: fault bands say which codes mean an open or a shorted
@@ -15,6 +16,7 @@
 
 #include "rtline/circuit.hpp"
 #include "rtline/converter.hpp"
+#include "rtline/frontend.hpp"
 #include "rtline/thermistor.hpp"
 #include "rtline/units.hpp"
 
@@ -26,16 +28,6 @@ inline constexpr int kMaxAdcBits = 24;                  // wider converters are 
 inline constexpr std::size_t kMaxTableEntries = 65536;  // a larger table is no longer a correction table
 inline constexpr std::size_t kMaxSearchEntries = 1024;  // --max-error looks no further than this
 inline constexpr int kMaxDegree = 12;                   // higher degrees fit rounding noise, not the curve
-
-// Throws InputError unless the circuit gives a ratiometric V/V output a single-ended ADC can read:
-// divider-high, divider-low or shunt-divider without --excitation or --current. Bare and shunt give
-// a resistance; a bridge's differential output needs an amplifier whose gain and offset are unknown.
-void require_ratiometric(const Circuit& c);
-
-// The thermistor resistance (ohm) at which the circuit's output ratio is v (0 < v < 1), load
-// included: the closed-form inverse of output() for the topologies require_ratiometric accepts.
-// Returns +infinity or a negative value where no positive finite R_T gives v.
-[[nodiscard]] double resistance_at_ratio(const Circuit& c, double v);
 
 // Every code of the span with its exact temperature.
 struct CodeMap {
@@ -51,12 +43,14 @@ struct CodeMap {
 };
 
 // The exact inverse at every code of the span: code → ratio (code_ratio under `transfer`) → R_T
-// (resistance_at_ratio) → T (the model), within [span.lo_k, span.hi_k]. The span's codes are those
-// whose ratio lies between the outputs at the span's ends; the rail codes 0 and 2^N − 1 are never
-// readings (a converter at its rail says nothing of how far past it the input is). Requires
-// require_ratiometric(circuit) and a model that covers the span. Throws InputError ("--adc-bits")
-// when adc_bits is not 1..kMaxAdcBits or the span covers fewer than two codes.
-[[nodiscard]] CodeMap map_codes(const Thermistor& model, const Circuit& circuit, const Span& span, int adc_bits,
+// (channel_resistance) → T (the model), within [span.lo_k, span.hi_k]. The span's codes are those
+// whose ratio lies between the channel's ratios at the span's ends; the rail codes 0 and 2^N − 1 are
+// never readings (a converter at its rail says nothing of how far past it the input is). Requires
+// validate(channel) to pass and a model that covers the span. Throws InputError ("--adc-bits") when
+// adc_bits is not 1..kMaxAdcBits or the span covers fewer than two codes, and ("range") when the
+// converter input at a span end lies outside 0 … 1 of the reference (that part of the span would read
+// as a rail).
+[[nodiscard]] CodeMap map_codes(const Thermistor& model, const Channel& channel, const Span& span, int adc_bits,
                                 AdcTransfer transfer = AdcTransfer::rounding);
 
 // Where a table's breakpoints go: evenly spaced codes, placed so that every segment's largest
@@ -144,9 +138,13 @@ struct ShippedTable {
 enum class CodeMeaning { reading, open, short_circuit, out_of_range };
 [[nodiscard]] std::string_view meaning_name(CodeMeaning m);  // "reading", "open", "short", "out-of-range"
 
-// The output ratio with the thermistor open (R_T → ∞) or shorted (R_T → 0), by the circuit equations.
-[[nodiscard]] double open_ratio(const Circuit& c);
-[[nodiscard]] double short_ratio(const Circuit& c);
+// The converter's input ratio with the thermistor open (R_T → ∞) or shorted (R_T → 0, the lead wires
+// left), by the circuit equations through the channel, limited to 0 … 1: an amplifier saturates at 0
+// and at the full scale (a rail-to-rail output swinging over the converter's range: our assumption),
+// a current source's compliance is taken to exceed the full scale, and the converter reads anything
+// beyond as its rail code.
+[[nodiscard]] double open_ratio(const Channel& ch);
+[[nodiscard]] double short_ratio(const Channel& ch);
 
 // A run of codes with one meaning.
 struct CodeBand {
@@ -173,16 +171,17 @@ struct FaultBands {
 };
 
 // The bands for margins of `margin_lo` and `margin_hi` codes (each ≥ 0) beyond the span's codes.
-[[nodiscard]] FaultBands fault_bands(const CodeMap& map, const Circuit& circuit, std::int64_t margin_lo,
+[[nodiscard]] FaultBands fault_bands(const CodeMap& map, const Channel& channel, std::int64_t margin_lo,
                                      std::int64_t margin_hi);
 
 // Codes to widen each end of the span by so that a good sensor with parts at their tolerances still
 // reads: at each span end, the largest shift of the code over the corners of R25 ± tol.r25 and B ±
-// tol.beta (perturbed_resistance, budget.hpp) and every fixed resistor ± tol.resistors (the load
-// exact), rounded up, plus one code for the converter's transition. Returns {below code_lo, above
-// code_hi}.
+// tol.beta (perturbed_resistance, budget.hpp), every fixed resistor of the topology ± tol.resistors
+// (the load exact) and, with a current drive, the current ± tol.excitation and the reference ±
+// tol.reference, rounded up, plus one code for the converter's transition. Returns {below code_lo,
+// above code_hi}.
 [[nodiscard]] std::pair<std::int64_t, std::int64_t> tolerance_margin(const CodeMap& map, const Thermistor& model,
-                                                                     const Circuit& circuit, const Span& span,
+                                                                     const Channel& channel, const Span& span,
                                                                      const Tolerances& tol);
 
 // Codes to widen each end by for a margin of `margin_k` beyond the span: margin_k over the

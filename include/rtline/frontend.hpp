@@ -43,6 +43,48 @@ struct RangeFit {
 };
 [[nodiscard]] RangeFit fit_range(const Circuit& c, const Grid& grid, double full_scale, double headroom);
 
+// ---------------------------------------------------------------- the channel: network to converter
+
+// What a converter reads and against what: the network, the amplifier between them (none: the
+// converter reads the network directly), and the converter's reference in output_unit(circuit) —
+// 1 when the reading is ratiometric (the reference is the excitation, V/V), volts with a current drive.
+// The one place that maps a thermistor resistance to the converter's input ratio and back; the table,
+// its fault bands and its shipped error all go through it.
+struct Channel {
+    Circuit circuit;
+    std::optional<Amplifier> amplifier;
+    double reference = 1.0;
+    [[nodiscard]] bool ratiometric() const { return circuit.excitation.drive == Drive::ratiometric; }
+};
+
+// Checks that the channel's input ratio can be turned back into R_T by a closed form: a divider
+// (divider-high, divider-low, shunt-divider) read ratiometrically, a bridge or shunt-bridge read
+// ratiometrically through an amplifier, or a bare or shunt thermistor driven by a current and read
+// against a reference in volts; an amplifier is optional except for bridges. Throws InputError naming
+// the quantity: "circuit", "excitation", "current", "amplifier" or "reference" (and the amplifier's
+// own numbers as validate_front_end does).
+void validate(const Channel& ch);
+
+// The converter's input as a fraction of its reference for thermistor resistance r_t (ohm; 0 and
+// +infinity give a short and an open), the lead wires included: (gain·out + offset)/reference, or
+// out/reference without an amplifier. Not clipped: a converter reads a value past 0 or 1 as its rail
+// code (ratio_code), as does an amplifier's output saturating at 0 and at the full scale.
+[[nodiscard]] double channel_ratio(const Channel& ch, double r_t);
+
+// The exact inverse of channel_ratio: the thermistor resistance (ohm) at which the converter input is
+// `ratio` of the reference, the known lead wires subtracted. Closed forms (Ohm's law on each network):
+//   network output  y = (ratio·reference − offset)/gain (or ratio·reference)
+//   bare            R_arm = (y/I) unparallel load
+//   shunt           R_arm = ((y/I) unparallel load) unparallel rp
+//   divider-high    R_arm = B·(1 − y)/y, B = rs ∥ load
+//   divider-low     R_arm = (rs·y/(1 − y)) unparallel load
+//   shunt-divider   R_arm = (B·(1 − y)/y) unparallel rp
+//   bridge          V_A0 = (V_B0·RL + y·(R_B + RL))/(RL − y·r1) (V_A0 = V_B0 + y without a load),
+//                   R_x = r1·V_A0/(1 − V_A0); the shunt-bridge's R_arm = R_x unparallel rp
+// with V_B0 = r3/(r2 + r3), R_B = r2 ∥ r3, "p unparallel a" the R with a ∥ R = p, and R_T = R_arm −
+// lead_ohm. Returns +infinity or a value ≤ 0 where no positive finite R_T gives the ratio.
+[[nodiscard]] double channel_resistance(const Channel& ch, double ratio);
+
 // The amplifier's error terms, each a bound (±): what the budget takes as causes.
 struct AmplifierErrors {
     double gain_error = 0.0;             // fraction of the gain (0.001 = 0.1 %)

@@ -591,6 +591,10 @@ void setup_budget(CLI::App& app) {
     add_model_options(*sub, opt->model);
     add_span_options(*sub, opt->span);
     add_circuit_options(*sub, opt->circuit);
+    sub->get_option("--circuit")
+        ->description(
+            "divider-high, divider-low, shunt-divider, bridge or shunt-bridge; bare or shunt with "
+            "--current");
     const char* tol = "Tolerances";
     sub->add_option("--r25-tol", opt->r25_tol, "Thermistor resistance at T0, +-% (default 1; 0 with --dt-tol)")
         ->group(tol);

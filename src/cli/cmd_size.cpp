@@ -632,6 +632,10 @@ void setup_size(CLI::App& app) {
     add_model_options(*sub, opt->model);
     add_span_options(*sub, opt->span);
     add_circuit_options(*sub, opt->circuit, true, false);
+    sub->get_option("--circuit")
+        ->description(
+            "divider-high, divider-low, shunt, shunt-divider, bridge or shunt-bridge (bare has no "
+            "resistor to size); --compare sizes each of them");
     sub->add_option("--series", opt->series, "Standard values: E3, E6, E12, E24 (default), E48, E96 or E192")
         ->group("Search");
     sub->add_option("--range", opt->range, "Resistor values LO:HI in ohm (default 1:10M)")->group("Search");

@@ -7,6 +7,7 @@
 #include "commands.hpp"
 #include "common.hpp"
 #include "emit_c.hpp"
+#include "frontend_report.hpp"
 #include "markdown.hpp"
 #include "pictures.hpp"
 #include "rtline/budget.hpp"
@@ -21,6 +22,7 @@ struct TableCommand {
     ModelOptions model;
     SpanOptions span;
     CircuitOptions circuit;
+    FrontEndOptions front;         // the amplifier and --adc-ref (its settling flags are not offered)
     std::string adc_bits = "12";   // ADC resolution, bits
     std::string adc_transfer;      // rounding (default) | truncating | full-scale
     std::string entries;           // table breakpoints (default: the fewest that meet the target)
@@ -55,19 +57,40 @@ int parse_scale(const std::string& text) {
                      "C per count of the fixed-point table)");
 }
 
-std::string convention(const CodeMap& map) {
-    return "ratiometric (the ADC reference is the circuit's excitation); " +
-           describe_adc_transfer(map.transfer, map.adc_bits) + "; codes outside " + std::to_string(map.code_lo) + ".." +
-           std::to_string(map.code_hi) + " read as the nearer end";
+// How the converter's input relates to the network: the reference, and the amplifier when there is one.
+std::vector<std::string> channel_lines(const Channel& ch, const AmplifierChoice& amp) {
+    std::vector<std::string> lines;
+    if (ch.ratiometric()) {
+        lines.push_back("ratiometric: the ADC reference is the circuit's excitation");
+    } else {
+        lines.push_back("not ratiometric: the ADC reads the voltage the current makes across the network against a " +
+                        format_number(ch.reference, 6) +
+                        " V reference (the current's and the reference's own errors move every reading)");
+    }
+    if (ch.amplifier) {
+        lines.push_back(std::string("through an amplifier, ") +
+                        (is_bridge(ch.circuit.topology) ? "differential, " : "") + describe_amplifier(amp, ch.circuit) +
+                        "; its output taken to saturate at 0 and full scale");
+    }
+    return lines;
 }
 
-// The convention as three short lines for text and the C header; `deg` spells the degree sign.
-std::vector<std::string> reading_lines(const CodeMap& map, const std::string& deg) {
-    return {"ratiometric: the ADC reference is the circuit's excitation",
-            describe_adc_transfer(map.transfer, map.adc_bits),
-            "codes " + std::to_string(map.code_lo) + " to " + std::to_string(map.code_hi) + " of " +
-                std::to_string(map.adc_bits) + " bits span " + celsius(map.t_k.front()) + " to " +
-                celsius(map.t_k.back()) + " " + deg + "; codes outside read as the nearer end"};
+// The convention as short lines for text and the C header; `deg` spells the degree sign.
+std::vector<std::string> reading_lines(const CodeMap& map, const Channel& ch, const AmplifierChoice& amp,
+                                       const std::string& deg) {
+    std::vector<std::string> lines = channel_lines(ch, amp);
+    lines.push_back(describe_adc_transfer(map.transfer, map.adc_bits));
+    lines.push_back("codes " + std::to_string(map.code_lo) + " to " + std::to_string(map.code_hi) + " of " +
+                    std::to_string(map.adc_bits) + " bits span " + celsius(map.t_k.front()) + " to " +
+                    celsius(map.t_k.back()) + " " + deg + "; codes outside read as the nearer end");
+    return lines;
+}
+
+std::string convention(const CodeMap& map, const Channel& ch, const AmplifierChoice& amp) {
+    std::string t;
+    for (const std::string& line : channel_lines(ch, amp)) t += line + "; ";
+    return t + describe_adc_transfer(map.transfer, map.adc_bits) + "; codes outside " + std::to_string(map.code_lo) +
+           ".." + std::to_string(map.code_hi) + " read as the nearer end";
 }
 
 std::string fixed_type(const FixedTable& f) { return f.bits == 16 ? "int16" : "int32"; }
@@ -106,6 +129,8 @@ struct Result {
     Thermistor thermistor;
     Span span;
     Circuit circuit;
+    Channel channel;      // the circuit, the amplifier and the converter's reference
+    AmplifierChoice amp;  // how the amplifier was chosen, for the words
     CodeMap map;
     LookupTable table;
     FixedTable fixed;
@@ -140,7 +165,18 @@ std::string json_report(const Result& r) {
     doc["circuit"] = circuit_json(r.circuit);
     doc["adc_bits"] = r.map.adc_bits;
     doc["adc_transfer"] = std::string(adc_transfer_name(r.map.transfer));
-    doc["reading"] = {{"convention", convention(r.map)},
+    Json front = {{"ratiometric", r.channel.ratiometric()},
+                  {"reference", r.channel.reference},
+                  {"reference_unit", output_unit(r.circuit)},
+                  {"amplifier", nullptr}};
+    if (r.channel.amplifier) {
+        front["amplifier"] = {{"gain_v_per_v", r.channel.amplifier->gain},
+                              {"offset", r.channel.amplifier->offset},
+                              {"auto_range", r.amp.auto_ranged}};
+        if (r.amp.auto_ranged) front["amplifier"]["headroom_pct"] = 100.0 * r.amp.headroom;
+    }
+    doc["front_end"] = front;
+    doc["reading"] = {{"convention", convention(r.map, r.channel, r.amp)},
                       {"code_lo", r.map.code_lo},
                       {"code_hi", r.map.code_hi},
                       {"t_at_code_lo_c", kelvin_to_celsius(r.map.t_k.front())},
@@ -220,8 +256,14 @@ std::vector<std::string> fault_lines(const Result& r, const std::string& deg) {
         lines.push_back("codes " + std::to_string(b.first) + " to " + std::to_string(b.last) + ": " +
                         std::string(meaning_name(b.meaning)) + ", " + band_words(b, deg));
     }
+    // What the fault codes assume beyond the circuit equations.
+    std::string assumed;
+    if (r.channel.amplifier) assumed = "the amplifier saturating at 0 and full scale";
+    if (r.circuit.excitation.drive == Drive::current) {
+        assumed += std::string(assumed.empty() ? "" : ", ") + "the current source's compliance above full scale";
+    }
     lines.push_back("an open thermistor gives code " + std::to_string(r.faults.open_code) + ", a short code " +
-                    std::to_string(r.faults.short_code));
+                    std::to_string(r.faults.short_code) + (assumed.empty() ? "" : " (" + assumed + ")"));
     for (const CodeMeaning m : r.faults.hidden) {
         lines.push_back("a" + std::string(m == CodeMeaning::open ? "n open" : " shorted") +
                         " thermistor cannot be told from a reading with this circuit and margin");
@@ -238,8 +280,8 @@ std::string text_report(const Result& r) {
     const CodeMap& m = r.map;
     std::string t = "model:    " + describe_model(r.thermistor) + "\n";
     t += "circuit:  " + describe_circuit(r.circuit) + "\n";
-    const std::vector<std::string> reading = reading_lines(m, kDeg);
-    t += "reading:  " + reading[0] + "\n          " + reading[1] + "\n          " + reading[2] + "\n";
+    const std::vector<std::string> reading = reading_lines(m, r.channel, r.amp, kDeg);
+    for (std::size_t i = 0; i < reading.size(); ++i) t += (i == 0 ? "reading:  " : "          ") + reading[i] + "\n";
     t += "table:    " + std::to_string(r.table.codes.size()) + " entries, " + spacing_words(r.table) +
          ", linear interpolation; fixed point in " + unit_text(r.fixed) + " " + kDeg + " (" + fixed_type(r.fixed) +
          ", " + std::to_string(r.fixed.arithmetic_bits) + "-bit arithmetic)\n";
@@ -270,18 +312,15 @@ std::string text_report(const Result& r) {
 // polynomial, in the text report's words.
 std::string markdown_report(const Result& r) {
     const CodeMap& m = r.map;
-    const std::vector<std::string> reading = reading_lines(m, kDeg);
-    Facts header{
-        {"model", describe_model(r.thermistor)},
-        {"circuit", describe_circuit(r.circuit)},
-        {"reading", reading[0]},
-        {"", reading[1]},
-        {"", reading[2]},
+    const std::vector<std::string> reading = reading_lines(m, r.channel, r.amp, kDeg);
+    Facts header{{"model", describe_model(r.thermistor)}, {"circuit", describe_circuit(r.circuit)}};
+    for (std::size_t i = 0; i < reading.size(); ++i) header.push_back({i == 0 ? "reading" : "", reading[i]});
+    header.insert(header.end(), {
         {"table", std::to_string(r.table.codes.size()) + " entries, " + spacing_words(r.table) +
                       ", linear interpolation; fixed point in " + unit_text(r.fixed) + " " + kDeg + " (" +
                       fixed_type(r.fixed) + ", " + std::to_string(r.fixed.arithmetic_bits) + "-bit arithmetic)"},
         {"target",
-         target_words(r, kDeg) + (r.table_searched ? "; the fewest entries whose shipped error meets it" : "")}};
+         target_words(r, kDeg) + (r.table_searched ? "; the fewest entries whose shipped error meets it" : "")}});
     Markdown md("rtline table: " + std::string(topology_name(r.circuit.topology)) + ", " +
                 format_number(kelvin_to_celsius(r.span.lo_k)) + " to " + format_number(kelvin_to_celsius(r.span.hi_k)) +
                 " " + kDeg + ", " + std::to_string(m.adc_bits) + "-bit codes");
@@ -326,21 +365,19 @@ std::string c_report(const Result& r, const std::string& prefix) {
         for (std::size_t pos; (pos = s.find("\xC2\xB0")) != std::string::npos;) s.replace(pos, 2, "deg");
         return s;
     };
-    const std::vector<std::string> reading = reading_lines(m, "degC");
-    h.comment = {"ADC code to temperature, written by rtline " RTLINE_VERSION " (rtline table).",
-                 "",
-                 "model:   " + ascii(describe_model(r.thermistor)),
-                 "circuit: " + describe_circuit(r.circuit),
-                 "reading: " + reading[0],
-                 "         " + reading[1],
-                 "         " + reading[2],
-                 "table:   " + std::to_string(r.table.codes.size()) + " entries, spacing " +
-                     std::string(spacing_name(r.table.spacing)) + ", in " + unit_text(r.fixed) + " degC, " +
-                     std::to_string(r.fixed.arithmetic_bits) + "-bit arithmetic",
-                 "target:  " + target_words(r, "degC"),
-                 "error:   this integer code " + format_fixed(r.fixed.max_error_k, 4) + " degC at code " +
-                     std::to_string(r.fixed.at_code) + " (interpolation alone " + format_fixed(r.table.max_error_k, 4) +
-                     " degC at code " + std::to_string(r.table.at_code) + ")"};
+    h.comment = {"ADC code to temperature, written by rtline " RTLINE_VERSION " (rtline table).", "",
+                 "model:   " + ascii(describe_model(r.thermistor)), "circuit: " + describe_circuit(r.circuit)};
+    const std::vector<std::string> reading = reading_lines(m, r.channel, r.amp, "degC");
+    for (std::size_t i = 0; i < reading.size(); ++i)
+        h.comment.push_back((i == 0 ? "reading: " : "         ") + reading[i]);
+    h.comment.insert(h.comment.end(), {"table:   " + std::to_string(r.table.codes.size()) + " entries, spacing " +
+                                           std::string(spacing_name(r.table.spacing)) + ", in " + unit_text(r.fixed) +
+                                           " degC, " + std::to_string(r.fixed.arithmetic_bits) + "-bit arithmetic",
+                                       "target:  " + target_words(r, "degC"),
+                                       "error:   this integer code " + format_fixed(r.fixed.max_error_k, 4) +
+                                           " degC at code " + std::to_string(r.fixed.at_code) +
+                                           " (interpolation alone " + format_fixed(r.table.max_error_k, 4) +
+                                           " degC at code " + std::to_string(r.table.at_code) + ")"});
     if (r.polynomial) {
         h.comment.push_back("poly:    " + std::string(fit_name(r.polynomial->fit)) + ", degree " +
                             std::to_string(r.polynomial->degree) + ", error " +
@@ -361,7 +398,7 @@ Margin fault_margin(const std::string& text, const Result& r) {
     Margin m;
     if (text.empty()) {
         const Tolerances tol;
-        const auto [below, above] = tolerance_margin(r.map, r.thermistor, r.circuit, r.span, tol);
+        const auto [below, above] = tolerance_margin(r.map, r.thermistor, r.channel, r.span, tol);
         m = {below, above,
              "default: where the span's ends move with R25, B and resistors at +-" + format_number(100.0 * tol.r25) +
                  " %, plus one code"};
@@ -389,19 +426,35 @@ Margin fault_margin(const std::string& text, const Result& r) {
     return {codes, codes, "--fault-margin"};
 }
 
-// Refuses a circuit the table cannot read before asking for its resistors, naming the flag as typed.
-void refuse_unreadable(const CircuitOptions& o) {
-    Circuit probe;
-    probe.topology = parse_topology(o.circuit, "--circuit");
-    if (!o.excitation.empty()) probe.excitation = {Drive::voltage, 1.0};
-    if (!o.current.empty()) probe.excitation = {Drive::current, 1.0};
+// The core names the quantity it refuses; the table names the flag, with the text as typed.
+[[noreturn]] void as_flags(const InputError& e, const TableCommand& o) {
+    const std::string& f = e.field();
+    if (f == "circuit") throw InputError("--circuit", o.circuit.circuit, e.why() + " (give --current and --adc-ref)");
+    if (f == "excitation") throw InputError("--excitation", o.circuit.excitation, e.why());
+    if (f == "current") throw InputError("--current", o.circuit.current, e.why());
+    if (f == "amplifier") throw InputError("--gain", "", e.why() + " (give --gain and --offset, or --auto-range)");
+    if (f == "reference") throw InputError("--adc-ref", o.front.adc_ref, e.why() + " (give --adc-ref V)");
+    if (f == "range") {
+        const bool amp = !o.front.gain.empty() || o.front.auto_range;
+        throw InputError(amp ? "--gain" : "--current", amp ? o.front.gain : o.circuit.current,
+                         e.why() + (amp ? " (lower the gain, or use --auto-range)" : " (lower the current)"));
+    }
+    throw e;
+}
+
+// Refuses a circuit the table cannot read before asking for its resistors.
+void refuse_unreadable(const TableCommand& o) {
+    Channel probe;
+    probe.circuit.topology = parse_topology(o.circuit.circuit, "--circuit");
+    if (!o.circuit.excitation.empty()) probe.circuit.excitation = {Drive::voltage, 1.0};
+    if (!o.circuit.current.empty()) probe.circuit.excitation = {Drive::current, 1.0};
+    if (!o.front.gain.empty() || o.front.auto_range) probe.amplifier = Amplifier{};
+    const bool volts = !o.front.adc_ref.empty() && o.front.adc_ref != "excitation";
+    if (probe.circuit.excitation.drive == Drive::current && !volts) probe.reference = std::nan("");
     try {
-        require_ratiometric(probe);
+        validate(probe);
     } catch (const InputError& e) {
-        const std::string& text = e.field() == "--excitation" ? o.excitation
-                                  : e.field() == "--current"  ? o.current
-                                                              : o.circuit;
-        throw InputError(e.field(), text, e.why());
+        as_flags(e, o);
     }
 }
 
@@ -449,14 +502,35 @@ void run_table(const TableCommand& o) {
     }
     const AdcTransfer transfer = build_adc_transfer(o.adc_transfer);
 
-    refuse_unreadable(o.circuit);
-    Result r{build_model(o.model), build_span(o.span), {}, {}, {}, {}, {}, {}, {}, 0.0, target_k.has_value(), target_k};
+    refuse_unreadable(o);
+    Result r{build_model(o.model),
+             build_span(o.span),
+             {},
+             {},
+             {},
+             {},
+             {},
+             {},
+             {},
+             {},
+             {},
+             0.0,
+             target_k.has_value(),
+             target_k};
     r.circuit = build_circuit(o.circuit, r.thermistor, r.span);
+    // The output is monotone in R_T: the span's ends are the extremes --auto-range maps.
+    const Grid ends{{r.span.lo_k, r.span.hi_k},
+                    {r.thermistor.resistance(r.span.lo_k), r.thermistor.resistance(r.span.hi_k)}};
+    r.amp = choose_amplifier(o.front, r.circuit, ends);
+    r.channel = {r.circuit, r.amp.amplifier, r.amp.full_scale};
     try {
-        r.map = map_codes(r.thermistor, r.circuit, r.span, bits, transfer);
+        r.map = map_codes(r.thermistor, r.channel, r.span, bits, transfer);
     } catch (const InputError& e) {
-        if (e.field() != "--span") throw;
-        throw InputError("--span", o.span.span, e.why());  // quoted as typed, not as kelvin turned back into °C
+        if (e.field() == "--span") {
+            throw InputError("--span", o.span.span, e.why());  // quoted as typed, not as kelvin turned back into °C
+        }
+        if (e.field().rfind("--", 0) == 0) throw;
+        as_flags(e, o);
     }
     // Without --max-error the table meets one unit or half the widest step between adjacent codes (the
     // converter's own resolution there), the larger: our own choice, so the table adds no more than
@@ -492,7 +566,7 @@ void run_table(const TableCommand& o) {
         }
     }
     r.margin = fault_margin(o.fault_margin, r);
-    r.faults = fault_bands(r.map, r.circuit, r.margin.below, r.margin.above);
+    r.faults = fault_bands(r.map, r.channel, r.margin.below, r.margin.above);
 
     std::string bytes;
     if (emit_c) {
@@ -525,6 +599,12 @@ void setup_table(CLI::App& app) {
     add_span_options(*sub, opt->span);
     sub->remove_option(sub->get_option("--step"));  // every ADC code of the span is evaluated instead
     add_circuit_options(*sub, opt->circuit);
+    sub->get_option("--circuit")
+        ->description(
+            "divider-high, divider-low or shunt-divider (ratiometric); bridge or shunt-bridge "
+            "(ratiometric, through --gain/--offset or --auto-range); bare or shunt (with --current and "
+            "--adc-ref)");
+    add_amplifier_options(*sub, opt->front);
     sub->add_option("--adc-bits", opt->adc_bits, "ADC resolution N, 1 to 24 bits (default 12)")->group("Reading");
     add_adc_transfer_option(*sub, opt->adc_transfer, "Reading");
     sub->add_option("--fault-margin", opt->fault_margin,
@@ -555,10 +635,15 @@ void setup_table(CLI::App& app) {
                             "--adc-bits 12 --entries 17\n"
                             "  rtline table --r25 10k --beta 3950 --span -20:60 --circuit divider-high --rs 10k "
                             "--max-error 0.1 --spacing error --emit c --prefix pack_ -o pack_temp.h\n"
-                            "The ADC reference is the divider's excitation (ratiometric); --adc-transfer says which "
-                            "ratio a code stands for.\nThe shipped error is the emitted integer code's, measured "
-                            "over every code of the span against the exact inverse (ratio -> R_T -> T by the "
-                            "model).\n\n") +
+                            "  rtline table --r25 10k --beta 3950 --span 0:50 --circuit bridge --r1 10k --auto-range "
+                            "--max-error 0.05\n"
+                            "  rtline table --r25 10k --beta 3950 --span 10:60 --circuit bare --current 50u "
+                            "--adc-ref 2.5 --max-error 0.2\n"
+                            "A divider or bridge is read ratiometrically (the ADC reference is its excitation); a "
+                            "current drive against --adc-ref volts.\n--adc-transfer says which ratio a code stands "
+                            "for. The shipped error is the emitted integer code's, measured over every code of the "
+                            "span\nagainst the exact inverse (code -> ratio -> amplifier -> network -> R_T -> T by "
+                            "the model).\n\n") +
                 kSafetyNote);
     sub->callback([opt] { run_table(*opt); });
 }

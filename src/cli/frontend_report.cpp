@@ -76,7 +76,7 @@ bool FrontEndOptions::given() const {
            !adc_bits.empty() || !adc_ref.empty() || !sample_cap.empty() || !acquisition.empty();
 }
 
-void add_front_end_options(CLI::App& app, FrontEndOptions& o) {
+void add_amplifier_options(CLI::App& app, FrontEndOptions& o) {
     const char* amp = "Front end";
     app.add_option("--gain", o.gain, "Amplifier gain, V/V (differential across a bridge's A and B)")->group(amp);
     app.add_option("--offset", o.offset, "Amplifier output offset, V (V/V of the excitation when ratiometric)")
@@ -85,20 +85,24 @@ void add_front_end_options(CLI::App& app, FrontEndOptions& o) {
         ->group(amp);
     app.add_option("--headroom", o.headroom, "With --auto-range: % of the range left free at each end (default 5)")
         ->group(amp);
-    app.add_option("--amp-output", o.amp_output,
-                   "Amplifier output resistance into the converter, ohm, series resistor included (default 0)")
-        ->group(amp);
-    const char* adc = "Converter";
-    app.add_option("--adc-bits", o.adc_bits, "Converter resolution, 1 to 24 bits (default 12)")->group(adc);
     app.add_option("--adc-ref", o.adc_ref,
                    "Converter reference: excitation (default; ratiometric) or volts (needed with --current)")
-        ->group(adc);
+        ->group("Converter");
+}
+
+void add_front_end_options(CLI::App& app, FrontEndOptions& o) {
+    add_amplifier_options(app, o);
+    app.add_option("--amp-output", o.amp_output,
+                   "Amplifier output resistance into the converter, ohm, series resistor included (default 0)")
+        ->group("Front end");
+    const char* adc = "Converter";
+    app.add_option("--adc-bits", o.adc_bits, "Converter resolution, 1 to 24 bits (default 12)")->group(adc);
     app.add_option("--sample-cap", o.sample_cap, "Converter sampling capacitance, F (e.g. 10p)")->group(adc);
     app.add_option("--acquisition", o.acquisition, "Converter acquisition time, s (e.g. 1u)")->group(adc);
 }
 
-FrontEndReport front_end_report(const FrontEndOptions& o, const Circuit& c, const Analysis& a, const Grid& grid) {
-    FrontEndReport r;
+AmplifierChoice choose_amplifier(const FrontEndOptions& o, const Circuit& c, const Grid& grid) {
+    AmplifierChoice r;
     r.full_scale = full_scale(o, c);
     if (!o.gain.empty() && o.auto_range) {
         throw InputError("--gain", o.gain, "give either --gain (with --offset) or --auto-range, not both");
@@ -106,9 +110,6 @@ FrontEndReport front_end_report(const FrontEndOptions& o, const Circuit& c, cons
     if (!o.offset.empty() && o.gain.empty()) throw InputError("--offset", o.offset, "needs --gain");
     if (!o.headroom.empty() && !o.auto_range)
         throw InputError("--headroom", o.headroom, "applies only with --auto-range");
-    if (!o.amp_output.empty() && o.gain.empty() && !o.auto_range) {
-        throw InputError("--amp-output", o.amp_output, "needs an amplifier (--gain or --auto-range)");
-    }
     if (o.auto_range) {
         if (std::isnan(r.full_scale)) {
             throw InputError("--adc-ref", "",
@@ -126,6 +127,31 @@ FrontEndReport front_end_report(const FrontEndOptions& o, const Circuit& c, cons
         if (!o.offset.empty()) amp.offset = parse_quantity(o.offset, "--offset", "V");
         r.amplifier = amp;
     }
+    return r;
+}
+
+std::string describe_amplifier(const AmplifierChoice& a, const Circuit& c) {
+    if (!a.amplifier) return "none";
+    const std::string unit = output_unit(c);
+    std::string t = "gain " + format_number(a.amplifier->gain, 6) + " V/V, offset " +
+                    format_number(a.amplifier->offset, 6) + " " + unit;
+    if (a.auto_ranged) {
+        t += " (chosen: the span onto " + format_number(100.0 * a.headroom) + " to " +
+             format_number(100.0 - 100.0 * a.headroom) + " % of " + format_number(a.full_scale, 5) + " " + unit + ")";
+    }
+    return t;
+}
+
+FrontEndReport front_end_report(const FrontEndOptions& o, const Circuit& c, const Analysis& a, const Grid& grid) {
+    if (!o.amp_output.empty() && o.gain.empty() && !o.auto_range) {
+        throw InputError("--amp-output", o.amp_output, "needs an amplifier (--gain or --auto-range)");
+    }
+    FrontEndReport r;
+    const AmplifierChoice choice = choose_amplifier(o, c, grid);
+    r.full_scale = choice.full_scale;
+    r.amplifier = choice.amplifier;
+    r.auto_ranged = choice.auto_ranged;
+    r.headroom = choice.headroom;
     if (r.amplifier && !o.amp_output.empty()) r.amplifier->output_ohm = parse_resistance(o.amp_output, "--amp-output");
     validate_front_end(c, r.amplifier);
     if (!o.sample_cap.empty() || !o.acquisition.empty()) {
@@ -187,13 +213,7 @@ std::string front_end_text(const FrontEndReport& r, const Circuit& c) {
     const bool bridge = is_bridge(c.topology);
     std::string t = "\nfront end: ";
     if (r.amplifier) {
-        t += "amplifier gain " + format_number(r.amplifier->gain, 6) + " V/V, offset " +
-             format_number(r.amplifier->offset, 6) + " " + unit;
-        if (r.auto_ranged) {
-            t += " (chosen: the span onto " + format_number(100.0 * r.headroom) + " to " +
-                 format_number(100.0 - 100.0 * r.headroom) + " % of " + format_number(r.full_scale, 5) + " " + unit +
-                 ")";
-        }
+        t += "amplifier " + describe_amplifier({r.amplifier, r.auto_ranged, r.headroom, r.full_scale}, c);
         if (r.amplifier->output_ohm > 0.0) t += ", output " + format_resistance(r.amplifier->output_ohm, 4) + " ohm";
     } else {
         t += "the converter reads the network directly";

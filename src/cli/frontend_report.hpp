@@ -26,7 +26,23 @@ struct FrontEndOptions {
     std::string acquisition;  // s, e.g. 1u
     [[nodiscard]] bool given() const;
 };
+// Every front-end flag (check): the amplifier's, --adc-ref, and the converter's sampling input.
 void add_front_end_options(CLI::App& app, FrontEndOptions& o);
+// The amplifier's flags and --adc-ref alone (table: its own --adc-bits, no settling).
+void add_amplifier_options(CLI::App& app, FrontEndOptions& o);
+
+// The amplifier the flags describe (none without --gain or --auto-range) and the converter's full
+// scale in the circuit's output unit (1 when ratiometric, the excitation for a voltage drive,
+// --adc-ref volts otherwise; NaN when unknown). --auto-range fits the gain and offset over `grid`.
+struct AmplifierChoice {
+    std::optional<Amplifier> amplifier;
+    bool auto_ranged = false;
+    double headroom = 0.0;  // fraction at each end, with --auto-range
+    double full_scale = 0.0;
+};
+[[nodiscard]] AmplifierChoice choose_amplifier(const FrontEndOptions& o, const Circuit& circuit, const Grid& grid);
+// The amplifier in words: "gain 12.5 V/V, offset -0.3 V/V (chosen: the span onto 5 to 95 % of 1 V/V)".
+[[nodiscard]] std::string describe_amplifier(const AmplifierChoice& a, const Circuit& circuit);
 
 struct FrontEndPoint {
     double t_k = 0.0;

@@ -23,7 +23,16 @@ constexpr Named kNames[] = {
     {Topology::shunt_bridge, "shunt-bridge"},
 };
 
-// The network driven by 1 V: output, thermistor voltage, and the resistance the source sees.
+// a/(a + b), the share of a divider's voltage across a, exact for an open arm: 1 when a is infinite,
+// 0 when b is (the limits R → ∞ of a/(a + b) and of b/(a + b)).
+double share(double a, double b) {
+    if (std::isinf(a)) return 1.0;
+    if (std::isinf(b)) return 0.0;
+    return a / (a + b);
+}
+
+// The network driven by 1 V: output, thermistor voltage, and the resistance the source sees. Exact
+// for r_t = 0 (a short) and r_t = +infinity (an open) too.
 struct PerVolt {
     double out;
     double vt;
@@ -42,13 +51,12 @@ PerVolt per_volt(const Circuit& c, double r_t) {
         }
         case Topology::divider_high: {
             const double bottom = parallel(c.rs, c.load_ohm);
-            const double total = r_t + bottom;
-            return {bottom / total, r_t / total, total};
+            return {share(bottom, r_t), share(r_t, bottom), r_t + bottom};
         }
         case Topology::divider_low: {
             const double bottom = parallel(r_t, c.load_ohm);
-            const double total = c.rs + bottom;
-            return {bottom / total, bottom / total, total};
+            const double v = share(bottom, c.rs);
+            return {v, v, c.rs + bottom};
         }
         case Topology::shunt_divider: {
             const double top = parallel(r_t, c.rp);
@@ -60,7 +68,7 @@ PerVolt per_volt(const Circuit& c, double r_t) {
         case Topology::shunt_bridge: {
             const double rx = c.topology == Topology::shunt_bridge ? parallel(r_t, c.rp) : r_t;
             // Each side as a Thevenin source; the load closes the loop between them.
-            const double va0 = rx / (c.r1 + rx);
+            const double va0 = share(rx, c.r1);
             const double vb0 = c.r3 / (c.r2 + c.r3);
             double va = va0;
             double vb = vb0;

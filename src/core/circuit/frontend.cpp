@@ -61,6 +61,89 @@ RangeFit fit_range(const Circuit& c, const Grid& grid, double full_scale, double
     return fit;
 }
 
+// ------------------------------------------------------------------------------- the channel
+
+void validate(const Channel& ch) {
+    const Circuit& c = ch.circuit;
+    const std::string topo(topology_name(c.topology));
+    const Drive drive = c.excitation.drive;
+    if (gives_resistance(c.topology)) {
+        if (drive != Drive::current) {
+            throw InputError("circuit", topo,
+                             "the output is a resistance, not a voltage; a converter reads it through a current "
+                             "drive, against a reference in volts");
+        }
+        if (!(ch.reference > 0.0) || !std::isfinite(ch.reference)) {
+            throw InputError("reference", describe(ch.reference),
+                             "a current drive is not ratiometric: the converter's reference must be given in volts");
+        }
+    } else {
+        if (drive == Drive::voltage) {
+            throw InputError("excitation", describe(c.excitation.value),
+                             "the reading is ratiometric (the converter's reference is the excitation), so the "
+                             "supply voltage does not matter; leave it out");
+        }
+        if (drive == Drive::current) {
+            throw InputError("current", describe(c.excitation.value),
+                             "a current drive is read only across a bare or shunt thermistor; a divider or "
+                             "bridge is read ratiometrically, against its own excitation");
+        }
+        if (ch.reference != 1.0) {
+            throw InputError("reference", describe(ch.reference),
+                             "a ratiometric reading's reference is the excitation itself (1 V/V)");
+        }
+        if (is_bridge(c.topology) && !ch.amplifier) {
+            throw InputError("amplifier", "",
+                             "a bridge's output is the difference V_A - V_B; a converter reads it through an "
+                             "amplifier (its gain and output offset)");
+        }
+    }
+    validate_front_end(c, ch.amplifier);
+}
+
+double channel_ratio(const Channel& ch, double r_t) {
+    return converter_input(ch.circuit, ch.amplifier, r_t) / ch.reference;
+}
+
+namespace {
+
+// R such that a ∥ R = p (R = 1/(1/p − 1/a)); +infinity when p = a, negative when p > a.
+double unparallel(double p, double a) {
+    if (std::isinf(a)) return p;
+    return 1.0 / (1.0 / p - 1.0 / a);
+}
+
+// The thermistor arm's resistance (R_T + lead) at which the network's output is y (output_unit).
+double arm_at_output(const Circuit& c, double y) {
+    switch (c.topology) {
+        case Topology::bare: return unparallel(y / c.excitation.value, c.load_ohm);
+        case Topology::shunt: return unparallel(unparallel(y / c.excitation.value, c.load_ohm), c.rp);
+        case Topology::divider_high: return parallel(c.rs, c.load_ohm) * (1.0 - y) / y;
+        case Topology::divider_low: return unparallel(c.rs * y / (1.0 - y), c.load_ohm);
+        case Topology::shunt_divider: return unparallel(parallel(c.rs, c.load_ohm) * (1.0 - y) / y, c.rp);
+        case Topology::bridge:
+        case Topology::shunt_bridge: {
+            // y = (V_A0 − V_B0)·RL/(R_A + R_B + RL) with R_A = r1 ∥ R_x = r1·V_A0 (each side a Thevenin
+            // source, the load between them), solved for V_A0.
+            const double vb0 = c.r3 / (c.r2 + c.r3);
+            const double rb = parallel(c.r2, c.r3);
+            const double rl = c.load_ohm;
+            const double va0 = std::isinf(rl) ? vb0 + y : (vb0 * rl + y * (rb + rl)) / (rl - y * c.r1);
+            const double rx = c.r1 * va0 / (1.0 - va0);
+            return c.topology == Topology::shunt_bridge ? unparallel(rx, c.rp) : rx;
+        }
+    }
+    return std::nan("");
+}
+
+}  // namespace
+
+double channel_resistance(const Channel& ch, double ratio) {
+    const double u = ratio * ch.reference;
+    const double y = ch.amplifier ? (u - ch.amplifier->offset) / ch.amplifier->gain : u;
+    return arm_at_output(ch.circuit, y) - ch.circuit.lead_ohm;
+}
+
 AmplifierShift amplifier_shift(const Amplifier& amp, const AmplifierErrors& e, double in_v, const SourceImpedance& z,
                                double board_t_k) {
     AmplifierShift s;

@@ -10,78 +10,31 @@ namespace rtline {
 
 // ------------------------------------------------------------------------------ the exact inverse
 
-void require_ratiometric(const Circuit& c) {
-    const std::string topo(topology_name(c.topology));
-    if (gives_resistance(c.topology)) {
-        throw InputError("--circuit", topo,
-                         "the output is a resistance, not a voltage an ADC reads; use divider-high, divider-low "
-                         "or shunt-divider");
-    }
-    if (is_bridge(c.topology)) {
-        throw InputError("--circuit", topo,
-                         "a bridge's differential output needs an amplifier whose gain and offset the table "
-                         "does not know; use divider-high, divider-low or shunt-divider (node A of the bridge "
-                         "alone is a divider-low with rs = r1)");
-    }
-    if (c.excitation.drive == Drive::voltage) {
-        throw InputError("--excitation", describe(c.excitation.value),
-                         "the table reads the ADC ratiometrically (its reference is the excitation), so the "
-                         "supply voltage does not matter; leave --excitation out");
-    }
-    if (c.excitation.drive == Drive::current) {
-        throw InputError("--current", describe(c.excitation.value),
-                         "a current drive is not ratiometric; the table needs a divider read against its own "
-                         "excitation");
-    }
-}
-
-namespace {
-
-// R such that a ∥ R = p (R = 1/(1/p − 1/a)); +infinity when p = a, negative when p > a.
-double unparallel(double p, double a) {
-    if (std::isinf(a)) return p;
-    return 1.0 / (1.0 / p - 1.0 / a);
-}
-
-}  // namespace
-
-double resistance_at_ratio(const Circuit& c, double v) {
-    switch (c.topology) {
-        case Topology::divider_high: {
-            // v = B/(R_T + B), B = rs ∥ load  ⇒  R_T = B(1 − v)/v.
-            const double bottom = parallel(c.rs, c.load_ohm);
-            return bottom * (1.0 - v) / v - c.lead_ohm;  // the firmware subtracts the known wires
-        }
-        case Topology::divider_low: {
-            // v = P/(rs + P), P = R_T ∥ load  ⇒  P = rs·v/(1 − v).
-            return unparallel(c.rs * v / (1.0 - v), c.load_ohm) - c.lead_ohm;
-        }
-        case Topology::shunt_divider: {
-            // v = B/(Q + B), Q = R_T ∥ rp, B = rs ∥ load  ⇒  Q = B(1 − v)/v.
-            const double bottom = parallel(c.rs, c.load_ohm);
-            return unparallel(bottom * (1.0 - v) / v, c.rp) - c.lead_ohm;
-        }
-        default: break;
-    }
-    require_ratiometric(c);
-    return std::nan("");
-}
-
 double CodeMap::temperature(std::int64_t code) const {
     const std::int64_t k = std::clamp(code, code_lo, code_hi);
     return t_k[static_cast<std::size_t>(k - code_lo)];
 }
 
-CodeMap map_codes(const Thermistor& model, const Circuit& circuit, const Span& span, int adc_bits,
+CodeMap map_codes(const Thermistor& model, const Channel& channel, const Span& span, int adc_bits,
                   AdcTransfer transfer) {
     if (adc_bits < 1 || adc_bits > kMaxAdcBits) {
         throw InputError("--adc-bits", std::to_string(adc_bits),
                          "an ADC has 1 to " + std::to_string(kMaxAdcBits) + " bits");
     }
-    require_ratiometric(circuit);
+    validate(channel);
     model.check_span(span, "--span");
-    const double v_a = output(circuit, model.resistance(span.lo_k));
-    const double v_b = output(circuit, model.resistance(span.hi_k));
+    const double v_a = channel_ratio(channel, model.resistance(span.lo_k));
+    const double v_b = channel_ratio(channel, model.resistance(span.hi_k));
+    for (const auto& [v, t_k] : {std::pair{v_a, span.lo_k}, std::pair{v_b, span.hi_k}}) {
+        if (!(v >= 0.0 && v <= 1.0)) {
+            throw InputError("range", describe(v),
+                             "at " + format_number(kelvin_to_celsius(t_k), 4) +
+                                 " \xC2\xB0"
+                                 "C the converter input is " +
+                                 format_number(v, 4) +
+                                 " of the reference, outside 0 to 1: that end of the span would read as a rail");
+        }
+    }
     // Code k stands for (k + offset)/steps: offset ½ for truncating, else 0 (converter.hpp).
     const double steps = adc_steps(adc_bits, transfer);
     const double offset = transfer == AdcTransfer::truncating ? 0.5 : 0.0;
@@ -103,7 +56,7 @@ CodeMap map_codes(const Thermistor& model, const Circuit& circuit, const Span& s
     map.code_hi = hi;
     map.t_k.reserve(static_cast<std::size_t>(hi - lo + 1));
     for (std::int64_t k = lo; k <= hi; ++k) {
-        const double t = model.temperature(resistance_at_ratio(circuit, code_ratio(k, adc_bits, transfer)));
+        const double t = model.temperature(channel_resistance(channel, code_ratio(k, adc_bits, transfer)));
         map.t_k.push_back(std::clamp(t, span.lo_k, span.hi_k));
     }
     return map;

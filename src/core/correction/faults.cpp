@@ -2,6 +2,7 @@
 #include <algorithm>
 #include <cmath>
 #include <string>
+#include <vector>
 
 #include "rtline/budget.hpp"
 #include "rtline/correction.hpp"
@@ -18,25 +19,15 @@ std::string_view meaning_name(CodeMeaning m) {
     return "reading";
 }
 
-double open_ratio(const Circuit& c) {
-    require_ratiometric(c);
-    switch (c.topology) {
-        case Topology::divider_high: return 0.0;  // v = B/(R_T + B) → 0
-        case Topology::divider_low:               // v = P/(rs + P), P = R_T ∥ load → load
-            return std::isinf(c.load_ohm) ? 1.0 : c.load_ohm / (c.rs + c.load_ohm);
-        case Topology::shunt_divider: {  // v = B/(Q + B), Q = R_T ∥ rp → rp
-            const double bottom = parallel(c.rs, c.load_ohm);
-            return bottom / (c.rp + bottom);
-        }
-        default: break;
-    }
-    return 0.0;
-}
+namespace {
 
-double short_ratio(const Circuit& c) {
-    require_ratiometric(c);
-    return output(c, 0.0);
-}
+double clip(double v) { return std::clamp(v, 0.0, 1.0); }
+
+}  // namespace
+
+double open_ratio(const Channel& ch) { return clip(channel_ratio(ch, INFINITY)); }
+
+double short_ratio(const Channel& ch) { return clip(channel_ratio(ch, 0.0)); }
 
 CodeMeaning FaultBands::classify(std::int64_t code) const {
     for (const CodeBand& b : bands) {
@@ -59,13 +50,13 @@ std::int64_t FaultBands::reading_hi() const {
     return 0;
 }
 
-FaultBands fault_bands(const CodeMap& map, const Circuit& circuit, std::int64_t margin_lo, std::int64_t margin_hi) {
+FaultBands fault_bands(const CodeMap& map, const Channel& channel, std::int64_t margin_lo, std::int64_t margin_hi) {
     FaultBands f;
     f.margin_lo = std::max<std::int64_t>(margin_lo, 0);
     f.margin_hi = std::max<std::int64_t>(margin_hi, 0);
     const std::int64_t top = (std::int64_t{1} << map.adc_bits) - 1;
-    f.open_code = ratio_code(open_ratio(circuit), map.adc_bits, map.transfer);
-    f.short_code = ratio_code(short_ratio(circuit), map.adc_bits, map.transfer);
+    f.open_code = ratio_code(open_ratio(channel), map.adc_bits, map.transfer);
+    f.short_code = ratio_code(short_ratio(channel), map.adc_bits, map.transfer);
     const std::int64_t lo = std::max<std::int64_t>(0, map.code_lo - f.margin_lo);
     const std::int64_t hi = std::min(top, map.code_hi + f.margin_hi);
     auto meaning = [&](std::int64_t first, std::int64_t last) {
@@ -82,29 +73,40 @@ FaultBands fault_bands(const CodeMap& map, const Circuit& circuit, std::int64_t 
 }
 
 std::pair<std::int64_t, std::int64_t> tolerance_margin(const CodeMap& map, const Thermistor& model,
-                                                       const Circuit& circuit, const Span& span,
+                                                       const Channel& channel, const Span& span,
                                                        const Tolerances& tol) {
     const double steps = adc_steps(map.adc_bits, map.transfer);
+    const std::vector<std::string> names = resistor_names(channel.circuit.topology);
+    const bool current = channel.circuit.excitation.drive == Drive::current;
+    // The fixed resistors' corners, then the current's and the reference's with a current drive.
+    const std::size_t factors = names.size() + (current ? 2 : 0);
     double shift_at_lo_code = 0.0;
     double shift_at_hi_code = 0.0;
     for (const double t_k : {span.lo_k, span.hi_k}) {
-        const double nominal = output(circuit, model.resistance(t_k));
+        const double nominal = channel_ratio(channel, model.resistance(t_k));
         double worst = 0.0;
         for (const double dr : {-tol.r25, tol.r25}) {
             for (const double db : {-tol.beta, tol.beta}) {
                 const double r_t = perturbed_resistance(model, t_k, dr, db);
-                for (const double ds : {-tol.resistors, tol.resistors}) {
-                    for (const double dp : {-tol.resistors, tol.resistors}) {
-                        Circuit c = circuit;
-                        c.rs *= 1.0 + ds;
-                        c.rp *= 1.0 + dp;
-                        worst = std::max(worst, std::abs(output(c, r_t) - nominal) * steps);
+                for (std::size_t corner = 0; corner < (std::size_t{1} << factors); ++corner) {
+                    Channel ch = channel;
+                    auto sign = [corner](std::size_t i) { return (corner >> i & 1U) != 0 ? 1.0 : -1.0; };
+                    for (std::size_t i = 0; i < names.size(); ++i) {
+                        const std::string& n = names[i];
+                        set_resistor(ch.circuit, n,
+                                     resistor_value(channel.circuit, n) * (1.0 + sign(i) * tol.resistors));
                     }
+                    if (current) {
+                        ch.circuit.excitation.value *= 1.0 + sign(names.size()) * tol.excitation;
+                        ch.reference *= 1.0 + sign(names.size() + 1) * tol.reference;
+                    }
+                    const double v = channel_ratio(ch, r_t);  // the converter divides by its actual reference
+                    worst = std::max(worst, std::abs(v - nominal) * steps);
                 }
             }
         }
-        // The end with the lower output lies at code_lo.
-        const double other = output(circuit, model.resistance(t_k == span.lo_k ? span.hi_k : span.lo_k));
+        // The end with the lower ratio lies at code_lo.
+        const double other = channel_ratio(channel, model.resistance(t_k == span.lo_k ? span.hi_k : span.lo_k));
         (nominal <= other ? shift_at_lo_code : shift_at_hi_code) = worst;
     }
     return {static_cast<std::int64_t>(std::ceil(shift_at_lo_code)) + 1,
