@@ -11,6 +11,7 @@
 #include "rtline/analysis.hpp"
 #include "rtline/converter.hpp"
 #include "rtline/grid.hpp"
+#include "rtline/plausibility.hpp"
 #include "rtline/thermistor.hpp"
 
 namespace rtline::cli {
@@ -31,6 +32,14 @@ struct ModelOptions {
 void add_model_options(CLI::App& app, ModelOptions& o);
 // The thermistor the flags describe. Reads --points through read_text().
 [[nodiscard]] Thermistor build_model(const ModelOptions& o);
+// A judgement of the core's plausibility rules applied to `field` as typed (`text`): fine passes, unusual
+// warns, impossible throws InputError.
+void heed(const std::string& field, const std::string& text, const Judgement& j);
+// --t0 as kelvin, refused when it can only be kelvin typed as °C.
+[[nodiscard]] double build_t0(const std::string& text);
+// Validated R–T points that a model could be fitted to, judged for a temperature column in the wrong
+// unit (refused or warned by `source`).
+void judge_points(const std::vector<RtPoint>& points, const std::string& source);
 // A one-line description of the model for text output, e.g. "beta: R25 = 10k, B = 3950 K".
 [[nodiscard]] std::string describe_model(const Thermistor& t);
 // The model for JSON: {"kind", ...coefficients}.
@@ -41,6 +50,7 @@ struct SpanOptions {
     std::string step;  // K (= °C of difference); empty: 1 K
 };
 void add_span_options(CLI::App& app, SpanOptions& o);
+// --span, refused when it can only be kelvin typed as °C.
 [[nodiscard]] Span build_span(const SpanOptions& o);
 [[nodiscard]] double build_step(const SpanOptions& o);
 // The flag to blame for too many grid points, with its text as typed: --step when it was given,
