@@ -162,6 +162,45 @@ TEST_CASE("a grid too coarse to judge linearity is refused with the largest step
     });
     // 12.5 K gives 0, 12.5, 25, 37.5, 50: exactly enough.
     CHECK(run_rtline(with(kSize, {"--step", "12.5"})).code == 0);
+    CHECK(run_rtline(with(kBudget, {"--step", "12.5", "--trials", "100"})).code == 0);
+}
+
+TEST_CASE("a budget takes the grid rule, and a table a span of at least 5 converter codes") {
+    const std::string why = "judging linearity takes at least 5 (the ends, the middle and one in each half)";
+    // divider-low, 10k over 10k/3950 K from 0 to 45 °C: R = 33.62k and 4.348k at the ends (by hand, the
+    // beta equation), ratios 0.7708 and 0.3030; at 3 bits (ratio k/8) that is 2.42 to 6.17, a swing of
+    // 3.74 LSB holding codes 3, 4, 5 and 6.
+    check_refused({
+        {"a budget step wider than the span", with(kBudget, {"--step", "100"}),
+         "--step '100': leaves 2 points over the span (50 K wide); " + why + ": use a step of at most 12.5 K"},
+        {"a budget over a span too narrow for the default step",
+         {"budget", "--r25", "10k", "--beta", "3950", "--span", "0:2", "--circuit", "divider-low", "--rs", "10k"},
+         "--span '0:2': leaves 3 points over the span (2 K wide); " + why + ": use a step of at most 0.5 K"},
+        {"a table over four codes", with(kTable, {"--adc-bits", "3"}),
+         "--adc-bits '3': the span's output swing (3.74 LSB) covers 4 codes; a table takes at least 5 (the ends, the "
+         "middle and one in each half): use more bits or a circuit with more swing"},
+    });
+    // At 4 bits the same span holds codes 5 to 12 (ratios 4.85 to 12.33 sixteenths): enough.
+    CHECK(run_rtline(with(kTable, {"--adc-bits", "4"})).code == 0);
+}
+
+TEST_CASE("table and budget warn as check and size do: on stderr, and in JSON's warnings") {
+    const std::string w = "--beta '8000': a B-value of 8000 K is unusual for an NTC part (most lie from 2000 to 6000 K)";
+    for (auto args : {kTable, kBudget, kCheck, kSize}) {
+        if (args == kCheck) args = with(args, {"divider-low", "--rs", "10k"});
+        args = with(args, {"--beta", "8000", "--format"});
+        for (const char* format : {"text", "csv", "json"}) {
+            const auto r = run_rtline(with(args, {format}));
+            INFO("rtline" << joined(args) << " " << std::string(format));
+            CHECK(r.code == 0);
+            CHECK(r.err == "rtline: warning: " + w + "\n");
+            if (std::string(format) == "json") {
+                CHECK(json::parse(r.out)["warnings"] == json::array({w}));
+            } else {
+                CHECK(r.out.find("8000 K is unusual") == std::string::npos);  // never in the data
+            }
+        }
+    }
 }
 
 TEST_CASE("an unknown name, count or ADC width is refused by its flag and its text") {

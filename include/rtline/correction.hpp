@@ -55,7 +55,7 @@ struct CodeMap {
 // whose ratio lies between the outputs at the span's ends; the rail codes 0 and 2^N − 1 are never
 // readings (a converter at its rail says nothing of how far past it the input is). Requires
 // require_ratiometric(circuit) and a model that covers the span. Throws InputError ("--adc-bits")
-// when adc_bits is not 1..kMaxAdcBits or the span covers fewer than two codes.
+// when adc_bits is not 1..kMaxAdcBits or the span covers fewer codes than the grid rule's kMinLinearityPoints.
 [[nodiscard]] CodeMap map_codes(const Thermistor& model, const Circuit& circuit, const Span& span, int adc_bits,
                                 AdcTransfer transfer = AdcTransfer::rounding);
 

@@ -513,7 +513,7 @@ void run_budget(const BudgetOptions& o) {
     const Format format = parse_format(o.out.format);
     const Thermistor thermistor = build_model(o.model);
     const Span span = build_span(o.span);
-    const Grid grid = build_grid(thermistor, span, o.span);
+    const Grid grid = build_grid(thermistor, span, o.span, true);
     if (grid.size() > kMaxBudgetPoints) {
         const auto [flag, text] = grid_size_culprit(o.span);
         throw InputError(flag, text,

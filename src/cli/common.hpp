@@ -57,7 +57,7 @@ void add_span_options(CLI::App& app, SpanOptions& o);
 // else --span (the default step of 1 K is not the user's doing).
 [[nodiscard]] std::pair<std::string, std::string> grid_size_culprit(const SpanOptions& o);
 // make_grid over `span` at the --step, its errors quoting --span and --step as the user typed them.
-// With `judge_linearity` (check, size), a grid too coarse to judge a line is refused.
+// With `judge_linearity` (check, size, budget), a grid too coarse to judge a line is refused.
 [[nodiscard]] Grid build_grid(const Thermistor& model, const Span& span, const SpanOptions& o,
                               bool judge_linearity = false);
 
