@@ -315,6 +315,11 @@ TEST_CASE("a mistyped trial count, tolerance or converter figure in a budget is 
         {"a negative seed", with(kBudget, {"--seed", "-1"}),
          "--seed '-1': the seed must be a whole number from 0 to 18446744073709551615"},
         {"zero threads", with(kBudget, {"--threads", "0"}), "--threads '0': give 1 to 256 threads"},
+        // One helper for every command that takes --threads: the same words in size as in budget.
+        {"zero threads in size", with(kSize, {"--threads", "0"}), "--threads '0': give 1 to 256 threads"},
+        {"a fractional thread count in size", with(kSize, {"--threads", "2.5"}),
+         "--threads '2.5': give 1 to 256 threads"},
+        {"a word for a thread count", with(kBudget, {"--threads", "all"}), "--threads 'all': give 1 to 256 threads"},
         {"an unknown distribution", with(kBudget, {"--distribution", "gauss"}),
          "--distribution 'gauss': unknown distribution; choose normal, normal-truncated or uniform"},
         {"a converter error without a converter", with(kBudget, {"--adc-error", "1"}),

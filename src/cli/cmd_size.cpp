@@ -67,13 +67,7 @@ Setup build_setup(const SizeCommand& o) {
         throw InputError("--top", o.top, "expected a whole number from 1 to 1000");
     }
     spec.top = static_cast<std::size_t>(top);
-    if (!o.threads.empty()) {
-        const double threads = parse_number(o.threads, "--threads");
-        if (!(threads >= 1.0 && threads <= 256.0) || threads != std::floor(threads)) {
-            throw InputError("--threads", o.threads, "expected a whole number from 1 to 256");
-        }
-        spec.threads = static_cast<std::size_t>(threads);
-    }
+    spec.threads = build_threads(o.threads);
     if (!o.dissipation.empty()) {
         spec.dissipation_w_per_k = 1e-3 * parse_number(o.dissipation, "--dissipation");
         if (!(spec.dissipation_w_per_k > 0.0)) {

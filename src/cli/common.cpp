@@ -7,6 +7,7 @@
 #include <iterator>
 #include <sstream>
 
+#include "rtline/budget.hpp"
 #include "rtline/error.hpp"
 #include "rtline/fit.hpp"
 #include "rtline/plausibility.hpp"
@@ -46,6 +47,21 @@ double optional_quantity(const std::string& text, const std::string& field, cons
     const double v = parse_quantity(text, field, unit);
     if (!(v > 0.0)) throw InputError(field, text, "must be positive");
     return v;
+}
+
+unsigned build_threads(const std::string& text) {
+    if (text.empty()) return 0;
+    const std::string why = "give 1 to " + std::to_string(kMaxThreads) + " threads";
+    double v = 0.0;
+    try {
+        v = parse_number(text, "--threads");
+    } catch (const InputError&) {
+        throw InputError("--threads", text, why);
+    }
+    if (!(v >= 1.0 && v <= static_cast<double>(kMaxThreads)) || v != std::floor(v)) {
+        throw InputError("--threads", text, why);
+    }
+    return static_cast<unsigned>(v);
 }
 
 std::string celsius(double t_k, int decimals) { return format_fixed(kelvin_to_celsius(t_k), decimals); }

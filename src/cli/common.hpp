@@ -104,6 +104,10 @@ void add_adc_transfer_option(CLI::App& app, std::string& text, const std::string
 // reference (transitions at k - 1/2 LSB)".
 [[nodiscard]] std::string describe_adc_transfer(AdcTransfer t, int bits);
 
+// --threads for every command that takes it: "" → 0 (one per core), else a whole number from 1 to
+// kMaxThreads; any other text is refused with the same message everywhere.
+[[nodiscard]] unsigned build_threads(const std::string& text);
+
 // "25.00 °C" style label and °C formatting helpers for text output.
 [[nodiscard]] std::string celsius(double t_k, int decimals = 2);
 
