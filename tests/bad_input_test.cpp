@@ -213,7 +213,7 @@ TEST_CASE("an unknown name, count or ADC width is refused by its flag and its te
         {"an unknown format", with(kModel, {"--span", "0:50", "--format", "xml"}),
          "--format 'xml': unknown format; choose text, json or csv"},
         {"an unknown reference line", with(kCheck, {"divider-low", "--rs", "10k", "--line", "straight"}),
-         "--line 'straight': unknown line; choose endpoint, best-fit or minimax"},
+         "--line 'straight': unknown line; choose endpoint, least-squares or minimax"},
         {"an unknown table spacing", with(kTable, {"--spacing", "log"}),
          "--spacing 'log': unknown spacing; choose code (evenly spaced codes), error (equal error per segment) or "
          "power-of-two (every 2^s codes, found by a shift)"},

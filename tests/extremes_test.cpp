@@ -80,7 +80,7 @@ std::vector<std::vector<std::string>> runs_of(const Design& d) {
         runs.push_back(with(with({"check"}, d.model), {"--circuit", "bridge", "--r1", d.r, "--line", "minimax",
                                                        "--excitation", "5", "--dissipation", "1", "--format", f}));
         runs.push_back(with(with({"check"}, d.model),
-                            {"--circuit", "bare", "--current", "1u", "--line", "best-fit", "--format", f}));
+                            {"--circuit", "bare", "--current", "1u", "--line", "least-squares", "--format", f}));
         if (d.standard_values) {
             runs.push_back(
                 with(with({"size"}, d.model), {"--circuit", "divider-low", "--range", "1e-250:1e250", "--format", f}));

@@ -566,7 +566,7 @@ void setup_size(CLI::App& app) {
         ->group("Search");
     sub->add_option("--range", opt->range, "Resistor values LO:HI in ohm (default 1:10M)")->group("Search");
     sub->add_option("--top", opt->top, "How many standard combinations to list (default 5)")->group("Search");
-    sub->add_option("--line", opt->line, "Reference line: endpoint (default), best-fit or minimax")->group("Search");
+    sub->add_option("--line", opt->line, "Reference line: endpoint (default), least-squares or minimax")->group("Search");
     sub->add_option("--threads", opt->threads, "Worker threads for the search (default: one per core; same result)")
         ->group("Search");
     sub->add_flag("--compare", opt->compare, "Size every topology and list the best of each")->group("Search");
