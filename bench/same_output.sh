@@ -19,12 +19,12 @@ while IFS= read -r args; do
     fi
 done <<'RUNS'
 --span 5:40 --circuit divider-low --top 20
---span 5:40 --circuit divider-high --top 20 --line best-fit
+--span 5:40 --circuit divider-high --top 20 --line least-squares
 --span 5:40 --circuit divider-low --line minimax --series E96
 --span -20:60 --circuit shunt --top 10
 --span -20:60 --circuit shunt --current 100u --top 10 --max-power 50u
 --span -20:60 --circuit shunt-divider --series E48 --top 30
---span -20:60 --circuit shunt-divider --series E24 --line best-fit --top 10
+--span -20:60 --circuit shunt-divider --series E24 --line least-squares --top 10
 --span -20:60 --circuit shunt-divider --series E12 --line minimax --top 10
 --span 0:100 --circuit shunt-divider --series E96 --range 100:1M --top 25 --step 0.25
 --span 0:45 --circuit divider-low --excitation 3.3 --max-power 100u --top 50
@@ -37,7 +37,7 @@ done <<'RUNS'
 --span 0:45 --circuit bridge --top 10
 --span 0:45 --circuit bridge --load 10k --excitation 2.5 --top 10
 --span 0:45 --circuit bridge --current 100u --top 10
---span 0:45 --circuit bridge --null-at 20 --line best-fit --top 10
+--span 0:45 --circuit bridge --null-at 20 --line least-squares --top 10
 --span -30:5 --circuit shunt-bridge --series E48 --top 10
 --span -30:5 --circuit shunt-bridge --series E24 --load 20k --excitation 3.3 --max-power 100u --top 10
 --span -30:5 --circuit shunt-bridge --series E24 --current 50u --line minimax --top 10

@@ -8,9 +8,11 @@
 #include <string>
 #include <vector>
 
+#include "rtline/units.hpp"
 #include "support.hpp"
 
 using nlohmann::json;
+using rtline::test::python_ref;
 using rtline::test::run_rtline;
 
 namespace {
@@ -36,6 +38,17 @@ void check_refused(const std::vector<BadInput>& cases) {
         CHECK(r.out.empty());
         CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
         CHECK(r.err == "rtline: " + c.message + "\n");
+    }
+}
+
+// A case a real part could have: the run goes on, with exactly this one warning on stderr.
+void check_warned(const std::vector<BadInput>& cases) {
+    for (const BadInput& c : cases) {
+        INFO(c.mistake << ": rtline" << joined(c.args));
+        const auto r = run_rtline(c.args, c.input);
+        CHECK(r.code == 0);
+        CHECK(!r.out.empty());
+        CHECK(r.err == "rtline: warning: " + c.message + "\n");
     }
 }
 
@@ -149,6 +162,45 @@ TEST_CASE("a grid too coarse to judge linearity is refused with the largest step
     });
     // 12.5 K gives 0, 12.5, 25, 37.5, 50: exactly enough.
     CHECK(run_rtline(with(kSize, {"--step", "12.5"})).code == 0);
+    CHECK(run_rtline(with(kBudget, {"--step", "12.5", "--trials", "100"})).code == 0);
+}
+
+TEST_CASE("a budget takes the grid rule, and a table a span of at least 5 converter codes") {
+    const std::string why = "judging linearity takes at least 5 (the ends, the middle and one in each half)";
+    // divider-low, 10k over 10k/3950 K from 0 to 45 °C: R = 33.62k and 4.348k at the ends (by hand, the
+    // beta equation), ratios 0.7708 and 0.3030; at 3 bits (ratio k/8) that is 2.42 to 6.17, a swing of
+    // 3.74 LSB holding codes 3, 4, 5 and 6.
+    check_refused({
+        {"a budget step wider than the span", with(kBudget, {"--step", "100"}),
+         "--step '100': leaves 2 points over the span (50 K wide); " + why + ": use a step of at most 12.5 K"},
+        {"a budget over a span too narrow for the default step",
+         {"budget", "--r25", "10k", "--beta", "3950", "--span", "0:2", "--circuit", "divider-low", "--rs", "10k"},
+         "--span '0:2': leaves 3 points over the span (2 K wide); " + why + ": use a step of at most 0.5 K"},
+        {"a table over four codes", with(kTable, {"--adc-bits", "3"}),
+         "--adc-bits '3': the span's output swing (3.74 LSB) covers 4 codes; a table takes at least 5 (the ends, the "
+         "middle and one in each half): use more bits or a circuit with more swing"},
+    });
+    // At 4 bits the same span holds codes 5 to 12 (ratios 4.85 to 12.33 sixteenths): enough.
+    CHECK(run_rtline(with(kTable, {"--adc-bits", "4"})).code == 0);
+}
+
+TEST_CASE("table and budget warn as check and size do: on stderr, and in JSON's warnings") {
+    const std::string w = "--beta '8000': a B-value of 8000 K is unusual for an NTC part (most lie from 2000 to 6000 K)";
+    for (auto args : {kTable, kBudget, kCheck, kSize}) {
+        if (args == kCheck) args = with(args, {"divider-low", "--rs", "10k"});
+        args = with(args, {"--beta", "8000", "--format"});
+        for (const char* format : {"text", "csv", "json"}) {
+            const auto r = run_rtline(with(args, {format}));
+            INFO("rtline" << joined(args) << " " << std::string(format));
+            CHECK(r.code == 0);
+            CHECK(r.err == "rtline: warning: " + w + "\n");
+            if (std::string(format) == "json") {
+                CHECK(json::parse(r.out)["warnings"] == json::array({w}));
+            } else {
+                CHECK(r.out.find("8000 K is unusual") == std::string::npos);  // never in the data
+            }
+        }
+    }
 }
 
 TEST_CASE("an unknown name, count or ADC width is refused by its flag and its text") {
@@ -165,7 +217,7 @@ TEST_CASE("an unknown name, count or ADC width is refused by its flag and its te
         {"an unknown format where Markdown is one", with(kCheck, {"divider-low", "--rs", "10k", "--format", "xml"}),
          "--format 'xml': unknown format; choose text, json, csv or markdown"},
         {"an unknown reference line", with(kCheck, {"divider-low", "--rs", "10k", "--line", "straight"}),
-         "--line 'straight': unknown line; choose endpoint, best-fit or minimax"},
+         "--line 'straight': unknown line; choose endpoint, least-squares or minimax"},
         {"an unknown table spacing", with(kTable, {"--spacing", "log"}),
          "--spacing 'log': unknown spacing; choose code (evenly spaced codes), error (equal error per segment) or "
          "power-of-two (every 2^s codes, found by a shift)"},
@@ -271,6 +323,11 @@ TEST_CASE("a mistyped trial count, tolerance or converter figure in a budget is 
         {"a negative seed", with(kBudget, {"--seed", "-1"}),
          "--seed '-1': the seed must be a whole number from 0 to 18446744073709551615"},
         {"zero threads", with(kBudget, {"--threads", "0"}), "--threads '0': give 1 to 256 threads"},
+        // One helper for every command that takes --threads: the same words in size as in budget.
+        {"zero threads in size", with(kSize, {"--threads", "0"}), "--threads '0': give 1 to 256 threads"},
+        {"a fractional thread count in size", with(kSize, {"--threads", "2.5"}),
+         "--threads '2.5': give 1 to 256 threads"},
+        {"a word for a thread count", with(kBudget, {"--threads", "all"}), "--threads 'all': give 1 to 256 threads"},
         {"an unknown distribution", with(kBudget, {"--distribution", "gauss"}),
          "--distribution 'gauss': unknown distribution; choose normal, normal-truncated or uniform"},
         {"a converter error without a converter", with(kBudget, {"--adc-error", "1"}),
@@ -282,10 +339,11 @@ TEST_CASE("a mistyped trial count, tolerance or converter figure in a budget is 
 
 TEST_CASE("a model that cannot describe the span, or a circuit whose output does not change, is refused") {
     check_refused({
-        // R(-200 °C) = 10k·exp(1e6·(1/73.15 − 1/298.15)) = 10k·e^10317 (by hand): beyond a double's 1.8e308.
+        // R(-265 °C) = 10k·exp(6000·(1/8.15 − 1/298.15)) = 10k·e^716.1 (by hand): beyond a double's
+        // 1.8e308 = e^709.8.
         {"a model that overflows a double",
-         {"model", "--r25", "10k", "--beta", "1e6", "--span", "-200:50"},
-         "--span '-200:50': the model's resistance overflows a double over this span"},
+         {"model", "--r25", "10k", "--beta", "6000", "--span", "-265:50"},
+         "--span '-265:50': the model's resistance overflows a double over this span"},
         // d(1/T)/d ln R = B + 3C·ln²R = 2e-4 − 3e-5·ln²R is positive only for |ln R| < 2.58; there
         // 1/T reaches at most 1e-3 + 2e-4·2.58 − 1e-5·2.58³ = 1.34e-3, i.e. T ≥ 745 K (by hand), so no
         // monotonic branch covers -50 to 150 °C.
@@ -463,4 +521,144 @@ TEST_CASE("a JSON Lines batch exits 1 when a line has no feasible design, and 2 
     CHECK(both.code == 2);
     CHECK(both.out.find(R"({"line":2,"error":"--top '-1': expected a whole number from 1 to 1000"})") !=
           std::string::npos);
+}
+
+// The plausibility rules (include/rtline/plausibility.hpp, docs/model.md): the limits are common practice
+// for NTC sensing parts, B from 2000 to 6000 K (none outside 1000 to 10000 K) and R25 from 100 ohm to
+// 10 Mohm (none outside 1 ohm to 1 Gohm); the figures in the messages are by hand unless noted.
+TEST_CASE("a thermistor no NTC part could be is refused, and an unusual one warned, with the likely slip") {
+    const std::string b_range = "is outside what NTC parts have (1000 to 10000 K; most lie from 2000 to 6000 K)";
+    const std::string r_range = "is outside what NTC parts have (1 ohm to 1G ohm; most lie from 100 ohm to 10M ohm)";
+    check_refused({
+        {"a B-value with a digit too many", with(kModel, {"--beta", "39500", "--span", "0:50"}),
+         "--beta '39500': a B-value of 39500 K " + b_range + "; a digit too many?"},
+        {"a B-value with a digit missing",
+         {"check", "--r25", "10k", "--beta", "395", "--span", "0:50", "--circuit", "divider-low", "--rs", "10k"},
+         "--beta '395': a B-value of 395 K " + b_range + "; a digit missing?"},
+        {"a resistance in milliohm", {"model", "--r25", "1e-3", "--beta", "3950", "--span", "0:50"},
+         "--r25 '1e-3': a resistance of 0R001 ohm at 25 \xC2\xB0""C " + r_range},
+        {"a resistance past 1 Gohm", {"model", "--r25", "5G", "--beta", "3950", "--span", "0:50"},
+         "--r25 '5G': a resistance of 5G ohm at 25 \xC2\xB0""C " + r_range},
+        // 1 ohm stated at 0 °C with B = 3950 K is 1·exp(3950·(1/298.15 − 1/273.15)) = e^-1.2126 = 0.2974 ohm
+        // at 25 °C (by hand), below any part; the hint is the value a thousand times larger.
+        {"a resistance judged at 25 degC, not at T0",
+         {"model", "--r25", "1", "--beta", "3950", "--t0", "0", "--span", "0:50"},
+         "--r25 '1': a resistance of 0R2974 ohm at 25 \xC2\xB0""C " + r_range + "; did you mean 297R4?"},
+        {"a reference temperature in kelvin", with(kModel, {"--t0", "298.15", "--span", "0:50"}),
+         "--t0 '298.15': looks like kelvin without its K (298.15 K = 25 \xC2\xB0""C); write 25 or 298.15K"},
+        {"a beta fit's reference temperature in kelvin",
+         {"fit", "--points", "-", "--model", "beta", "--t0", "273.15"},
+         "--t0 '273.15': looks like kelvin without its K (273.15 K = 0 \xC2\xB0""C); write 0 or 273.15K",
+         "t_c,r_ohm\n0,32k\n25,10k\n50,3k6\n"},
+        {"a span in kelvin", with(kCheck, {"divider-low", "--rs", "10k", "--span", "233.15:303.15"}),
+         "--span '233.15:303.15': looks like kelvin without its K (233.15 to 303.15 K = -40 to 30 \xC2\xB0""C); "
+         "write -40:30 or 233.15K:303.15K"},
+        {"a span in kelvin for a table",
+         {"table", "--r25", "10k", "--beta", "3950", "--span", "273.15:318.15", "--circuit", "divider-low", "--rs",
+          "10k"},
+         "--span '273.15:318.15': looks like kelvin without its K (273.15 to 318.15 K = 0 to 45 \xC2\xB0""C); "
+         "write 0:45 or 273.15K:318.15K"},
+    });
+    check_warned({
+        {"an unusually steep B-value", with(kModel, {"--beta", "8000", "--span", "0:50"}),
+         "--beta '8000': a B-value of 8000 K is unusual for an NTC part (most lie from 2000 to 6000 K)"},
+        {"a resistance typed without its k", {"model", "--r25", "10", "--beta", "3950", "--span", "0:50"},
+         "--r25 '10': a resistance of 10 ohm at 25 \xC2\xB0""C is unusual for an NTC sensor (most lie from 100 ohm "
+         "to 10M ohm); did you mean 10k?"},
+        // 310 °C is past the 300 °C of glass-encapsulated parts, but a high-temperature part may be meant.
+        {"a reference temperature that may be kelvin", with(kModel, {"--t0", "310", "--span", "0:50"}),
+         "--t0 '310': is above 300 \xC2\xB0""C, beyond most NTC parts; if it is kelvin (310 K = 36.85 \xC2\xB0""C), "
+         "write 36.85 or 310K"},
+        {"a span that may be kelvin", with(kModel, {"--span", "250:350"}),
+         "--span '250:350': reaches above 300 \xC2\xB0""C, beyond most NTC parts; if it is kelvin (250 to 350 K = "
+         "-23.15 to 76.85 \xC2\xB0""C), write -23.15:76.85 or 250K:350K"},
+    });
+    // Typed in kelvin with the K, or in °C, the same span and T0 pass silently.
+    for (const auto& args : {with(kModel, {"--t0", "298.15K", "--span", "233.15K:303.15K"}),
+                             with(kModel, {"--t0", "25", "--span", "-40:30"}), with(kModel, {"--span", "200:300"})}) {
+        INFO("rtline" << joined(args));
+        const auto r = run_rtline(args);
+        CHECK(r.code == 0);
+        CHECK(r.err.empty());
+    }
+}
+
+namespace {
+
+// The freezer-room points of examples/freezer-room-rt.csv from -40 to 40 °C in steps of 10 K, with the
+// temperature column written by `column` (°C, or the mistaken kelvin or °F).
+std::string freezer_points(double (*column)(double)) {
+    const int t_c[] = {-40, -30, -20, -10, 0, 10, 20, 30, 40};
+    const char* r_ohm[] = {"336700", "177000", "97110", "55360", "32680", "19920", "12510", "8068", "5334"};
+    std::string csv = "t_c,r_ohm\n";
+    for (int i = 0; i < 9; ++i) csv += rtline::format_number(column(t_c[i]), 8) + "," + r_ohm[i] + "\n";
+    return csv;
+}
+
+json freezer_ref(double (*column)(double)) {
+    json t = json::array();
+    for (const int c : {-40, -30, -20, -10, 0, 10, 20, 30, 40}) t.push_back(column(c));
+    return python_ref("beta_readings.py",
+                      {{"t", t}, {"r_ohm", {336700, 177000, 97110, 55360, 32680, 19920, 12510, 8068, 5334}}});
+}
+
+std::string fixed0(double v) { return rtline::format_fixed(v, 0); }
+
+}  // namespace
+
+TEST_CASE("an R-T file whose temperature column reads as kelvin or as degF is refused, naming the mistake") {
+    const auto as_kelvin = [](double c) { return c + 273.15; };
+    const auto as_fahrenheit = [](double c) { return 1.8 * c + 32.0; };
+    // The beta fits under each reading by numpy (tests/ref/beta_readings.py).
+    const json k = freezer_ref(as_kelvin);
+    const json f = freezer_ref(as_fahrenheit);
+    // Read as °C, the kelvin column implies B of about 15300 K and R25 of about 4.5e14 ohm (no part).
+    CHECK(k["celsius"]["b_k"].get<double>() > 10000.0);
+    CHECK(k["kelvin"]["b_k"].get<double>() == doctest::Approx(3802.0).epsilon(1e-3));
+    const std::string kelvin_why =
+        "the temperatures read as kelvin, not \xC2\xB0""C: as \xC2\xB0""C the points imply B = " +
+        fixed0(k["celsius"]["b_k"].get<double>()) + " K and " +
+        rtline::format_resistance(k["celsius"]["r25_ohm"].get<double>(), 4) + " ohm at 25 \xC2\xB0""C, as kelvin B = " +
+        fixed0(k["kelvin"]["b_k"].get<double>()) + " K and " +
+        rtline::format_resistance(k["kelvin"]["r25_ohm"].get<double>(), 4) +
+        " ohm at 25 \xC2\xB0""C; give them in \xC2\xB0""C, or head the column t_k";
+    // Read as °C, the °F column gives a plausible B (2642 K) but misses the points 10 times more than
+    // read as °F (5335 mK against 543 mK).
+    CHECK(f["celsius"]["max_residual_mk"].get<double>() > 5.0 * f["fahrenheit"]["max_residual_mk"].get<double>());
+    const std::string fahrenheit_why =
+        "the temperatures read as \xC2\xB0""F, not \xC2\xB0""C: a beta model misses the points by up to " +
+        fixed0(f["celsius"]["max_residual_mk"].get<double>()) + " mK as \xC2\xB0""C and " +
+        fixed0(f["fahrenheit"]["max_residual_mk"].get<double>()) + " mK as \xC2\xB0""F; convert them to \xC2\xB0""C";
+    const std::string in_kelvin = freezer_points(as_kelvin);
+    const std::string in_fahrenheit = freezer_points(as_fahrenheit);
+    check_refused({
+        {"kelvin under t_c, fitted", {"fit", "--points", "-"}, "stdin: " + kelvin_why, in_kelvin},
+        {"kelvin under t_c, as a beta fit", {"fit", "--points", "-", "--model", "beta"}, "stdin: " + kelvin_why,
+         in_kelvin},
+        {"kelvin under t_c, as a table model",
+         {"model", "--points", "-", "--model", "table", "--span", "250:300"},
+         "stdin: " + kelvin_why,
+         in_kelvin},
+        {"degF under t_c, fitted", {"fit", "--points", "-"}, "stdin: " + fahrenheit_why, in_fahrenheit},
+        {"degF under t_c, in check",
+         {"check", "--points", "-", "--span", "0:40", "--circuit", "divider-low", "--rs", "10k"},
+         "stdin: " + fahrenheit_why,
+         in_fahrenheit},
+    });
+    // The same points in °C, and in kelvin under t_k, pass without a word.
+    const std::string in_celsius = freezer_points([](double c) { return c; });
+    std::string under_t_k = in_kelvin;
+    under_t_k.replace(0, 3, "t_k");
+    for (const std::string& csv : {in_celsius, under_t_k}) {
+        const auto r = run_rtline({"fit", "--points", "-"}, csv);
+        CHECK(r.code == 0);
+        CHECK(r.err.empty());
+    }
+    // Points of a beta model with B = 8000 K (R = 10k·exp(8000·(1/T − 1/298.15)) at 0, 25 and 50 °C, by
+    // hand): a part could have it, so the fit goes on with a warning.
+    check_warned({{"an unusually steep B from points",
+                   {"fit", "--points", "-", "--model", "beta"},
+                   "stdin: fitted to the points, a B-value of 8000 K is unusual for an NTC part (most lie from 2000 to "
+                   "6000 K)",
+                   "t_c,r_ohm\n0,116558.19\n25,10000\n50,1254.5272\n"}});
 }

@@ -40,7 +40,7 @@ const json kDesign = {{"r25_ohm", 10e3},
                       {"offset_lsb", 1.0},
                       {"inl_lsb", 1.0},
                       {"delta_w_per_k", 0.0015},
-                      {"t_c", {-40, -5, 30}}};
+                      {"t_c", {-40, -22.5, -5, 12.5, 30}}};
 
 std::vector<std::string> field_args(int bits, const std::string& trials) {
     return {"budget",
@@ -51,7 +51,7 @@ std::vector<std::string> field_args(int bits, const std::string& trials) {
             "--span",
             "-40:30",
             "--step",
-            "35",
+            "17.5",
             "--circuit",
             "divider-low",
             "--rs",
@@ -123,8 +123,8 @@ TEST_CASE("every field cause together: the worst case is the corner enumeration 
     in["bits"] = 12;
     const json ref = python_ref("budget_field.py", in);
     const json out = run_json(field_args(12, "0"));
-    REQUIRE(out["points"].size() == 3);
-    for (std::size_t i = 0; i < 3; ++i) {
+    REQUIRE(out["points"].size() == 5);
+    for (std::size_t i = 0; i < 5; ++i) {
         const json& p = out["points"][i];
         const json& r = ref["points"][i];
         CAPTURE(p["t_c"].get<double>());
@@ -148,7 +148,7 @@ TEST_CASE("every field cause together: the Monte Carlo agrees with an independen
     in["seed"] = 7;
     const json ref = python_ref("budget_field.py", in);
     const json out = run_json(field_args(16, "200000"));
-    for (std::size_t i = 0; i < 3; ++i) {
+    for (std::size_t i = 0; i < 5; ++i) {
         const json& p = out["points"][i];
         const json& mc = p["mc"];
         const json& r = ref["points"][i];
@@ -208,7 +208,7 @@ TEST_CASE("the reference: it cancels when ratiometric, and against a fixed refer
     // Divider-low v = R/(R + rs), dv/dT = rs·R·alpha/(R + rs)²; a reference off by r reads v/(1 + r),
     // so dT = r·v/|dv/dT| = r·(R + rs)/(rs·|alpha|) to first order (relative error about r).
     const std::vector<std::string> base = {"budget", "--r25",          "10k", "--beta",    "3950",        "--span",
-                                           "0:40",   "--step",         "20",  "--circuit", "divider-low", "--rs",
+                                           "0:40",   "--step",         "10",   "--circuit", "divider-low", "--rs",
                                            "10k",    "--excitation",   "3.3", "--r25-tol", "0",           "--beta-tol",
                                            "0",      "--resistor-tol", "0",   "--ref-tol", "0.5",         "--trials",
                                            "0",      "--format",       "json"};
@@ -248,7 +248,7 @@ TEST_CASE("converter gain and offset alone: their change of reading over the out
     // reads g·v/|dv/dT| (first order), dv/dT = rs·R·alpha/(R + rs)² (beta equation).
     const json j =
         run_json({"budget", "--r25",          "10k",         "--beta",     "3950", "--span",       "0:40", "--step",
-                  "20",     "--circuit",      "divider-low", "--rs",       "10k",  "--r25-tol",    "0",    "--beta-tol",
+                  "10",      "--circuit",      "divider-low", "--rs",       "10k",  "--r25-tol",    "0",    "--beta-tol",
                   "0",      "--resistor-tol", "0",           "--adc-bits", "12",   "--adc-offset", "2",    "--adc-gain",
                   "0.1",    "--trials",       "0",           "--format",   "json"});
     for (const json& p : j["points"]) {
@@ -302,7 +302,7 @@ TEST_CASE("the model error: a part on its Steinhart-Hart curve read through a be
     const double c = 2.019202697e-7;
     const json j =
         run_json({"budget",      "--r25",    "10k",        "--beta",    "3950",
-                  "--span",      "0:50",     "--step",     "25",        "--circuit",
+                  "--span",      "0:50",     "--step",     "12.5",      "--circuit",
                   "divider-low", "--rs",     "10k",        "--part-sh", "1.009249522e-3,2.378405444e-4,2.019202697e-7",
                   "--r25-tol",   "0",        "--beta-tol", "0",         "--resistor-tol",
                   "0",           "--trials", "0",          "--format",  "json"});
@@ -328,7 +328,7 @@ TEST_CASE("a truncated normal never exceeds the worst case; the untruncated one 
     // lies beyond 3σ: with 200 000 trials some board reads beyond the worst case (here R25 alone,
     // whose error is monotonic in the part).
     const std::vector<std::string> base = {"budget", "--r25",      "10k", "--beta",         "3950",        "--span",
-                                           "0:50",   "--step",     "25",  "--circuit",      "divider-low", "--rs",
+                                           "0:50",   "--step",     "12.5",  "--circuit",      "divider-low", "--rs",
                                            "10k",    "--beta-tol", "0",   "--resistor-tol", "0",           "--trials",
                                            "200000", "--format",   "json"};
     std::vector<std::string> cut = base;
@@ -350,7 +350,7 @@ TEST_CASE("the budget's converter transfer: full-scale makes one LSB 1/(2^N - 1)
     // conventions, common practice); the resolution scales by 256/255.
     auto run = [](const char* transfer) {
         return run_json({"budget", "--r25",      "10k", "--beta",         "3950",        "--span",
-                         "0:50",   "--step",     "25",  "--circuit",      "divider-low", "--rs",
+                         "0:50",   "--step",     "12.5",  "--circuit",      "divider-low", "--rs",
                          "10k",    "--adc-bits", "8",   "--adc-transfer", transfer,      "--trials",
                          "0",      "--format",   "json"});
     };

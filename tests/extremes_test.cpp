@@ -43,20 +43,31 @@ std::vector<std::string> with(std::vector<std::string> a, const std::vector<std:
     return a;
 }
 
+// The thermistors no NTC part could be are given as Steinhart-Hart coefficients, which the plausibility
+// rules for --r25 and --beta do not judge: the beta model R0, B at 25 °C is a = 1/298.15 - ln(R0)/B,
+// b = 1/B, c = 0 (docs/sources.md), here to 17 digits (Python's repr).
 const std::vector<Design> kDesigns = {
     {"a span 750 K wide", {"--r25", "10k", "--beta", "3950", "--span", "-250:500", "--step", "5"}, "10k"},
     {"a 1 Gohm thermistor with a steep B", {"--r25", "1G", "--beta", "6000", "--span", "-80:300", "--step", "5"}, "1G"},
-    {"a 0.1 ohm thermistor", {"--r25", "0R1", "--beta", "2000", "--span", "-150:400", "--step", "5"}, "0R1"},
+    // R0 = 0.1 ohm, B = 2000 K.
+    {"a 0.1 ohm thermistor",
+     {"--sh", "0.0045053089811775528,0.00050000000000000001,0", "--span", "-150:400", "--step", "5"},
+     "0R1"},
     {"Steinhart-Hart over 600 K", {"--sh", "1.1e-3,2.4e-4,1e-7", "--span", "-200:400", "--step", "5"}, "10k"},
+    // R0 = 1e-200 ohm, B = 3950 K.
     {"a 1e-200 ohm thermistor",
-     {"--r25", "1e-200", "--beta", "3950", "--span", "-250:500", "--step", "5"},
+     {"--sh", "0.11994060342172082,0.00025316455696202533,0", "--span", "-250:500", "--step", "5"},
      "1e-200",
      false},
+    // R0 = 1e200 ohm, B = 20000 K.
     {"a 1e200 ohm thermistor",
-     {"--r25", "1e200", "--beta", "20000", "--span", "-150:300", "--step", "5"},
+     {"--sh", "-0.019671834495259929,5.0000000000000002e-05,0", "--span", "-150:300", "--step", "5"},
      "1e200",
      false},
-    {"B = 20000 K over 1200 K", {"--r25", "10k", "--beta", "20000", "--span", "-200:1000", "--step", "10"}, "10k"},
+    // R0 = 10k, B = 20000 K.
+    {"B = 20000 K over 1200 K",
+     {"--sh", "0.0028934994160817211,5.0000000000000002e-05,0", "--span", "-200:1000", "--step", "10"},
+     "10k"},
 };
 
 // Every command line to try on a design (its table runs drop --step, which table does not take).
@@ -69,7 +80,7 @@ std::vector<std::vector<std::string>> runs_of(const Design& d) {
         runs.push_back(with(with({"check"}, d.model), {"--circuit", "bridge", "--r1", d.r, "--line", "minimax",
                                                        "--excitation", "5", "--dissipation", "1", "--format", f}));
         runs.push_back(with(with({"check"}, d.model),
-                            {"--circuit", "bare", "--current", "1u", "--line", "best-fit", "--format", f}));
+                            {"--circuit", "bare", "--current", "1u", "--line", "least-squares", "--format", f}));
         if (d.standard_values) {
             runs.push_back(
                 with(with({"size"}, d.model), {"--circuit", "divider-low", "--range", "1e-250:1e250", "--format", f}));
@@ -155,10 +166,12 @@ TEST_CASE("fit and the table model print only finite numbers for R-T points span
 }
 
 TEST_CASE("size says so when no standard value can reach the thermistor's resistance") {
-    // A 1e-200 ohm thermistor under any E24 value from 1 ohm to 10 Mohm: divider-high gives
-    // rs/(rs + R_T) = 1 − 1e-200/rs, which is 1 in a double at every temperature (by hand).
+    // A 1e-200 ohm thermistor (R0 = 1e-200 ohm, B = 3950 K, as Steinhart-Hart as above) under any E24
+    // value from 1 ohm to 10 Mohm: divider-high gives rs/(rs + R_T) = 1 − 1e-200/rs, which is 1 in a
+    // double at every temperature (by hand).
     const auto r = run_rtline(
-        {"size", "--r25", "1e-200", "--beta", "3950", "--span", "0:50", "--circuit", "divider-high", "--tradeoff"});
+        {"size", "--sh", "0.11994060342172082,0.00025316455696202533,0", "--span", "0:50", "--circuit", "divider-high",
+         "--tradeoff"});
     CHECK(r.code == 1);
     CHECK(r.out.empty());
     CHECK(r.err ==

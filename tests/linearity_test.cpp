@@ -235,7 +235,7 @@ TEST_CASE("line names parse back to their kinds; an unknown name is an InputErro
     for (const LineKind k : {LineKind::endpoint, LineKind::best_fit, LineKind::minimax}) {
         CHECK(rtline::parse_line(rtline::line_name(k), "--line") == k);
     }
-    CHECK(rtline::line_name(LineKind::best_fit) == "best-fit");
+    CHECK(rtline::line_name(LineKind::best_fit) == "least-squares");
     for (const char* bad : {"least-squares", "Endpoint", "", "independent"}) {
         CAPTURE(bad);
         try {

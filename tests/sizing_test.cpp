@@ -138,8 +138,8 @@ TEST_CASE("the one-resistor continuous optimum matches scipy's minimize_scalar o
          LineKind::endpoint,
          "endpoint",
          100e3},
-        {"engine bay, best-fit line (several local minima)", model_json(10e3, 3950), -55, 150, 5, Topology::divider_low,
-         "divider-low", LineKind::best_fit, "best-fit", 0},
+        {"engine bay, least-squares line (several local minima)", model_json(10e3, 3950), -55, 150, 5, Topology::divider_low,
+         "divider-low", LineKind::best_fit, "least-squares", 0},
         {"greenhouse, divider-high, minimax line", model_json(10e3, 3950), 5, 40, 1, Topology::divider_high,
          "divider-high", LineKind::minimax, "minimax", 0},
     };

@@ -84,8 +84,8 @@ TEST_CASE("check --svg: output and the line, nonlinearity and error, one vertex 
     CHECK_NEAR(xm.value(worst["points"][0][0].get<double>()), d["summary"]["at_t_c"].get<double>(), 45.0 * kReadBack);
 }
 
-TEST_CASE("check --svg names the best-fit and minimax lines in the legend and the titles") {
-    for (const char* line : {"best-fit", "minimax"}) {
+TEST_CASE("check --svg names the least-squares and minimax lines in the legend and the titles") {
+    for (const char* line : {"least-squares", "minimax"}) {
         CAPTURE(line);
         const TempPath pic(".svg");
         (void)run_with_svg(with({"check"}, with(kThermistor, {"--span", "-20:60", "--circuit", "divider-high", "--rs",

@@ -445,8 +445,8 @@ TEST_CASE("bad input exits 2 with one line naming the flag and the value") {
         {{"--adc-bits", "25"}, "--adc-bits '25': an ADC has 1 to 24 bits"},
         {{"--adc-bits", "12.5"}, "--adc-bits '12.5': a bit count must be a whole number"},
         {{"--adc-bits", "1"},
-         "--adc-bits '1': the span's output swing (0.935 LSB) covers fewer than two codes; use more "
-         "bits or a circuit with more swing"},
+         "--adc-bits '1': the span's output swing (0.935 LSB) covers 0 codes; a table takes at least 5 (the ends, "
+         "the middle and one in each half): use more bits or a circuit with more swing"},
         {{"--entries", "1"}, "--entries '1': a table needs at least 2 entries"},
         {{"--entries", "5000"}, "--entries '5000': a table needs 2 to 1915 entries (the span covers 1915 codes)"},
         {{"--degree", "0"}, "--degree '0': choose a degree from 1 to 12"},

@@ -39,7 +39,7 @@ std::map<std::string, Choices> choice_table() {
         circuit.words.emplace_back(rtline::topology_name(topology));
     t["--circuit"] = circuit;
     t["--series"] = {{"E3", "E6", "E12", "E24", "E48", "E96", "E192"}, true};
-    t["--line"] = {{"endpoint", "best-fit", "minimax"}, true};
+    t["--line"] = {{"endpoint", "least-squares", "minimax"}, true};
     t["--adc-transfer"] = {{"rounding", "truncating", "full-scale"}, true};
     t["--format"] = {{"text", "json", "csv", "markdown"}, false};
     t["--model"] = {{"sh", "beta", "table"}, false};  // fit takes the first two; see below

@@ -47,7 +47,7 @@ struct CodeMap {
 // whose ratio lies between the channel's ratios at the span's ends; the rail codes 0 and 2^N − 1 are
 // never readings (a converter at its rail says nothing of how far past it the input is). Requires
 // validate(channel) to pass and a model that covers the span. Throws InputError ("--adc-bits") when
-// adc_bits is not 1..kMaxAdcBits or the span covers fewer than two codes, and ("range") when the
+// adc_bits is not 1..kMaxAdcBits or the span covers fewer codes than the grid rule's kMinLinearityPoints, and ("range") when the
 // converter input at a span end lies outside 0 … 1 of the reference (that part of the span would read
 // as a rail).
 [[nodiscard]] CodeMap map_codes(const Thermistor& model, const Channel& channel, const Span& span, int adc_bits,

@@ -10,7 +10,7 @@ namespace rtline {
 
 enum class LineKind { endpoint, best_fit, minimax };
 
-[[nodiscard]] std::string_view line_name(LineKind k);  // "endpoint", "best-fit", "minimax"
+[[nodiscard]] std::string_view line_name(LineKind k);  // "endpoint", "least-squares", "minimax"
 // Parses a line name; throws InputError naming `field`.
 [[nodiscard]] LineKind parse_line(std::string_view text, std::string_view field);
 

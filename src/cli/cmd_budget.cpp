@@ -211,10 +211,7 @@ BudgetSpec build_spec(const BudgetOptions& o, const Circuit& circuit) {
     s.trials = parse_count(o.trials, "--trials", 0, static_cast<double>(kMaxTrials),
                            "the number of trials must be a whole number from 0 to " + std::to_string(kMaxTrials));
     s.seed = o.seed.empty() ? kDefaultSeed : parse_seed(o.seed);
-    if (!o.threads.empty()) {
-        s.threads = static_cast<unsigned>(parse_count(o.threads, "--threads", 1, kMaxThreads,
-                                                      "give 1 to " + std::to_string(kMaxThreads) + " threads"));
-    }
+    s.threads = build_threads(o.threads);
     return s;
 }
 
@@ -554,7 +551,7 @@ void run_budget(const BudgetOptions& o) {
     const Format format = parse_format(o.out.format, true);
     const Thermistor thermistor = build_model(o.model);
     const Span span = build_span(o.span);
-    const Grid grid = build_grid(thermistor, span, o.span);
+    const Grid grid = build_grid(thermistor, span, o.span, true);
     if (grid.size() > kMaxBudgetPoints) {
         const auto [flag, text] = grid_size_culprit(o.span);
         throw InputError(flag, text,

@@ -34,7 +34,7 @@ struct CheckCommand {
 std::string line_description(LineKind k) {
     switch (k) {
         case LineKind::endpoint: return "endpoint line (through the outputs at the span's two ends)";
-        case LineKind::best_fit: return "best-fit line (least squares over the span's points)";
+        case LineKind::best_fit: return "least-squares line (over the span's points)";
         case LineKind::minimax: return "minimax line (the smallest largest deviation)";
     }
     return "";
@@ -238,7 +238,7 @@ void setup_check(CLI::App& app) {
     add_circuit_options(*sub, opt->circuit);
     sub->add_option("--dissipation", opt->dissipation, "Thermistor dissipation constant, mW/K (for self-heating)")
         ->group("Circuit");
-    sub->add_option("--line", opt->line, "Reference line: endpoint (default), best-fit or minimax")->group("Analysis");
+    sub->add_option("--line", opt->line, "Reference line: endpoint (default), least-squares or minimax")->group("Analysis");
     add_front_end_options(*sub, opt->front_end);
     add_output_options(*sub, opt->out, true);
     add_svg_option(*sub, opt->svg);

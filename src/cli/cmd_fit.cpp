@@ -61,7 +61,7 @@ void run_fit(const FitCommand& o) {
     }
     const std::string source = o.points == "-" ? std::string("stdin") : o.points;
     const std::vector<RtPoint> raw = read_rt_points(read_text(o.points, "--points"), source);
-    const double t0_k = parse_temperature(o.t0, "--t0");
+    const double t0_k = build_t0(o.t0);
 
     std::vector<Residual> residuals;
     double max_residual_k = 0.0;
@@ -72,6 +72,7 @@ void run_fit(const FitCommand& o) {
     if (o.model == "sh") {
         const std::vector<RtPoint> pts = validate_points(raw, 3, source);
         const ShFit fit = fit_steinhart_hart(pts);
+        judge_points(pts, source);
         residuals = fit.residuals;
         max_residual_k = fit.max_residual_k;
         model = model_json(Thermistor(fit.model));
@@ -85,6 +86,7 @@ void run_fit(const FitCommand& o) {
     } else {
         const std::vector<RtPoint> pts = validate_points(raw, 2, source);
         const BetaFit fit = fit_beta(pts, t0_k);
+        judge_points(pts, source);
         residuals = fit.residuals;
         max_residual_k = fit.max_residual_k;
         model = model_json(Thermistor(fit.model));

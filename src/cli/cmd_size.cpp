@@ -72,13 +72,7 @@ Setup build_setup(const SizeCommand& o) {
         throw InputError("--top", o.top, "expected a whole number from 1 to 1000");
     }
     spec.top = static_cast<std::size_t>(top);
-    if (!o.threads.empty()) {
-        const double threads = parse_number(o.threads, "--threads");
-        if (!(threads >= 1.0 && threads <= 256.0) || threads != std::floor(threads)) {
-            throw InputError("--threads", o.threads, "expected a whole number from 1 to 256");
-        }
-        spec.threads = static_cast<std::size_t>(threads);
-    }
+    spec.threads = build_threads(o.threads);
     if (!o.dissipation.empty()) {
         spec.dissipation_w_per_k = 1e-3 * parse_number(o.dissipation, "--dissipation");
         if (!(spec.dissipation_w_per_k > 0.0)) {
@@ -640,7 +634,7 @@ void setup_size(CLI::App& app) {
         ->group("Search");
     sub->add_option("--range", opt->range, "Resistor values LO:HI in ohm (default 1:10M)")->group("Search");
     sub->add_option("--top", opt->top, "How many standard combinations to list (default 5)")->group("Search");
-    sub->add_option("--line", opt->line, "Reference line: endpoint (default), best-fit or minimax")->group("Search");
+    sub->add_option("--line", opt->line, "Reference line: endpoint (default), least-squares or minimax")->group("Search");
     sub->add_option("--threads", opt->threads, "Worker threads for the search (default: one per core; same result)")
         ->group("Search");
     sub->add_flag("--compare", opt->compare, "Size every topology and list the best of each")->group("Search");

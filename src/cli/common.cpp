@@ -7,8 +7,10 @@
 #include <iterator>
 #include <sstream>
 
+#include "rtline/budget.hpp"
 #include "rtline/error.hpp"
 #include "rtline/fit.hpp"
+#include "rtline/plausibility.hpp"
 #include "rtline/rtcsv.hpp"
 
 namespace rtline::cli {
@@ -45,6 +47,21 @@ double optional_quantity(const std::string& text, const std::string& field, cons
     const double v = parse_quantity(text, field, unit);
     if (!(v > 0.0)) throw InputError(field, text, "must be positive");
     return v;
+}
+
+unsigned build_threads(const std::string& text) {
+    if (text.empty()) return 0;
+    const std::string why = "give 1 to " + std::to_string(kMaxThreads) + " threads";
+    double v = 0.0;
+    try {
+        v = parse_number(text, "--threads");
+    } catch (const InputError&) {
+        throw InputError("--threads", text, why);
+    }
+    if (!(v >= 1.0 && v <= static_cast<double>(kMaxThreads)) || v != std::floor(v)) {
+        throw InputError("--threads", text, why);
+    }
+    return static_cast<unsigned>(v);
 }
 
 std::string celsius(double t_k, int decimals) { return format_fixed(kelvin_to_celsius(t_k), decimals); }
@@ -109,18 +126,40 @@ Thermistor build_model(const ModelOptions& o) {
         if (!b.empty() && b.back() == 'K') b.pop_back();
         m.b_k = parse_number(b, "--beta");
         if (!(m.b_k > 0.0)) throw InputError("--beta", o.beta, "the B-value of an NTC must be positive (kelvin)");
-        m.t0_k = parse_temperature(o.t0, "--t0");
+        m.t0_k = build_t0(o.t0);
+        heed("--beta", o.beta, judge_b_value(m.b_k));
+        heed("--r25", o.r25, judge_r25(Thermistor(m).resistance(k25CelsiusK)));
         return Thermistor(m);
     }
     if (!o.sh.empty()) return Thermistor(parse_sh(o.sh));
     const std::string source = o.points == "-" ? std::string("stdin") : o.points;
     const std::vector<RtPoint> pts = read_rt_points(read_text(o.points, "--points"), source);
     const std::string kind = o.model.empty() ? "sh" : o.model;
-    if (kind == "sh") return Thermistor(fit_steinhart_hart(validate_points(pts, 3, source)).model);
-    if (kind == "beta")
-        return Thermistor(fit_beta(validate_points(pts, 2, source), parse_temperature(o.t0, "--t0")).model);
-    if (kind == "table") return Thermistor(TableModel(validate_points(pts, 2, source)));
-    throw InputError("--model", o.model, "unknown model; choose sh, beta or table");
+    if (kind != "sh" && kind != "beta" && kind != "table") {
+        throw InputError("--model", o.model, "unknown model; choose sh, beta or table");
+    }
+    const std::vector<RtPoint> valid = validate_points(pts, kind == "sh" ? 3 : 2, source);
+    const Thermistor model = kind == "sh"     ? Thermistor(fit_steinhart_hart(valid).model)
+                             : kind == "beta" ? Thermistor(fit_beta(valid, build_t0(o.t0)).model)
+                                              : Thermistor(TableModel(valid));
+    judge_points(valid, source);
+    return model;
+}
+
+void heed(const std::string& field, const std::string& text, const Judgement& j) {
+    if (j.fine()) return;
+    if (j.impossible()) throw InputError(field, text, j.why);
+    warn(text.empty() ? field + ": " + j.why : field + " '" + text + "': " + j.why);
+}
+
+double build_t0(const std::string& text) {
+    const double t0_k = parse_temperature(text, "--t0");
+    heed("--t0", text, kelvin_typed_as_celsius(text));
+    return t0_k;
+}
+
+void judge_points(const std::vector<RtPoint>& points, const std::string& source) {
+    heed(source, "", judge_rt_points(points));
 }
 
 std::string describe_model(const Thermistor& t) {
@@ -176,7 +215,11 @@ void add_span_options(CLI::App& app, SpanOptions& o) {
         ->group("Span");
 }
 
-Span build_span(const SpanOptions& o) { return parse_span(o.span, "--span"); }
+Span build_span(const SpanOptions& o) {
+    const Span span = parse_span(o.span, "--span");
+    heed("--span", o.span, span_kelvin_typed_as_celsius(o.span));
+    return span;
+}
 
 double build_step(const SpanOptions& o) {
     std::string s = o.step.empty() ? std::string("1") : o.step;

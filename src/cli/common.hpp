@@ -11,6 +11,7 @@
 #include "rtline/analysis.hpp"
 #include "rtline/converter.hpp"
 #include "rtline/grid.hpp"
+#include "rtline/plausibility.hpp"
 #include "rtline/thermistor.hpp"
 
 namespace rtline::cli {
@@ -31,6 +32,14 @@ struct ModelOptions {
 void add_model_options(CLI::App& app, ModelOptions& o);
 // The thermistor the flags describe. Reads --points through read_text().
 [[nodiscard]] Thermistor build_model(const ModelOptions& o);
+// A judgement of the core's plausibility rules applied to `field` as typed (`text`): fine passes, unusual
+// warns, impossible throws InputError.
+void heed(const std::string& field, const std::string& text, const Judgement& j);
+// --t0 as kelvin, refused when it can only be kelvin typed as °C.
+[[nodiscard]] double build_t0(const std::string& text);
+// Validated R–T points that a model could be fitted to, judged for a temperature column in the wrong
+// unit (refused or warned by `source`).
+void judge_points(const std::vector<RtPoint>& points, const std::string& source);
 // A one-line description of the model for text output, e.g. "beta: R25 = 10k, B = 3950 K".
 [[nodiscard]] std::string describe_model(const Thermistor& t);
 // The model for JSON: {"kind", ...coefficients}.
@@ -41,13 +50,14 @@ struct SpanOptions {
     std::string step;  // K (= °C of difference); empty: 1 K
 };
 void add_span_options(CLI::App& app, SpanOptions& o);
+// --span, refused when it can only be kelvin typed as °C.
 [[nodiscard]] Span build_span(const SpanOptions& o);
 [[nodiscard]] double build_step(const SpanOptions& o);
 // The flag to blame for too many grid points, with its text as typed: --step when it was given,
 // else --span (the default step of 1 K is not the user's doing).
 [[nodiscard]] std::pair<std::string, std::string> grid_size_culprit(const SpanOptions& o);
 // make_grid over `span` at the --step, its errors quoting --span and --step as the user typed them.
-// With `judge_linearity` (check, size), a grid too coarse to judge a line is refused.
+// With `judge_linearity` (check, size, budget), a grid too coarse to judge a line is refused.
 [[nodiscard]] Grid build_grid(const Thermistor& model, const Span& span, const SpanOptions& o,
                               bool judge_linearity = false);
 
@@ -94,6 +104,10 @@ void add_adc_transfer_option(CLI::App& app, std::string& text, const std::string
 // The transfer in words for reports and the C header, e.g. "rounding: code k is the ratio k/4096 of the
 // reference (transitions at k - 1/2 LSB)".
 [[nodiscard]] std::string describe_adc_transfer(AdcTransfer t, int bits);
+
+// --threads for every command that takes it: "" → 0 (one per core), else a whole number from 1 to
+// kMaxThreads; any other text is refused with the same message everywhere.
+[[nodiscard]] unsigned build_threads(const std::string& text);
 
 // "25.00 °C" style label and °C formatting helpers for text output.
 [[nodiscard]] std::string celsius(double t_k, int decimals = 2);

@@ -67,7 +67,7 @@ def deviation(x, y, line):
     if line == "endpoint":
         slope = (y[-1] - y[0]) / (x[-1] - x[0])
         return y - (y[0] + slope * (x - x[0]))
-    if line == "best-fit":
+    if line == "least-squares":
         m, c = np.polyfit(x, y, 1)
         return y - (m * x + c)
     if line == "minimax":

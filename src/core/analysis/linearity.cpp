@@ -12,7 +12,7 @@ namespace rtline {
 std::string_view line_name(LineKind k) {
     switch (k) {
         case LineKind::endpoint: return "endpoint";
-        case LineKind::best_fit: return "best-fit";
+        case LineKind::best_fit: return "least-squares";
         case LineKind::minimax: return "minimax";
     }
     return "?";
@@ -20,9 +20,10 @@ std::string_view line_name(LineKind k) {
 
 LineKind parse_line(std::string_view text, std::string_view field) {
     if (text == "endpoint") return LineKind::endpoint;
-    if (text == "best-fit") return LineKind::best_fit;
+    // "best-fit" is the line's earlier name, still read so that old scripts and spec files keep working.
+    if (text == "least-squares" || text == "best-fit") return LineKind::best_fit;
     if (text == "minimax") return LineKind::minimax;
-    throw InputError(std::string(field), std::string(text), "unknown line; choose endpoint, best-fit or minimax");
+    throw InputError(std::string(field), std::string(text), "unknown line; choose endpoint, least-squares or minimax");
 }
 
 Line endpoint_line(std::span<const double> x, std::span<const double> y) {

@@ -5,6 +5,7 @@
 #include <string>
 
 #include "rtline/error.hpp"
+#include "rtline/grid.hpp"
 
 namespace rtline {
 
@@ -44,10 +45,15 @@ CodeMap map_codes(const Thermistor& model, const Channel& channel, const Span& s
     auto hi = static_cast<std::int64_t>(std::floor(std::max(v_a, v_b) * steps - offset + 1e-9));
     lo = std::max<std::int64_t>(lo, 1);
     hi = std::min<std::int64_t>(hi, static_cast<std::int64_t>(top) - 1);
-    if (hi - lo + 1 < 2) {
+    // A table over fewer codes than the grid rule's points cannot show how the line bends (grid.hpp).
+    if (hi - lo + 1 < static_cast<std::int64_t>(kMinLinearityPoints)) {
+        const std::int64_t n = std::max<std::int64_t>(hi - lo + 1, 0);
         throw InputError("--adc-bits", std::to_string(adc_bits),
-                         "the span's output swing (" + format_number(std::abs(v_b - v_a) * steps, 3) +
-                             " LSB) covers fewer than two codes; use more bits or a circuit with more swing");
+                         "the span's output swing (" + format_number(std::abs(v_b - v_a) * steps, 3) + " LSB) covers " +
+                             std::to_string(n) + (n == 1 ? " code" : " codes") + "; a table takes at least " +
+                             std::to_string(kMinLinearityPoints) +
+                             " (the ends, the middle and one in each half): use more bits or a circuit with more "
+                             "swing");
     }
     CodeMap map;
     map.adc_bits = adc_bits;
