@@ -4,24 +4,11 @@
 
 namespace rtline::cli {
 
-namespace {
-
-// Characters in UTF-8 text (the bytes that start a code point), for padding labels like "T (°C)".
-std::size_t characters(const std::string& s) {
-    std::size_t n = 0;
-    for (const unsigned char ch : s) {
-        if ((ch & 0xC0) != 0x80) ++n;
-    }
-    return n;
-}
-
-}  // namespace
-
 std::string facts_text(const Facts& facts, std::size_t column, const std::string& suffix) {
     std::string out;
     for (const Fact& f : facts) {
         const std::string label = f.label.empty() ? "" : f.label + suffix;
-        const std::size_t used = characters(label);
+        const std::size_t used = width(label);
         out += label + std::string(column > used ? column - used : 1, ' ') + f.value + "\n";
     }
     return out;

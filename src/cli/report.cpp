@@ -50,7 +50,8 @@ std::string csv_cell(const Cell& cell) {
     return std::isfinite(v) ? format_number(v, 10) : "";
 }
 
-// Display width of UTF-8 text: count the bytes that start a code point.
+}  // namespace
+
 std::size_t width(const std::string& s) {
     std::size_t w = 0;
     for (const unsigned char ch : s) {
@@ -58,8 +59,6 @@ std::size_t width(const std::string& s) {
     }
     return w;
 }
-
-}  // namespace
 
 std::string Table::text() const {
     std::vector<std::vector<std::string>> cells;

@@ -50,6 +50,9 @@ private:
 // are backslash-escaped and line breaks become spaces.
 [[nodiscard]] std::string markdown_escape(const std::string& s);
 
+// Display width of UTF-8 text (the bytes that start a code point), for padding labels like "T (°C)".
+[[nodiscard]] std::size_t width(const std::string& s);
+
 // A JSON document's opening keys: tool, version, schema, command.
 [[nodiscard]] Json document(const std::string& command);
 // A number for JSON: NaN and infinities become null (JSON has neither).
