@@ -196,7 +196,10 @@ TEST_CASE("size --format markdown: the candidates, their resistors and figures, 
     const std::size_t r = column(t, "resistors");
     for (std::size_t i = 0; i < cs.size(); ++i) {
         const json got = resistors_of(t["rows"][i][r]);
-        for (const auto& [name, ohm] : cs[i]["resistors_ohm"].items()) {
+        for (const auto& item : cs[i]["resistors_ohm"].items()) {
+            // a named variable, not a structured binding: clang 14 cannot capture one in INFO's lambda
+            const std::string name = item.key();
+            const json& ohm = item.value();
             if (!got.contains(name)) continue;  // the table lists the free resistors only
             INFO(name << " in row " << i);
             CHECK(got[name].get<double>() == doctest::Approx(ohm.get<double>()).epsilon(1e-9));
