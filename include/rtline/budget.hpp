@@ -202,7 +202,7 @@ struct Budget {
 // R0·(1 + dr)·exp(B·(1 + db)·(1/T − 1/T0)).
 [[nodiscard]] double perturbed_resistance(const Thermistor& model, double t_k, double dr, double db);
 
-// The T0 at which --r25-tol applies: the beta model's t0, else 25 °C (298.15 K).
+// The T0 at which the R0 tolerance applies: the beta model's t0, else 25 °C (298.15 K).
 [[nodiscard]] double tolerance_reference_k(const Thermistor& model);
 
 }  // namespace rtline

@@ -10,6 +10,7 @@
 #include <string>
 #include <vector>
 
+#include "rtline/error.hpp"
 #include "rtline/analysis.hpp"
 #include "rtline/eseries.hpp"
 
@@ -95,13 +96,14 @@ struct ClosedForms {
 // values and says so.
 [[nodiscard]] ClosedForms closed_forms(const Thermistor& model, const Span& span, const Circuit& base);
 
-// Which constraint a candidate fails first, or empty when it meets them all.
-[[nodiscard]] std::string failed_constraint(const SizingSpec& spec, const Candidate& c);
+// Which constraint a candidate fails first (Input::min_span, min_sensitivity, max_power or
+// max_self_heating), or empty when it meets them all.
+[[nodiscard]] std::optional<Input> failed_constraint(const SizingSpec& spec, const Candidate& c);
 
 struct StandardSearch {
     std::vector<Candidate> best;                               // at most spec.top, best first
     std::size_t examined = 0;                                  // combinations evaluated
-    std::vector<std::pair<std::string, std::size_t>> removed;  // constraint flag → candidates it removed
+    std::vector<std::pair<Input, std::size_t>> removed;        // constraint → candidates it removed
 };
 
 // Every combination of series values in range for the free resistors, ranked by the objective;

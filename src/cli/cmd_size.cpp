@@ -185,13 +185,15 @@ Table candidate_table(const std::vector<Candidate>& cs, const std::string& unit,
 }
 
 [[noreturn]] void infeasible(const SizingSpec& spec, const StandardSearch& s, const std::string& what) {
-    std::pair<std::string, std::size_t> worst{"", 0};
+    std::pair<std::string, std::size_t> worst{"", 0};  // the constraint's flag, and what it removed
     std::string others;
     for (const auto& r : s.removed) {
-        if (r.second > worst.second) worst = r;
+        if (r.second > worst.second) worst = {flag_name(r.first), r.second};
     }
     for (const auto& r : s.removed) {
-        if (r.second > 0 && r.first != worst.first) others += "; " + r.first + " removed " + std::to_string(r.second);
+        if (r.second > 0 && flag_name(r.first) != worst.first) {
+            others += "; " + flag_name(r.first) + " removed " + std::to_string(r.second);
+        }
     }
     std::string msg = "no " + std::string(series_name(spec.series)) + " combination " +
                       (what.empty() ? "" : what + " ") + "meets the constraints";
@@ -271,7 +273,7 @@ std::string size_svg(const SizeCommand& o, const Setup& s, const Candidate& cont
     p.grid = &s.grid;
     p.model = &s.model;
     p.continuous = continuous;
-    p.continuous_fails = failed_constraint(s.spec, continuous);
+    if (const auto fails = failed_constraint(s.spec, continuous)) p.continuous_fails = flag_name(*fails);
     p.listed = listed;
     p.listed_label = label;
     std::tie(p.lo_ohm, p.hi_ohm) = o.range == "1:10M" ? size_window(s.spec, continuous, listed)
@@ -482,7 +484,8 @@ void run_size(const SizeCommand& o) {
     const ClosedForms cf = closed_forms(s.model, s.span, s.spec.base);
     const StandardSearch found = search_standard(s.spec, s.grid, s.model);
     if (found.best.empty()) infeasible(s.spec, found, "");
-    const std::string cont_fails = failed_constraint(s.spec, continuous);
+    const auto fails = failed_constraint(s.spec, continuous);
+    const std::string cont_fails = fails ? flag_name(*fails) : std::string();
     if (const std::string w = span_warning(found.best.front()); !w.empty()) warn(w);
 
     if (format == Format::json) {

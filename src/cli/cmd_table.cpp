@@ -350,10 +350,10 @@ void refuse_unreadable(const CircuitOptions& o) {
     try {
         require_ratiometric(probe);
     } catch (const InputError& e) {
-        const std::string& text = e.field() == "--excitation" ? o.excitation
-                                  : e.field() == "--current"  ? o.current
-                                                              : o.circuit;
-        throw InputError(e.field(), text, e.why());
+        const std::string& text = e.input() == Input::excitation ? o.excitation
+                                  : e.input() == Input::current  ? o.current
+                                                                 : o.circuit;
+        throw e.with_value(text);
     }
 }
 
@@ -407,8 +407,8 @@ void run_table(const TableCommand& o) {
     try {
         r.map = map_codes(r.thermistor, r.circuit, r.span, bits, transfer);
     } catch (const InputError& e) {
-        if (e.field() != "--span") throw;
-        throw InputError("--span", o.span.span, e.why());  // quoted as typed, not as kelvin turned back into °C
+        if (e.input() != Input::span) throw;
+        throw e.with_value(o.span.span);  // quoted as typed, not as kelvin turned back into °C
     }
     // Without --max-error the table meets one unit or half the widest step between adjacent codes (the
     // converter's own resolution there), the larger: our own choice, so the table adds no more than

@@ -13,23 +13,23 @@ namespace rtline {
 void require_ratiometric(const Circuit& c) {
     const std::string topo(topology_name(c.topology));
     if (gives_resistance(c.topology)) {
-        throw InputError("--circuit", topo,
+        throw InputError(Input::topology, topo,
                          "the output is a resistance, not a voltage an ADC reads; use divider-high, divider-low "
                          "or shunt-divider");
     }
     if (is_bridge(c.topology)) {
-        throw InputError("--circuit", topo,
+        throw InputError(Input::topology, topo,
                          "a bridge's differential output needs an amplifier whose gain and offset the table "
                          "does not know; use divider-high, divider-low or shunt-divider (node A of the bridge "
                          "alone is a divider-low with rs = r1)");
     }
     if (c.excitation.drive == Drive::voltage) {
-        throw InputError("--excitation", describe(c.excitation.value),
+        throw InputError(Input::excitation, describe(c.excitation.value),
                          "the table reads the ADC ratiometrically (its reference is the excitation), so the "
-                         "supply voltage does not matter; leave --excitation out");
+                         "supply voltage does not matter; leave {excitation} out");
     }
     if (c.excitation.drive == Drive::current) {
-        throw InputError("--current", describe(c.excitation.value),
+        throw InputError(Input::current, describe(c.excitation.value),
                          "a current drive is not ratiometric; the table needs a divider read against its own "
                          "excitation");
     }
@@ -75,11 +75,11 @@ double CodeMap::temperature(std::int64_t code) const {
 CodeMap map_codes(const Thermistor& model, const Circuit& circuit, const Span& span, int adc_bits,
                   AdcTransfer transfer) {
     if (adc_bits < 1 || adc_bits > kMaxAdcBits) {
-        throw InputError("--adc-bits", std::to_string(adc_bits),
+        throw InputError(Input::adc_bits, std::to_string(adc_bits),
                          "an ADC has 1 to " + std::to_string(kMaxAdcBits) + " bits");
     }
     require_ratiometric(circuit);
-    model.check_span(span, "--span");
+    model.check_span(span, Input::span);
     const double v_a = output(circuit, model.resistance(span.lo_k));
     const double v_b = output(circuit, model.resistance(span.hi_k));
     // Code k stands for (k + offset)/steps: offset ½ for truncating, else 0 (converter.hpp).
@@ -92,7 +92,7 @@ CodeMap map_codes(const Thermistor& model, const Circuit& circuit, const Span& s
     lo = std::max<std::int64_t>(lo, 1);
     hi = std::min<std::int64_t>(hi, static_cast<std::int64_t>(top) - 1);
     if (hi - lo + 1 < 2) {
-        throw InputError("--adc-bits", std::to_string(adc_bits),
+        throw InputError(Input::adc_bits, std::to_string(adc_bits),
                          "the span's output swing (" + format_number(std::abs(v_b - v_a) * steps, 3) +
                              " LSB) covers fewer than two codes; use more bits or a circuit with more swing");
     }
@@ -324,7 +324,7 @@ LookupTable power_of_two_table(const CodeMap& map, int shift) {
 LookupTable make_table(const CodeMap& map, std::size_t entries, Spacing spacing) {
     const std::size_t limit = std::min(map.size(), kMaxTableEntries);
     if (entries < 2 || entries > limit) {
-        throw InputError("--entries", std::to_string(entries),
+        throw InputError(Input::entries, std::to_string(entries),
                          "a table needs 2 to " + std::to_string(limit) + " entries (" +
                              (limit == map.size() ? "the span covers " + std::to_string(map.size()) + " codes"
                                                   : std::string("a sane limit")) +
