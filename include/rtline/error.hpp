@@ -81,6 +81,8 @@ enum class Input : unsigned char {
 [[nodiscard]] std::string_view input_key(Input input);
 // The input in the core's words ("the step", "the B-value").
 [[nodiscard]] std::string_view input_noun(Input input);
+// "{key}": how a message names another input, for a front end to render.
+[[nodiscard]] std::string input_placeholder(Input input);
 // The input whose key is `key`, if any.
 [[nodiscard]] std::optional<Input> input_from_key(std::string_view key);
 

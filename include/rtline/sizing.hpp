@@ -118,3 +118,27 @@ struct StandardSearch {
 [[nodiscard]] std::vector<Candidate> tradeoff(const SizingSpec& spec, const Grid& grid, const Thermistor& model);
 
 }  // namespace rtline
+
+namespace rtline {
+
+// Why sizing `c` under its drive would be meaningless, or empty: a current source forces its current
+// through a divider, so the output is I·rs (divider-high, shunt-divider) or I·R_T (divider-low).
+[[nodiscard]] std::string drive_problem(const Circuit& c);
+
+// The InfeasibleError for a standard search `s` that found nothing: names the constraint that removed
+// the most combinations (as "{key}", see error.hpp) and what the others removed, or, when none removed
+// any, says the searched values are out of reach of the thermistor. `what` qualifies the combination
+// ("for any topology"), or is empty.
+[[nodiscard]] InfeasibleError infeasible(const SizingSpec& spec, const StandardSearch& s, const std::string& what);
+
+// Every topology with a resistor to size, each searched for its best standard-value design under the
+// drive of spec.base (its topology is ignored), ranked most linear first.
+struct Comparison {
+    std::vector<Candidate> ranked;                            // each topology's best, most linear first
+    std::vector<std::pair<Topology, std::string>> skipped;    // left out, and why (inputs as "{key}")
+    StandardSearch total;                                     // examined and removed, over all searched
+};
+// Throws infeasible(spec, total, "for any topology") when no topology has a design.
+[[nodiscard]] Comparison compare_topologies(const SizingSpec& spec, const Grid& grid, const Thermistor& model);
+
+}  // namespace rtline

@@ -85,14 +85,6 @@ std::string compose(const std::string& head, const std::string& value, const std
     return text + ": " + why;
 }
 
-// "{key}": how a message names the input before a front end renders it.
-std::string placeholder(Input input) {
-    std::string text(1, '{');
-    text.append(input_key(input));
-    text.push_back('}');
-    return text;
-}
-
 std::string head_of(const std::optional<Input>& input, const std::string& field, const InputNamer& name) {
     return input ? name(*input) : field;
 }
@@ -110,6 +102,13 @@ const std::array<Input, 52>& all_inputs() {
 
 std::string_view input_key(Input input) { return kInputs.at(static_cast<std::size_t>(input)).key; }
 std::string_view input_noun(Input input) { return kInputs.at(static_cast<std::size_t>(input)).noun; }
+
+std::string input_placeholder(Input input) {
+    std::string text(1, '{');
+    text.append(input_key(input));
+    text.push_back('}');
+    return text;
+}
 
 std::optional<Input> input_from_key(std::string_view key) {
     for (const InputName& n : kInputs) {
@@ -140,7 +139,7 @@ std::string render_inputs(const std::string& text, const InputNamer& name) {
     return out;
 }
 
-Error::Error(std::string message) : Error(render_inputs(message, core_noun), std::move(message)) {}
+Error::Error(std::string message) : std::runtime_error(render_inputs(message, core_noun)), message_(std::move(message)) {}
 
 Error::Error(std::string what, std::string message) : std::runtime_error(std::move(what)), message_(std::move(message)) {}
 
@@ -148,7 +147,7 @@ std::string Error::render(const InputNamer& name) const { return render_inputs(m
 
 InputError::InputError(Input input, std::string value, std::string why)
     : Error(compose(core_noun(input), value, render_inputs(why, core_noun)),
-            compose(placeholder(input), value, why)),
+            compose(input_placeholder(input), value, why)),
       input_(input),
       field_(input_key(input)),
       value_(std::move(value)),
