@@ -413,7 +413,7 @@ TEST_CASE("a broken R-T file is refused by its line, its column and the field's 
         {"a Steinhart-Hart fit that is not monotonic", fit,
          "--points '3 points': the Steinhart-Hart fit does not give a resistance that falls monotonically from 0 to 50 "
          "\xC2\xB0"
-         "C; check the points, or use the beta model (--model beta)",
+         "C; check the points, or use the beta model",
          "t_c,r_ohm\n0,1e300\n25,1e-300\n50,1e-301\n"},
         // A temperature mistyped as 5.6e57 C (the R-T fuzzer's first finding): the exact fit through it
         // cannot give it back (fit_test), so the reader stops it first, by its line and column.

@@ -17,12 +17,8 @@ using nlohmann::json;
 using rtline::test::run_rtline;
 using Args = std::vector<std::string>;
 
-// Our own thermistor: beta model R25 = 10 kΩ, B = 3950 K.
-Args check(const Args& more) {
-    Args a{"check", "--r25", "10k", "--beta", "3950"};
-    a.insert(a.end(), more.begin(), more.end());
-    return a;
-}
+// Our own thermistor: beta model R25 = 10 kΩ, B = 3950 K (support.hpp).
+Args check(const Args& more) { return rtline::test::check_args(more); }
 
 json run_json(const Args& args) {
     const auto r = run_rtline(args);

@@ -14,12 +14,8 @@ using nlohmann::json;
 using rtline::test::run_rtline;
 using Args = std::vector<std::string>;
 
-// Our own thermistor: beta model R25 = 10 kΩ, B = 3950 K.
-Args check(const Args& more) {
-    Args a{"check", "--r25", "10k", "--beta", "3950"};
-    a.insert(a.end(), more.begin(), more.end());
-    return a;
-}
+// Our own thermistor: beta model R25 = 10 kΩ, B = 3950 K (support.hpp).
+Args check(const Args& more) { return rtline::test::check_args(more); }
 
 // Beta equation, our part: R(t_c) = 10000·exp(3950·(1/T − 1/298.15)).
 double r_beta(double t_c) { return 10e3 * std::exp(3950.0 * (1.0 / (t_c + 273.15) - 1.0 / 298.15)); }

@@ -198,7 +198,7 @@ TEST_CASE("a bridge completed for a null at a temperature reads zero there") {
     CHECK(std::abs(rtline::output(sb, r_null)) < 1e-15);
 }
 
-TEST_CASE("an output that does not change over the span is an InputError naming --circuit") {
+TEST_CASE("an output that does not change over the span is an InputError naming the topology") {
     // A hand-made grid whose two resistances are equal: the divider reads the same at both ends.
     rtline::Grid grid;
     grid.t_k = {290.0, 300.0};
@@ -207,7 +207,7 @@ TEST_CASE("an output that does not change over the span is an InputError naming 
         (void)rtline::analyze(grid, kNtc, circuit(Topology::divider_low, 10e3), LineKind::endpoint, 0.0);
         FAIL("no error for a zero full-scale output");
     } catch (const rtline::InputError& e) {
-        CHECK(e.field() == "--circuit");
+        CHECK(e.input() == rtline::Input::topology);
         CHECK(e.value() == "divider-low");
         CHECK(std::string(e.what()).find("zero full-scale output") != std::string::npos);
     }

@@ -20,12 +20,9 @@ using rtline::Circuit;
 using rtline::Drive;
 using rtline::Topology;
 
-std::string num(double v) {
-    std::ostringstream s;
-    s.precision(17);
-    s << v;
-    return s.str();
-}
+using rtline::test::close;
+using rtline::test::num;
+using rtline::test::thermistor_resistances;
 
 // One copy of the network, suffix k on every node and element. Nodes: top (the drive), out (divider
 // output), a and b (bridge arms); ground is 0. Returns the copy's elements and fills the ngspice
@@ -129,22 +126,7 @@ std::vector<Spice> ngspice_op(const Circuit& c, const std::vector<double>& r_t) 
     return result;
 }
 
-// The thermistor of these cases: beta model, R25 = 10 kΩ, B = 3950 K (our own plausible part).
-std::vector<double> thermistor_resistances() {
-    const rtline::Thermistor t(rtline::BetaModel{10e3, rtline::k25CelsiusK, 3950.0});
-    std::vector<double> r;
-    for (const double t_c : {-30.0, 0.0, 25.0, 60.0, 105.0}) r.push_back(t.resistance(rtline::celsius_to_kelvin(t_c)));
-    return r;
-}
 
-// Tolerance 1e-12: ngspice solves the linear nodal equations in double precision in one Newton step
-// (a resistive network is linear, so its convergence tolerances never come into play) and prints 18
-// figures; the two agree to better than 1e-14 here (measured), so 1e-12 leaves room for LU rounding
-// only. The bridge's output is a difference of nearly equal node voltages, so every comparison is
-// relative to the larger of the value and the drive's scale `scale` (volts at the top node).
-bool close(double got, double want, double scale) {
-    return std::abs(got - want) <= 1e-12 * std::max(std::abs(want), scale);
-}
 
 void check_against_ngspice(const Circuit& c) {
     REQUIRE_MESSAGE(rtline::test::have_program("ngspice"), "ngspice is missing: run scripts/setup.sh");

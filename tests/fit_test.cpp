@@ -185,7 +185,7 @@ TEST_CASE("a Steinhart-Hart fit to fewer than three points is an InputError") {
     CHECK_THROWS_AS((void)fit_steinhart_hart(two), InputError);
     CHECK_THROWS_AS((void)fit_steinhart_hart({}), InputError);
     CHECK(refusal([&] { return fit_steinhart_hart(two); }) ==
-          "--points '2 points': a Steinhart-Hart fit needs at least 3 R-T points");
+          "the R-T points '2 points': a Steinhart-Hart fit needs at least 3 R-T points");
 }
 
 TEST_CASE("a beta fit to fewer than two points is an InputError") {
@@ -208,7 +208,7 @@ TEST_CASE("a beta fit to a rising resistance is an InputError naming the points"
     // A PTC-like table gives 1/B < 0: no NTC B-value describes it.
     CHECK(refusal([&] {
               return fit_beta({{273.15, 10e3}, {298.15, 20e3}, {323.15, 40e3}}, 298.15);
-          }) == "--points '3 points': the beta fit gives no positive B-value");
+          }) == "the R-T points '3 points': the beta fit gives no positive B-value");
 }
 
 TEST_CASE("a fit that cannot give back one of its points is an InputError, not an infinite residual") {
@@ -218,7 +218,7 @@ TEST_CASE("a fit that cannot give back one of its points is an InputError, not a
     // or a few 1e-19 (an exact fit that misses its point by orders of magnitude). Both are refused.
     const std::vector<RtPoint> typo = {{319.15, 10e3}, {333.15, 8.7e3}, {celsius_to_kelvin(5.555556e57), 1.0}};
     CHECK(refusal([&] { return fit_steinhart_hart(typo); }) ==
-          "--points '3 points': the Steinhart-Hart fit cannot give back the temperature of the point at "
+          "the R-T points '3 points': the Steinhart-Hart fit cannot give back the temperature of the point at "
           "5.55556e+57 \xC2\xB0"
           "C (1 ohm); check the points' temperatures");
 }
@@ -229,9 +229,9 @@ TEST_CASE("a Steinhart-Hart fit that turns back between its points is an InputEr
     CHECK(refusal([&] {
               return fit_steinhart_hart({{273.15, 1e300}, {298.15, 1e-300}, {323.15, 1e-301}});
           }) ==
-          "--points '3 points': the Steinhart-Hart fit does not give a resistance that falls monotonically "
+          "the R-T points '3 points': the Steinhart-Hart fit does not give a resistance that falls monotonically "
           "from 0 to 50 \xC2\xB0"
-          "C; check the points, or use the beta model (--model beta)");
+          "C; check the points, or use the beta model");
 }
 
 TEST_CASE("a beta fit whose R0 at T0 overflows a double says so and how to avoid it") {
@@ -240,7 +240,7 @@ TEST_CASE("a beta fit whose R0 at T0 overflows a double says so and how to avoid
     CHECK(refusal([&] {
               return fit_beta({{300.0, 1e200}, {300.00001, 1e100}, {300.00003, 1.0}}, 298.15);
           }) ==
-          "--points '3 points': the beta fit's R0 at 25 \xC2\xB0"
+          "the R-T points '3 points': the beta fit's R0 at 25 \xC2\xB0"
           "C is beyond the range of a double; state R0 "
-          "at a temperature among the points (--t0)");
+          "at a temperature among the points (T0)");
 }

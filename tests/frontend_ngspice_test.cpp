@@ -22,12 +22,9 @@ using rtline::Circuit;
 using rtline::Drive;
 using rtline::Topology;
 
-std::string num(double v) {
-    std::ostringstream s;
-    s.precision(17);
-    s << v;
-    return s.str();
-}
+using rtline::test::close;
+using rtline::test::num;
+using rtline::test::thermistor_resistances;
 
 // Runs ngspice on `netlist` (its .control block prints `let` vectors) and returns every "name = value".
 std::map<std::string, double> ngspice(const std::string& netlist) {
@@ -98,20 +95,7 @@ std::string network(const Circuit& c, double r_t, const std::string& s, double d
     return n.str();
 }
 
-// The thermistor of these cases: beta model, R25 = 10 kΩ, B = 3950 K (our own plausible part).
-std::vector<double> thermistor_resistances() {
-    const rtline::Thermistor t(rtline::BetaModel{10e3, rtline::k25CelsiusK, 3950.0});
-    std::vector<double> r;
-    for (const double t_c : {-30.0, 0.0, 25.0, 60.0, 105.0}) r.push_back(t.resistance(rtline::celsius_to_kelvin(t_c)));
-    return r;
-}
 
-// 1e-12 relative: ngspice solves the linear nodal equations in double precision and prints 18 figures
-// (see circuit_ngspice_test.cpp); `scale` keeps a difference of nearly equal voltages relative to the
-// drive's scale.
-bool close(double got, double want, double scale) {
-    return std::abs(got - want) <= 1e-12 * std::max(std::abs(want), scale);
-}
 
 Circuit test_bridge() {
     Circuit c;

@@ -271,9 +271,17 @@ TEST_CASE("rtline fit --model beta prints R0 at T0 and the B-value") {
     CHECK(m["t0_c"].get<double>() == doctest::Approx(25.0));
     // R0 near kPack's R(25 °C) (the beta line cannot pass through every point; 1 % is ample).
     CHECK(m["r0_ohm"].get<double>() == doctest::Approx(rtline::sh_resistance(kPack, 298.15)).epsilon(1e-2));
-    CHECK(m["b_k"].is_number());
+    REQUIRE(doc["residuals"].size() == 13);
+    // R0 and B as the document prints them against numpy.linalg.lstsq on the same weighted problem
+    // (tests/ref/sh_lstsq.py, 1/T = a + (1/B)·ln R, rows weighted by T²), from the points as read back.
+    json pts = json::array();
+    for (const json& r : doc["residuals"])
+        pts.push_back({{"t_k", r["t_c"].get<double>() + 273.15}, {"r_ohm", r["r_ohm"]}});
+    const json ref = rtline::test::python_ref("sh_lstsq.py", {{"model", "beta"}, {"points", pts}, {"t0_k", 298.15}});
+    CHECK(ref["rank"] == 2);
+    CHECK(m["b_k"].get<double>() == doctest::Approx(ref["b_k"].get<double>()).epsilon(1e-9));
+    CHECK(m["r0_ohm"].get<double>() == doctest::Approx(ref["r0_ohm"].get<double>()).epsilon(1e-9));
     CHECK(doc["max_residual_mk"].get<double>() > 0.0);
-    CHECK(doc["residuals"].size() == 13);
 }
 
 TEST_CASE("rtline fit as text names the model and the largest residual") {

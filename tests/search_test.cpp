@@ -65,7 +65,8 @@ TEST_CASE("the search gives the same candidates, counts and figures whatever the
         }
     }
     // The power limit does remove some: the counts above compare something.
-    CHECK(one.removed[2].first == "--max-power");
+    REQUIRE(one.removed.size() == 4);
+    CHECK(one.removed[2].first == rtline::Input::max_power);
     CHECK(one.removed[2].second > 0u);
 }
 
@@ -101,4 +102,59 @@ TEST_CASE("the pruned search finds exactly the best pairs that scoring every pai
         const Circuit c = sized_circuit(spec, model, free_values(found.best[i]));
         CHECK(objective(spec, grid, c) <= objectives[24] * (1.0 + 1e-9));
     }
+}
+
+TEST_CASE("a topology comparison ranks each topology's own best and says why it left the others out") {
+    // A freezer room of our own, -30 to 0 C, ratiometric: the comparison's rows must be exactly what a
+    // search of each topology alone finds (the exhaustive search, checked by brute force in sizing_test).
+    const Thermistor model = beta_model(10e3, 3950);
+    const Grid grid = make_grid(model, span_c(-30, 0), 1);
+    SizingSpec spec;
+    spec.base.excitation = {Drive::ratiometric, 1.0};
+    spec.series = Series::e12;
+    spec.range_lo_ohm = 1e3;
+    spec.range_hi_ohm = 100e3;
+    const Comparison cmp = compare_topologies(spec, grid, model);
+    REQUIRE(!cmp.ranked.empty());
+    for (std::size_t i = 1; i < cmp.ranked.size(); ++i) {
+        CHECK(cmp.ranked[i - 1].max_nonlinearity_pct_fsd <= cmp.ranked[i].max_nonlinearity_pct_fsd);
+    }
+    std::size_t searched = 0;
+    for (const Topology t : all_topologies()) {
+        if (free_resistors(t).empty()) continue;
+        SizingSpec one = spec;
+        one.base.topology = t;
+        one.top = 1;
+        const auto skipped = std::find_if(cmp.skipped.begin(), cmp.skipped.end(), [&](const auto& s) { return s.first == t; });
+        const auto row = std::find_if(cmp.ranked.begin(), cmp.ranked.end(),
+                                      [&](const Candidate& c) { return c.circuit.topology == t; });
+        CAPTURE(topology_name(t));
+        CHECK((skipped == cmp.skipped.end()) != (row == cmp.ranked.end()));  // one or the other
+        if (gives_resistance(t)) {
+            // A ratiometric reading of a resistance: the shunt has no V/V output to read.
+            continue;
+        }
+        if (row == cmp.ranked.end()) continue;
+        const StandardSearch alone = search_standard(one, grid, model);
+        REQUIRE(!alone.best.empty());
+        CHECK(free_values(*row) == free_values(alone.best.front()));
+        CHECK(row->max_nonlinearity_pct_fsd == alone.best.front().max_nonlinearity_pct_fsd);
+        searched += alone.examined;
+    }
+    CHECK(searched <= cmp.total.examined);
+    CHECK(searched > 0u);
+}
+
+TEST_CASE("an infeasible search names the constraint that removed most, as an input the front end renders") {
+    SizingSpec spec;
+    spec.series = Series::e24;
+    StandardSearch s;
+    s.examined = 169;
+    s.removed = {{Input::min_span, 169}, {Input::min_sensitivity, 0}, {Input::max_power, 12}, {Input::max_self_heating, 0}};
+    const InfeasibleError e = infeasible(spec, s, "");
+    // Composed by hand from the rule: the most first, then the others that removed any.
+    CHECK(e.message() == "no E24 combination meets the constraints: {min_span} removed 169 of 169 combinations; "
+                         "{max_power} removed 12");
+    CHECK(std::string(e.what()) == "no E24 combination meets the constraints: the least output span removed 169 of "
+                                   "169 combinations; the power limit removed 12");
 }

@@ -513,7 +513,7 @@ TEST_CASE("a power limit makes the best standard value one far from the continuo
     spec.base.excitation = {Drive::voltage, volts};
     spec.constraints.max_power_w = 1e-6;
     const Candidate cont = optimize_continuous(spec, grid, model);
-    CHECK(failed_constraint(spec, cont) == "--max-power");
+    CHECK(failed_constraint(spec, cont) == rtline::Input::max_power);
     const std::vector<double> values = series_values(Series::e24, 1.0, 10e6);
     std::vector<Brute> feasible;
     for (const double v : values) {
@@ -542,7 +542,7 @@ struct ConstraintCase {
     const char* what;
     Constraints limits;
     double dissipation_w_per_k;
-    const char* flag;  // the flag that counts the removals
+    rtline::Input flag;  // the constraint that counts the removals
 };
 
 }  // namespace
@@ -565,11 +565,11 @@ TEST_CASE("each constraint removes exactly the candidates a brute force says it 
     Constraints heat;
     heat.max_self_heating_k = 0.3;
     const ConstraintCase cases[] = {
-        {"max power 0.4 mW", power, 0.0, "--max-power"},
-        {"min span 1.85 V", span, 0.0, "--min-span"},
-        {"min sensitivity 40 mV/K", sens, 0.0, "--min-sensitivity"},
+        {"max power 0.4 mW", power, 0.0, rtline::Input::max_power},
+        {"min span 1.85 V", span, 0.0, rtline::Input::min_span},
+        {"min sensitivity 40 mV/K", sens, 0.0, rtline::Input::min_sensitivity},
         // δ = 1 mW/K, a small epoxy chip in still air (common practice, docs/sources.md): 0.3 K is 0.3 mW.
-        {"max self-heating 0.3 K at 1 mW/K", heat, 1e-3, "--max-self-heating"},
+        {"max self-heating 0.3 K at 1 mW/K", heat, 1e-3, rtline::Input::max_self_heating},
     };
     for (const ConstraintCase& c : cases) {
         CAPTURE(c.what);
@@ -602,10 +602,11 @@ TEST_CASE("each constraint removes exactly the candidates a brute force says it 
                       doctest::Approx(feasible[i].max_power_w / 1e-3).epsilon(1e-9));
             }
         }
+        REQUIRE(found.removed.size() == 4);  // one count per constraint, whatever removed nothing
         for (const auto& removed : found.removed) {
-            const std::string& flag = removed.first;
+            const rtline::Input flag = removed.first;
             const std::size_t n = removed.second;
-            CAPTURE(flag);
+            CAPTURE(rtline::input_key(flag));
             CHECK(n == (flag == c.flag ? values.size() - feasible.size() : 0u));
         }
     }
@@ -635,13 +636,14 @@ TEST_CASE("when nothing meets the constraints the search is empty and says which
     const StandardSearch found = search_standard(spec, grid, model);
     CHECK(found.best.empty());
     CHECK(found.examined == values.size());
+    REQUIRE(found.removed.size() == 4);  // one count per constraint, whatever removed nothing
     for (const auto& removed : found.removed) {
-        const std::string& flag = removed.first;
+        const rtline::Input flag = removed.first;
         const std::size_t n = removed.second;
-        CAPTURE(flag);
-        if (flag == "--min-span") CHECK(n == fail_span);
-        if (flag == "--max-power") CHECK(n == fail_power);
-        if (flag == "--min-sensitivity" || flag == "--max-self-heating") CHECK(n == 0u);
+        CAPTURE(rtline::input_key(flag));
+        if (flag == rtline::Input::min_span) CHECK(n == fail_span);
+        if (flag == rtline::Input::max_power) CHECK(n == fail_power);
+        if (flag == rtline::Input::min_sensitivity || flag == rtline::Input::max_self_heating) CHECK(n == 0u);
     }
     CHECK(fail_span > fail_power);  // so the span limit is the one to name
 }

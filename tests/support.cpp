@@ -1,5 +1,8 @@
 #include "support.hpp"
 
+#include <algorithm>
+#include <cmath>
+
 #include <doctest/doctest.h>
 #include <sys/wait.h>
 #include <unistd.h>
@@ -11,6 +14,9 @@
 #include <fstream>
 #include <iterator>
 #include <sstream>
+
+#include "rtline/thermistor.hpp"
+#include "rtline/units.hpp"
 
 namespace rtline::test {
 
@@ -88,6 +94,30 @@ nlohmann::json python_ref(const std::string& script, const nlohmann::json& input
 
 bool have_program(const std::string& name) {
     return run_shell("command -v " + quote(name) + " >/dev/null 2>&1").code == 0;
+}
+
+std::vector<std::string> check_args(const std::vector<std::string>& more) {
+    std::vector<std::string> a{"check", "--r25", "10k", "--beta", "3950"};
+    a.insert(a.end(), more.begin(), more.end());
+    return a;
+}
+
+std::string num(double v) {
+    std::ostringstream s;
+    s.precision(17);
+    s << v;
+    return s.str();
+}
+
+std::vector<double> thermistor_resistances() {
+    const rtline::Thermistor t(rtline::BetaModel{10e3, rtline::k25CelsiusK, 3950.0});
+    std::vector<double> r;
+    for (const double t_c : {-30.0, 0.0, 25.0, 60.0, 105.0}) r.push_back(t.resistance(rtline::celsius_to_kelvin(t_c)));
+    return r;
+}
+
+bool close(double got, double want, double scale) {
+    return std::abs(got - want) <= 1e-12 * std::max(std::abs(want), scale);
 }
 
 }  // namespace rtline::test

@@ -27,6 +27,22 @@ nlohmann::json python_ref(const std::string& script, const nlohmann::json& input
 // True when a Debian-packaged reference tool is on the machine (setup.sh installs them).
 bool have_program(const std::string& name);
 
+// ngspice netlist helpers shared by the circuit and front-end checks against ngspice.
+// A number as a netlist writes it: 17 significant figures, enough to round-trip a double.
+std::string num(double v);
+// The thermistor resistances the ngspice cases evaluate: beta model, R25 = 10 kohm, B = 3950 K (our
+// own plausible part) at -30, 0, 25, 60 and 105 degC.
+std::vector<double> thermistor_resistances();
+// Agreement with ngspice to 1e-12 relative: ngspice solves the linear nodal equations of a resistive
+// network in double precision in one Newton step (its convergence tolerances never come into play) and
+// prints 18 figures; the two agree to better than 1e-14 (measured), so 1e-12 leaves room for LU
+// rounding only. A bridge's output is a difference of nearly equal node voltages, so the comparison
+// is relative to the larger of the value and the drive's scale `scale`.
+bool close(double got, double want, double scale);
+
+// `rtline check` for our own thermistor (beta model, R25 = 10 kohm, B = 3950 K) with `more` after it.
+std::vector<std::string> check_args(const std::vector<std::string>& more);
+
 // A fresh temporary file path (not created), removed when the object dies.
 class TempPath {
 public:

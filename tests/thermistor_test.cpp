@@ -177,15 +177,17 @@ TEST_CASE("the beta model written as Steinhart-Hart gives the same resistance an
 
 TEST_CASE("check_span rejects a span outside the table's points and accepts one inside") {
     const Thermistor th{TableModel(points_from(kShSets[0], {0, 10, 20, 30, 40, 50}))};
-    CHECK_NOTHROW(th.check_span(Span{273.15, 323.15}, "--span"));  // 0:50, the table's own ends
-    CHECK_NOTHROW(th.check_span(Span{283.15, 303.15}, "--span"));
-    CHECK_THROWS_AS(th.check_span(Span{263.15, 293.15}, "--span"), InputError);  // -10:20
-    CHECK_THROWS_AS(th.check_span(Span{293.15, 333.15}, "--span"), InputError);  // 20:60
+    CHECK_NOTHROW(th.check_span(Span{273.15, 323.15}, rtline::Input::span));  // 0:50, the table's own ends
+    CHECK_NOTHROW(th.check_span(Span{283.15, 303.15}, rtline::Input::span));
+    CHECK_THROWS_AS(th.check_span(Span{263.15, 293.15}, rtline::Input::span), InputError);  // -10:20
+    CHECK_THROWS_AS(th.check_span(Span{293.15, 333.15}, rtline::Input::span), InputError);  // 20:60
     try {
-        th.check_span(Span{263.15, 293.15}, "--span");
+        th.check_span(Span{263.15, 293.15}, rtline::Input::span);
+        FAIL("a span outside the table was accepted");
     } catch (const InputError& e) {
+        CHECK(e.input() == rtline::Input::span);
         CHECK(std::string(e.what()) ==
-              "--span '-10:20': outside the R-T table, which covers 0 to 50 \xC2\xB0"
+              "the span '-10:20': outside the R-T table, which covers 0 to 50 \xC2\xB0"
               "C");
     }
 }
@@ -196,18 +198,18 @@ TEST_CASE("check_span rejects Steinhart-Hart coefficients that are not monotonic
     // 1/T = 1e-3 + 2.4e-4·8.94 − 1e-6·8.94³ = 1e-3 + 2.146e-3 − 0.715e-3 = 2.431e-3 K⁻¹ (T = 411 K,
     // 138 °C): colder than that the coefficients give no resistance on it.
     const Thermistor bad(SteinhartHart{1.0e-3, 2.4e-4, -1.0e-6});
-    CHECK_THROWS_AS(bad.check_span(Span{243.15, 278.15}, "--span"), InputError);  // -30:5
+    CHECK_THROWS_AS(bad.check_span(Span{243.15, 278.15}, rtline::Input::span), InputError);  // -30:5
     // A negative B with C > 0 is not monotone near L = 0 (B + 3C·0 < 0; turning point at
     // L² = 1e-5/3e-6, |L| = 1.83): a span whose ln R crosses zero (0:100 °C) is rejected.
     const Thermistor negative_b(SteinhartHart{3.0e-3, -1.0e-5, 1.0e-6});
-    CHECK_THROWS_AS(negative_b.check_span(Span{273.15, 373.15}, "--span"), InputError);
+    CHECK_THROWS_AS(negative_b.check_span(Span{273.15, 373.15}, rtline::Input::span), InputError);
     // Where ln R stays beyond that turning point the same coefficients are monotone: 0:40 °C has
     // L from about 8.7 down to 6.0 (1e-6·L³ − 1e-5·L = 1/T − 3e-3 solved by hand), past 1.83.
-    CHECK_NOTHROW(negative_b.check_span(Span{273.15, 313.15}, "--span"));
+    CHECK_NOTHROW(negative_b.check_span(Span{273.15, 313.15}, rtline::Input::span));
     const double r20 = negative_b.resistance(293.15);
     CHECK(negative_b.temperature(r20) == doctest::Approx(293.15).epsilon(1e-12));
     // Our ordinary sets pass over the whole -55 … 150 °C.
-    for (const SteinhartHart& m : kShSets) CHECK_NOTHROW(Thermistor(m).check_span(Span{218.15, 423.15}, "--span"));
+    for (const SteinhartHart& m : kShSets) CHECK_NOTHROW(Thermistor(m).check_span(Span{218.15, 423.15}, rtline::Input::span));
 }
 
 TEST_CASE("the table model agrees with scipy's PchipInterpolator on (1/T, ln R) between the nodes") {

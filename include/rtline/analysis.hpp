@@ -43,7 +43,7 @@ struct Analysis {
 };
 
 // Analyses `circuit` over `grid` against the reference line `kind`. dissipation_w_per_k > 0 gives the
-// self-heating; 0 leaves it unknown. Throws InputError ("--circuit") when the output does not change
+// self-heating; 0 leaves it unknown. Throws InputError (Input::topology) when the output does not change
 // over the span (a zero full-scale output, or one below 1e-12 of the output itself: rounding noise).
 [[nodiscard]] Analysis analyze(const Grid& grid, const Thermistor& model, const Circuit& circuit, LineKind kind,
                                double dissipation_w_per_k);

@@ -110,7 +110,7 @@ struct BudgetSpec {
     unsigned threads = 0;  // 0 = every core; the result does not depend on it
 };
 
-// Checks the spec against the circuit it will budget; throws InputError naming the flag.
+// Checks the spec against the circuit it will budget; throws InputError naming the input (rtline::Input).
 void validate(const BudgetSpec& spec, const Circuit& circuit);
 
 // The unit of the reading the converter sees: "V/V", "V" or "ohm".
@@ -202,7 +202,28 @@ struct Budget {
 // R0·(1 + dr)·exp(B·(1 + db)·(1/T − 1/T0)).
 [[nodiscard]] double perturbed_resistance(const Thermistor& model, double t_k, double dr, double db);
 
-// The T0 at which --r25-tol applies: the beta model's t0, else 25 °C (298.15 K).
+// The T0 at which the R0 tolerance applies: the beta model's t0, else 25 °C (298.15 K).
 [[nodiscard]] double tolerance_reference_k(const Thermistor& model);
+
+}  // namespace rtline
+
+namespace rtline {
+
+// How the converter reads the circuit: against the drive itself (ratiometric), against a fixed
+// reference of `volts`, or, when unstated, as the drive implies.
+struct ConverterReference {
+    enum class Kind { unstated, excitation, fixed } kind = Kind::unstated;
+    double volts = 0.0;  // for fixed
+};
+
+// Sets spec.ratiometric and spec.adc.full_scale for `circuit` read against `ref`. Unstated, a
+// ratiometric drive is read ratiometrically (full scale 1 V/V) and a voltage drive against its own
+// voltage; a current drive needs a stated reference once there is a converter (spec.adc.bits > 0).
+// A fixed reference must be a positive voltage and needs a drive. Throws InputError (Input::reference).
+void set_converter_reference(BudgetSpec& spec, const Circuit& circuit, const ConverterReference& ref);
+
+// The drive's tolerance when none is stated: 1 % when the reading is in volts (a drive read against a
+// fixed reference), else 0 (a ratiometric reading cancels it). Call after set_converter_reference.
+[[nodiscard]] double default_excitation_tolerance(const BudgetSpec& spec, const Circuit& circuit);
 
 }  // namespace rtline

@@ -26,7 +26,7 @@ struct Tolerances;  // budget.hpp
 
 inline constexpr int kMaxAdcBits = 24;                  // wider converters are rare and 2^24 codes is plenty
 inline constexpr std::size_t kMaxTableEntries = 65536;  // a larger table is no longer a correction table
-inline constexpr std::size_t kMaxSearchEntries = 1024;  // --max-error looks no further than this
+inline constexpr std::size_t kMaxSearchEntries = 1024;  // a search for the fewest entries meeting an error looks no further
 inline constexpr int kMaxDegree = 12;                   // higher degrees fit rounding noise, not the curve
 
 // Every code of the span with its exact temperature.
@@ -46,8 +46,8 @@ struct CodeMap {
 // (channel_resistance) → T (the model), within [span.lo_k, span.hi_k]. The span's codes are those
 // whose ratio lies between the channel's ratios at the span's ends; the rail codes 0 and 2^N − 1 are
 // never readings (a converter at its rail says nothing of how far past it the input is). Requires
-// validate(channel) to pass and a model that covers the span. Throws InputError ("--adc-bits") when
-// adc_bits is not 1..kMaxAdcBits or the span covers fewer codes than the grid rule's kMinLinearityPoints, and ("range") when the
+// validate(channel) to pass and a model that covers the span. Throws InputError (Input::adc_bits) when
+// adc_bits is not 1..kMaxAdcBits or the span covers fewer codes than the grid rule's kMinLinearityPoints, and (Input::gain with an amplifier, else Input::current) when the
 // converter input at a span end lies outside 0 … 1 of the reference (that part of the span would read
 // as a rail).
 [[nodiscard]] CodeMap map_codes(const Thermistor& model, const Channel& channel, const Span& span, int adc_bits,
@@ -77,7 +77,7 @@ struct LookupTable {
     [[nodiscard]] double interpolate(std::int64_t code) const;
 };
 
-// A table of `entries` breakpoints. Throws InputError ("--entries") unless 2 ≤ entries ≤
+// A table of `entries` breakpoints. Throws InputError (Input::entries) unless 2 ≤ entries ≤
 // min(map.size(), kMaxTableEntries). Spacing::error minimizes the largest segment error: bisection on
 // a target error, each step placing breakpoints greedily as far apart as the target allows.
 // Spacing::power_of_two takes the smallest shift whose table has at most `entries` breakpoints.
@@ -110,7 +110,7 @@ struct FixedTable {
 
 // The table in fixed point with its shipped error over every code. arithmetic_bits is 32 when every
 // segment's largest |num| + den/2 (at the segment's far end: |t[i+1] − t[i]|·den + den/2) is at most
-// 2^31 − 1, which proves the 32-bit products exact at every code. Throws InputError ("--unit") unless
+// 2^31 − 1, which proves the 32-bit products exact at every code. Throws InputError (Input::unit) unless
 // scale_per_c is 10 or 100.
 [[nodiscard]] FixedTable to_fixed(const LookupTable& table, const CodeMap& map, int scale_per_c);
 
@@ -212,7 +212,7 @@ struct Polynomial {
 // the normal equations in the Legendre basis with Eigen's LDLT: the basis is nearly orthogonal on
 // evenly spaced points (condition number about 25 at degree 12 for 30 codes or more, against about
 // 3e8 for powers of x). Minimax runs the Remez exchange on the codes themselves. Either result is
-// converted to powers of x. Throws InputError ("--degree") unless 1 ≤ degree ≤ kMaxDegree
+// converted to powers of x. Throws InputError (Input::degree) unless 1 ≤ degree ≤ kMaxDegree
 // and the span has at least degree + 2 codes.
 [[nodiscard]] Polynomial fit_polynomial(const CodeMap& map, int degree, FitKind fit);
 

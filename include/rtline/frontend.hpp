@@ -35,7 +35,7 @@ void validate_front_end(const Circuit& c, const std::optional<Amplifier>& amp);
 // output to h·fs and the highest to (1 − h)·fs, positive gain (the output keeps its sense), with the
 // resulting converter input at the span's low and high ends. fs is the converter's full scale in the
 // output unit (1 when ratiometric), h the headroom at each end. Requires fs > 0, 0 ≤ h < 0.5, and
-// outputs that change over the grid; throws InputError naming "--headroom" or "--auto-range".
+// outputs that change over the grid; throws InputError naming Input::headroom or Input::output_range.
 struct RangeFit {
     Amplifier amplifier;
     double at_lo = 0.0;  // converter input at the span's low end
@@ -61,8 +61,8 @@ struct Channel {
 // (divider-high, divider-low, shunt-divider) read ratiometrically, a bridge or shunt-bridge read
 // ratiometrically through an amplifier, or a bare or shunt thermistor driven by a current and read
 // against a reference in volts; an amplifier is optional except for bridges. Throws InputError naming
-// the quantity: "circuit", "excitation", "current", "amplifier" or "reference" (and the amplifier's
-// own numbers as validate_front_end does).
+// the input: Input::topology, excitation, current, gain (a bridge without an amplifier) or reference
+// (and the amplifier's own numbers as validate_front_end does).
 void validate(const Channel& ch);
 
 // The converter's input as a fraction of its reference for thermistor resistance r_t (ohm; 0 and
@@ -115,8 +115,8 @@ struct Sampling {
     double capacitance_f = 0.0;                    // sampling capacitor, F (> 0)
     double acquisition_s = 0.0;                    // acquisition time, s (> 0)
 };
-// Checks bits, capacitance and time; throws InputError naming "--adc-bits", "--sample-cap" or
-// "--acquisition".
+// Checks bits, capacitance and time; throws InputError naming Input::adc_bits, Input::sample_cap or
+// Input::acquisition.
 void validate(const Sampling& s);
 
 inline constexpr double kSettlingLimitLsb = 0.5;  // a sample within ½ LSB has settled (common practice)

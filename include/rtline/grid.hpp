@@ -24,10 +24,10 @@ struct Grid {
 // Temperatures lo, lo+step, … and hi itself (a last interval shorter than step when step does not
 // divide the span). Requires step > 0 and at most kMaxGridPoints points; the model must cover the span
 // (Thermistor::check_span) with a finite temperature coefficient at every point. Throws InputError
-// naming "--step" or "--span".
+// naming Input::step or Input::span.
 [[nodiscard]] Grid make_grid(const Thermistor& model, const Span& span, double step_k);
 
-// Throws InputError naming "--step" when `span` at `step_k` gives fewer than kMinLinearityPoints points,
+// Throws InputError naming Input::step when `span` at `step_k` gives fewer than kMinLinearityPoints points,
 // with the largest step that would do.
 void check_linearity_points(const Span& span, double step_k);
 

@@ -10,6 +10,7 @@
 #include <string>
 #include <vector>
 
+#include "rtline/error.hpp"
 #include "rtline/analysis.hpp"
 #include "rtline/eseries.hpp"
 
@@ -95,13 +96,14 @@ struct ClosedForms {
 // values and says so.
 [[nodiscard]] ClosedForms closed_forms(const Thermistor& model, const Span& span, const Circuit& base);
 
-// Which constraint a candidate fails first, or empty when it meets them all.
-[[nodiscard]] std::string failed_constraint(const SizingSpec& spec, const Candidate& c);
+// Which constraint a candidate fails first (Input::min_span, min_sensitivity, max_power or
+// max_self_heating), or empty when it meets them all.
+[[nodiscard]] std::optional<Input> failed_constraint(const SizingSpec& spec, const Candidate& c);
 
 struct StandardSearch {
     std::vector<Candidate> best;                               // at most spec.top, best first
     std::size_t examined = 0;                                  // combinations evaluated
-    std::vector<std::pair<std::string, std::size_t>> removed;  // constraint flag → candidates it removed
+    std::vector<std::pair<Input, std::size_t>> removed;        // constraint → candidates it removed
 };
 
 // Every combination of series values in range for the free resistors, ranked by the objective;
@@ -114,5 +116,29 @@ struct StandardSearch {
 // For a one-resistor topology: the series values on the Pareto front of nonlinearity (lower is better)
 // against output span (higher is better), by descending span. Constraints apply.
 [[nodiscard]] std::vector<Candidate> tradeoff(const SizingSpec& spec, const Grid& grid, const Thermistor& model);
+
+}  // namespace rtline
+
+namespace rtline {
+
+// Why sizing `c` under its drive would be meaningless, or empty: a current source forces its current
+// through a divider, so the output is I·rs (divider-high, shunt-divider) or I·R_T (divider-low).
+[[nodiscard]] std::string drive_problem(const Circuit& c);
+
+// The InfeasibleError for a standard search `s` that found nothing: names the constraint that removed
+// the most combinations (as "{key}", see error.hpp) and what the others removed, or, when none removed
+// any, says the searched values are out of reach of the thermistor. `what` qualifies the combination
+// ("for any topology"), or is empty.
+[[nodiscard]] InfeasibleError infeasible(const SizingSpec& spec, const StandardSearch& s, const std::string& what);
+
+// Every topology with a resistor to size, each searched for its best standard-value design under the
+// drive of spec.base (its topology is ignored), ranked most linear first.
+struct Comparison {
+    std::vector<Candidate> ranked;                            // each topology's best, most linear first
+    std::vector<std::pair<Topology, std::string>> skipped;    // left out, and why (inputs as "{key}")
+    StandardSearch total;                                     // examined and removed, over all searched
+};
+// Throws infeasible(spec, total, "for any topology") when no topology has a design.
+[[nodiscard]] Comparison compare_topologies(const SizingSpec& spec, const Grid& grid, const Thermistor& model);
 
 }  // namespace rtline

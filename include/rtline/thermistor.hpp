@@ -2,6 +2,8 @@
 // monotonically. Each gives R(T), T(R) and alpha(T) = (1/R)·dR/dT. Temperatures in kelvin, R in ohm.
 #pragma once
 
+#include "rtline/error.hpp"
+
 #include <string>
 #include <variant>
 #include <vector>
@@ -43,7 +45,8 @@ struct SteinhartHart {
 // Monotone piecewise-cubic (Fritsch–Carlson) interpolation of ln R against 1/T through the points.
 class TableModel {
 public:
-    // Requires at least two points, strictly decreasing R with rising T (validate_points checks).
+    // Requires at least two points, temperatures within kMinPointK..kMaxPointK and each once, and R
+    // falling strictly as T rises; throws InputError (Input::points) otherwise, with the reason.
     explicit TableModel(std::vector<RtPoint> points);
 
     [[nodiscard]] double resistance(double t_k) const;
@@ -74,8 +77,10 @@ public:
     [[nodiscard]] double local_beta(double t_k) const;
     [[nodiscard]] std::string kind() const;  // "beta", "steinhart-hart" or "table"
 
-    // Throws InputError (field `field`) if the model cannot describe the span: outside a table's
+    // Throws InputError (naming `input`) if the model cannot describe the span: outside a table's
     // points, Steinhart–Hart coefficients not monotonic there, or resistances that overflow a double.
+    void check_span(const Span& span, Input input = Input::span) const;
+    // The same, naming a field of the caller's own (a temperature the caller reads under its own name).
     void check_span(const Span& span, const std::string& field) const;
 
     [[nodiscard]] const std::variant<BetaModel, SteinhartHart, TableModel>& model() const { return model_; }

@@ -169,32 +169,23 @@ BudgetSpec build_spec(const BudgetOptions& o, const Circuit& circuit) {
     s.distribution = parse_distribution(o.distribution, "--distribution");
     s.reading = parse_reading(o.reading, "--reading");
 
-    const Drive drive = circuit.excitation.drive;
-    if (o.adc_ref.empty()) {
-        s.ratiometric = drive == Drive::ratiometric;
-        s.adc.full_scale = drive == Drive::voltage ? circuit.excitation.value : 1.0;
-    } else if (o.adc_ref == "excitation") {
-        s.ratiometric = true;
-    } else {
-        s.ratiometric = false;
-        s.adc.full_scale = parse_quantity(o.adc_ref, "--adc-ref", "V");
-        if (!(s.adc.full_scale > 0.0)) {
-            throw InputError("--adc-ref", o.adc_ref, "give excitation (ratiometric) or a positive voltage");
-        }
-        if (drive == Drive::ratiometric) {
-            throw InputError("--adc-ref", o.adc_ref,
-                             "a fixed reference needs a drive; give --excitation V or --current A");
-        }
-    }
-    const bool volts = drive != Drive::ratiometric && !s.ratiometric;
-    s.tolerance.excitation =
-        o.excitation_tol.empty() ? (volts ? 0.01 : 0.0) : parse_percent(o.excitation_tol, "--excitation-tol");
     if (!o.adc_bits.empty()) {
         s.adc.bits = static_cast<int>(parse_count(o.adc_bits, "--adc-bits", 1, 24, "a converter has 1 to 24 bits"));
-        if (drive == Drive::current && o.adc_ref.empty()) {
-            throw InputError("--adc-ref", "", "a current-driven circuit needs the converter's reference in volts");
-        }
     }
+    ConverterReference ref;
+    if (o.adc_ref == "excitation") {
+        ref.kind = ConverterReference::Kind::excitation;
+    } else if (!o.adc_ref.empty()) {
+        ref.kind = ConverterReference::Kind::fixed;
+        ref.volts = parse_quantity(o.adc_ref, "--adc-ref", "V");
+    }
+    try {
+        set_converter_reference(s, circuit, ref);
+    } catch (const InputError& e) {
+        throw e.with_value(o.adc_ref);  // quoted as typed
+    }
+    s.tolerance.excitation = o.excitation_tol.empty() ? default_excitation_tolerance(s, circuit)
+                                                      : parse_percent(o.excitation_tol, "--excitation-tol");
     if (!o.adc_error.empty()) {
         std::string e = o.adc_error;
         if (e.size() > 3 && e.compare(e.size() - 3, 3, "LSB") == 0) e.resize(e.size() - 3);

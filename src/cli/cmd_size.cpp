@@ -183,43 +183,6 @@ Table candidate_table(const std::vector<Candidate>& cs, const std::string& unit,
     return t;
 }
 
-[[noreturn]] void infeasible(const SizingSpec& spec, const StandardSearch& s, const std::string& what) {
-    std::pair<std::string, std::size_t> worst{"", 0};
-    std::string others;
-    for (const auto& r : s.removed) {
-        if (r.second > worst.second) worst = r;
-    }
-    for (const auto& r : s.removed) {
-        if (r.second > 0 && r.first != worst.first) others += "; " + r.first + " removed " + std::to_string(r.second);
-    }
-    std::string msg = "no " + std::string(series_name(spec.series)) + " combination " +
-                      (what.empty() ? "" : what + " ") + "meets the constraints";
-    if (worst.second == 0 && what.empty()) {
-        // One topology, and no constraint removed any: every combination left the output unchanged.
-        const std::vector<double> values = series_values(spec.series, spec.range_lo_ohm, spec.range_hi_ohm);
-        msg = "no " + std::string(series_name(spec.series)) +
-              " combination gives an output that changes over the span; the values searched run from " +
-              format_resistance(values.front()) + " to " + format_resistance(values.back()) +
-              " ohm, out of reach of the thermistor";
-    } else {
-        msg += ": " + worst.first + " removed " + std::to_string(worst.second) + " of " + std::to_string(s.examined) +
-               " combinations" + others;
-    }
-    throw InfeasibleError(msg);
-}
-
-// Why a current drive makes sizing a divider meaningless, or empty: the source forces its current
-// through the divider, so the output is I·rs (divider-high, shunt-divider) or I·R_T (divider-low).
-std::string current_drive_problem(const Circuit& c) {
-    if (c.excitation.drive != Drive::current) return "";
-    switch (c.topology) {
-        case Topology::divider_high:
-        case Topology::shunt_divider: return "a current drive makes its output I*rs, independent of the thermistor";
-        case Topology::divider_low: return "a current drive makes its output I*R_T, independent of rs";
-        default: return "";
-    }
-}
-
 // The warning (on stderr, and in JSON's "warnings") when the chosen design's span is small next to the excitation.
 std::string span_warning(const Candidate& c) {
     const Excitation& e = c.circuit.excitation;
@@ -284,7 +247,7 @@ std::string size_svg(const SizeCommand& o, const Setup& s, const Candidate& cont
     p.grid = &s.grid;
     p.model = &s.model;
     p.continuous = continuous;
-    p.continuous_fails = failed_constraint(s.spec, continuous);
+    if (const auto fails = failed_constraint(s.spec, continuous)) p.continuous_fails = flag_name(*fails);
     p.listed = listed;
     p.listed_label = label;
     std::tie(p.lo_ohm, p.hi_ohm) = o.range == "1:10M" ? size_window(s.spec, continuous, listed)
@@ -293,52 +256,14 @@ std::string size_svg(const SizeCommand& o, const Setup& s, const Candidate& cont
 }
 
 std::string run_compare(const SizeCommand& o, Setup& s, Format format) {
-    std::vector<Candidate> rows;
-    std::vector<std::string> skipped;
-    StandardSearch total;  // what every topology's search examined and removed, for the infeasible message
     const Circuit drive = build_drive(o.circuit, "divider-low");
-    for (const Topology t : all_topologies()) {
-        if (t == Topology::bare) continue;
-        s.spec.base = drive;
-        s.spec.base.topology = t;
-        if (gives_resistance(t) && drive.excitation.drive == Drive::voltage) {
-            skipped.push_back(std::string(topology_name(t)) + " (its output is a resistance; needs --current)");
-            continue;
-        }
-        const Constraints& k = s.spec.constraints;
-        if (output_unit(s.spec.base) != output_unit(drive) && (k.min_span > 0.0 || k.min_sensitivity > 0.0)) {
-            // --min-span and --min-sensitivity are in the other rows' unit (V/V); this row's is ohm.
-            skipped.push_back(std::string(topology_name(t)) + " (its output is in " + output_unit(s.spec.base) +
-                              ", not the " + output_unit(drive) + " of --min-span and --min-sensitivity)");
-            continue;
-        }
-        if (const std::string why = current_drive_problem(s.spec.base); !why.empty()) {
-            skipped.push_back(std::string(topology_name(t)) + " (" + why + ")");
-            continue;
-        }
-        SizingSpec one = s.spec;
-        one.top = 1;
-        const StandardSearch found = search_standard(one, s.grid, s.model);
-        total.examined += found.examined;
-        for (const auto& removed : found.removed) {
-            auto it = std::find_if(total.removed.begin(), total.removed.end(),
-                                   [&](const auto& r) { return r.first == removed.first; });
-            if (it == total.removed.end()) {
-                total.removed.push_back(removed);
-            } else {
-                it->second += removed.second;
-            }
-        }
-        if (found.best.empty()) {
-            skipped.push_back(std::string(topology_name(t)) + " (no combination meets the constraints)");
-            continue;
-        }
-        rows.push_back(found.best.front());
+    s.spec.base = drive;
+    const Comparison cmp = compare_topologies(s.spec, s.grid, s.model);
+    const std::vector<Candidate>& rows = cmp.ranked;
+    std::vector<std::string> skipped;
+    for (const auto& [t, why] : cmp.skipped) {
+        skipped.push_back(std::string(topology_name(t)) + " (" + render_inputs(why, flag_name) + ")");
     }
-    if (rows.empty()) infeasible(s.spec, total, "for any topology");
-    std::stable_sort(rows.begin(), rows.end(), [](const Candidate& a, const Candidate& b) {
-        return a.max_nonlinearity_pct_fsd < b.max_nonlinearity_pct_fsd;
-    });
     for (const Candidate& c : rows) {
         if (const std::string w = span_warning(c); !w.empty())
             warn(std::string(topology_name(c.circuit.topology)) + ": " + w);
@@ -451,7 +376,7 @@ void run_size(const SizeCommand& o) {
         return;
     }
     s.spec.base = build_drive(o.circuit, o.circuit.circuit);
-    if (const std::string why = current_drive_problem(s.spec.base); !why.empty()) {
+    if (const std::string why = drive_problem(s.spec.base); !why.empty()) {
         throw InputError("--current", o.circuit.current,
                          why + "; size the " + o.circuit.circuit + " with --excitation, or choose shunt or a bridge");
     }
@@ -470,7 +395,7 @@ void run_size(const SizeCommand& o) {
                              "divider-low, shunt, bridge)");
         }
         const std::vector<Candidate> front = tradeoff(s.spec, s.grid, s.model);
-        if (front.empty()) infeasible(s.spec, search_standard(s.spec, s.grid, s.model), "");  // for its counts
+        if (front.empty()) throw infeasible(s.spec, search_standard(s.spec, s.grid, s.model), "");  // for its counts
         if (format == Format::json) {
             Json doc = header_json(s, "size");
             doc["circuit"] = circuit_json(s.spec.base);
@@ -512,8 +437,9 @@ void run_size(const SizeCommand& o) {
     const bool one = names.size() == 1;
     const ClosedForms cf = closed_forms(s.model, s.span, s.spec.base);
     const StandardSearch found = search_standard(s.spec, s.grid, s.model);
-    if (found.best.empty()) infeasible(s.spec, found, "");
-    const std::string cont_fails = failed_constraint(s.spec, continuous);
+    if (found.best.empty()) throw infeasible(s.spec, found, "");
+    const auto fails = failed_constraint(s.spec, continuous);
+    const std::string cont_fails = fails ? flag_name(*fails) : std::string();
     if (const std::string w = span_warning(found.best.front()); !w.empty()) warn(w);
 
     if (format == Format::json) {

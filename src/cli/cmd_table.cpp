@@ -426,19 +426,14 @@ Margin fault_margin(const std::string& text, const Result& r) {
     return {codes, codes, "--fault-margin"};
 }
 
-// The core names the quantity it refuses; the table names the flag, with the text as typed.
-[[noreturn]] void as_flags(const InputError& e, const TableCommand& o) {
-    const std::string& f = e.field();
-    if (f == "circuit") throw InputError("--circuit", o.circuit.circuit, e.why() + " (give --current and --adc-ref)");
-    if (f == "excitation") throw InputError("--excitation", o.circuit.excitation, e.why());
-    if (f == "current") throw InputError("--current", o.circuit.current, e.why());
-    if (f == "amplifier") throw InputError("--gain", "", e.why() + " (give --gain and --offset, or --auto-range)");
-    if (f == "reference") throw InputError("--adc-ref", o.front.adc_ref, e.why() + " (give --adc-ref V)");
-    if (f == "range") {
-        const bool amp = !o.front.gain.empty() || o.front.auto_range;
-        throw InputError(amp ? "--gain" : "--current", amp ? o.front.gain : o.circuit.current,
-                         e.why() + (amp ? " (lower the gain, or use --auto-range)" : " (lower the current)"));
-    }
+// The core quotes its own numbers; the table quotes the text as the user typed it.
+[[noreturn]] void as_typed(const InputError& e, const TableCommand& o) {
+    const std::optional<Input> in = e.input();
+    if (in == Input::topology) throw e.with_value(o.circuit.circuit);
+    if (in == Input::excitation) throw e.with_value(o.circuit.excitation);
+    if (in == Input::current) throw e.with_value(o.circuit.current);
+    if (in == Input::reference) throw e.with_value(o.front.adc_ref);
+    if (in == Input::gain && !e.value().empty() && !o.front.gain.empty()) throw e.with_value(o.front.gain);
     throw e;
 }
 
@@ -454,7 +449,7 @@ void refuse_unreadable(const TableCommand& o) {
     try {
         validate(probe);
     } catch (const InputError& e) {
-        as_flags(e, o);
+        as_typed(e, o);
     }
 }
 
@@ -526,11 +521,8 @@ void run_table(const TableCommand& o) {
     try {
         r.map = map_codes(r.thermistor, r.channel, r.span, bits, transfer);
     } catch (const InputError& e) {
-        if (e.field() == "--span") {
-            throw InputError("--span", o.span.span, e.why());  // quoted as typed, not as kelvin turned back into °C
-        }
-        if (e.field().rfind("--", 0) == 0) throw;
-        as_flags(e, o);
+        if (e.input() == Input::span) throw e.with_value(o.span.span);  // as typed, not kelvin turned back into °C
+        as_typed(e, o);
     }
     // Without --max-error the table meets one unit or half the widest step between adjacent codes (the
     // converter's own resolution there), the larger: our own choice, so the table adds no more than

@@ -241,8 +241,8 @@ Grid build_grid(const Thermistor& model, const Span& span, const SpanOptions& o,
         if (judge_linearity) check_linearity_points(span, step);
         return g;
     } catch (const InputError& e) {
-        if (e.field() == "--span") throw InputError("--span", o.span, e.why());
-        if (e.field() == "--step") {
+        if (e.input() == Input::span) throw e.with_value(o.span);
+        if (e.input() == Input::step) {
             const auto [flag, text] = grid_size_culprit(o);
             throw InputError(flag, text, e.why());
         }

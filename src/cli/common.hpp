@@ -10,11 +10,16 @@
 #include "report.hpp"
 #include "rtline/analysis.hpp"
 #include "rtline/converter.hpp"
+#include "rtline/error.hpp"
 #include "rtline/grid.hpp"
 #include "rtline/plausibility.hpp"
 #include "rtline/thermistor.hpp"
 
 namespace rtline::cli {
+
+// The flag that sets a core input ("--step" for Input::step), and a core error in those terms.
+[[nodiscard]] std::string flag_name(Input input);
+[[nodiscard]] std::string message(const Error& e);
 
 // The caution every design command's help carries (see README).
 extern const char* const kSafetyNote;

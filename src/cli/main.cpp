@@ -117,10 +117,10 @@ int main(int argc, char** argv) {
         std::cerr << "rtline: " << e.what() << "\n";
         return 2;
     } catch (const rtline::InputError& e) {
-        std::cerr << "rtline: " << e.what() << "\n";
+        std::cerr << "rtline: " << rtline::cli::message(e) << "\n";
         return 2;
     } catch (const rtline::InfeasibleError& e) {
-        std::cerr << "rtline: " << e.what() << "\n";
+        std::cerr << "rtline: " << rtline::cli::message(e) << "\n";
         return 1;
     } catch (const std::exception& e) {
         std::cerr << "rtline: internal error: " << e.what() << "\n";

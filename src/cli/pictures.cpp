@@ -181,7 +181,7 @@ svg::Figure size_figure(const SizePicture& p) {
         std::vector<bool> ok;
         for (const double x : xs) {
             const Candidate c = evaluate(spec, *p.grid, *p.model, sized_circuit(spec, *p.model, {x}));
-            ok.push_back(failed_constraint(spec, c).empty());
+            ok.push_back(!failed_constraint(spec, c).has_value());
         }
         std::vector<double> meets(ys.size(), NAN);
         std::vector<double> fails(ys.size(), NAN);

@@ -1,5 +1,6 @@
 #include "spec.hpp"
 
+#include "common.hpp"
 #include "usage.hpp"
 
 #include <algorithm>
@@ -197,10 +198,10 @@ int run_batch(const std::string& command, const std::vector<std::string>& extra,
             result = {{"line", line_no}, {"error", e.what()}};
             code = std::max(code, 2);
         } catch (const InputError& e) {
-            result = {{"line", line_no}, {"error", e.what()}};
+            result = {{"line", line_no}, {"error", message(e)}};
             code = std::max(code, 2);
         } catch (const InfeasibleError& e) {
-            result = {{"line", line_no}, {"error", e.what()}, {"infeasible", true}};
+            result = {{"line", line_no}, {"error", message(e)}, {"infeasible", true}};
             if (code == 0) code = 1;
         } catch (const std::exception& e) {
             // A fault in one line must not lose the others' results: report it and go on.

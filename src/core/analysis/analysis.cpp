@@ -31,7 +31,7 @@ Analysis analyze(const Grid& grid, const Thermistor& model, const Circuit& circu
     // gives I·rs at every temperature, its ends differing by ~1e-16 of it): no full scale to divide by.
     const double level = std::max(std::abs(y.front()), std::abs(y.back()));
     if (!(fs > 1e-12 * level) || !std::isfinite(fs)) {
-        throw InputError("--circuit", std::string(topology_name(circuit.topology)),
+        throw InputError(Input::topology, std::string(topology_name(circuit.topology)),
                          "the output does not change over the span (zero full-scale output)");
     }
     Analysis a;

@@ -85,7 +85,7 @@ namespace {
 
 std::string pct(double fraction) { return describe(100.0 * fraction); }
 
-void check_tolerance(double t, const char* flag) {
+void check_tolerance(double t, Input flag) {
     if (!std::isfinite(t) || t < 0.0 || t >= 1.0) {
         throw InputError(flag, pct(t), "a tolerance must be at least 0 and below 100 (percent)");
     }
@@ -93,13 +93,13 @@ void check_tolerance(double t, const char* flag) {
 
 // A coefficient in 1/K, given in ppm/K; at most 0.1 %/K (1000 ppm/K) keeps every factor positive
 // over any board span a budget takes.
-void check_coefficient(double c, const char* flag) {
+void check_coefficient(double c, Input flag) {
     if (!std::isfinite(c) || c < 0.0 || c > 1e-3) {
         throw InputError(flag, describe(1e6 * c), "a temperature coefficient must be 0 to 1000 ppm/K");
     }
 }
 
-void check_range(double lo_k, double hi_k, const char* flag) {
+void check_range(double lo_k, double hi_k, Input flag) {
     if (!std::isfinite(lo_k) || !std::isfinite(hi_k) || lo_k > hi_k || lo_k < 173.15 || hi_k > 473.15) {
         throw InputError(flag, format_span(Span{lo_k, hi_k}), "give LO:HI in degC with LO <= HI, within -100:200");
     }
@@ -113,97 +113,97 @@ std::string reading_unit(const Circuit& circuit, const BudgetSpec& spec) {
 }
 
 void validate(const BudgetSpec& s, const Circuit& c) {
-    check_tolerance(s.tolerance.r25, "--r25-tol");
-    check_tolerance(s.tolerance.beta, "--beta-tol");
-    check_tolerance(s.tolerance.resistors, "--resistor-tol");
-    check_tolerance(s.tolerance.excitation, "--excitation-tol");
-    check_tolerance(s.tolerance.thermistor_drift, "--drift");
-    check_tolerance(s.tolerance.lead, "--lead-tol");
-    check_tolerance(s.tolerance.reference, "--ref-tol");
-    check_coefficient(s.tolerance.resistor_tc_per_k, "--resistor-tc");
-    check_coefficient(s.tolerance.reference_tc_per_k, "--ref-tc");
-    if (!s.board.sensed) check_range(s.board.lo_k, s.board.hi_k, "--board-temp");
-    check_range(s.cable_lo_k, s.cable_hi_k, "--cable-temp");
+    check_tolerance(s.tolerance.r25, Input::tol_r0);
+    check_tolerance(s.tolerance.beta, Input::tol_b);
+    check_tolerance(s.tolerance.resistors, Input::tol_resistors);
+    check_tolerance(s.tolerance.excitation, Input::tol_excitation);
+    check_tolerance(s.tolerance.thermistor_drift, Input::drift);
+    check_tolerance(s.tolerance.lead, Input::tol_lead);
+    check_tolerance(s.tolerance.reference, Input::tol_reference);
+    check_coefficient(s.tolerance.resistor_tc_per_k, Input::resistor_tc);
+    check_coefficient(s.tolerance.reference_tc_per_k, Input::reference_tc);
+    if (!s.board.sensed) check_range(s.board.lo_k, s.board.hi_k, Input::board_temperature);
+    check_range(s.cable_lo_k, s.cable_hi_k, Input::cable_temperature);
     if (!std::isfinite(s.tolerance.thermistor_dt_k) || s.tolerance.thermistor_dt_k < 0.0 ||
         s.tolerance.thermistor_dt_k > 5.0) {
-        throw InputError("--dt-tol", describe(s.tolerance.thermistor_dt_k), "give 0 to 5 K");
+        throw InputError(Input::tol_dt, describe(s.tolerance.thermistor_dt_k), "give 0 to 5 K");
     }
     if ((s.tolerance.lead > 0.0 || s.cable_lo_k != kCopperReferenceK || s.cable_hi_k != kCopperReferenceK) &&
         !(c.lead_ohm > 0.0)) {
-        throw InputError(s.tolerance.lead > 0.0 ? "--lead-tol" : "--cable-temp",
+        throw InputError(s.tolerance.lead > 0.0 ? Input::tol_lead : Input::cable_temperature,
                          s.tolerance.lead > 0.0 ? pct(s.tolerance.lead) : format_span(Span{s.cable_lo_k, s.cable_hi_k}),
-                         "applies to lead wires; give their loop resistance with --lead");
+                         "applies to lead wires; give their loop resistance with {lead}");
     }
     if (!s.lead_compensated && !(c.lead_ohm > 0.0)) {
-        throw InputError("--lead-compensation", "no", "applies to lead wires; give their loop resistance with --lead");
+        throw InputError(Input::lead_compensation, "no", "applies to lead wires; give their loop resistance with {lead}");
     }
     const bool converter_terms = s.adc.offset_lsb != 0.0 || s.adc.gain != 0.0 || s.adc.inl_lsb != 0.0;
     if (converter_terms && s.adc.bits == 0) {
-        throw InputError(s.adc.offset_lsb != 0.0 ? "--adc-offset"
-                         : s.adc.gain != 0.0     ? "--adc-gain"
-                                                 : "--adc-inl",
-                         "", "needs --adc-bits (a converter)");
+        throw InputError(s.adc.offset_lsb != 0.0 ? Input::adc_offset
+                         : s.adc.gain != 0.0     ? Input::adc_gain
+                                                 : Input::adc_inl,
+                         "", "needs {adc_bits} (a converter)");
     }
-    for (const auto& [v, flag] : {std::pair{s.adc.offset_lsb, "--adc-offset"}, std::pair{s.adc.inl_lsb, "--adc-inl"}}) {
+    for (const auto& [v, flag] : {std::pair{s.adc.offset_lsb, Input::adc_offset}, std::pair{s.adc.inl_lsb, Input::adc_inl}}) {
         if (!std::isfinite(v) || v < 0.0 || v > 1e6) throw InputError(flag, describe(v), "give 0 or more LSB");
     }
-    check_tolerance(s.adc.gain, "--adc-gain");
+    check_tolerance(s.adc.gain, Input::adc_gain);
     const Drive drive = c.excitation.drive;
     if (drive == Drive::ratiometric && !s.ratiometric) {
-        throw InputError("--adc-ref", describe(s.adc.full_scale) + " V",
-                         "a fixed reference needs a drive; give --excitation V or --current A");
+        throw InputError(Input::reference, describe(s.adc.full_scale) + " V",
+                         "a fixed reference needs a drive; give {excitation} V or {current} A");
     }
     if (drive == Drive::current && s.ratiometric) {
-        throw InputError("--adc-ref", "excitation",
+        throw InputError(Input::reference, "excitation",
                          "a current drive has no excitation voltage to be ratiometric to; give the reference in volts");
     }
     if (s.tolerance.excitation > 0.0 && !reads_volts(c, s)) {
-        throw InputError("--excitation-tol", pct(s.tolerance.excitation),
-                         "applies only to a reading in volts (a drive read against a fixed --adc-ref); "
+        throw InputError(Input::tol_excitation, pct(s.tolerance.excitation),
+                         "applies only to a reading in volts (a drive read against a fixed {reference}); "
                          "a ratiometric reading cancels the excitation");
     }
     const std::string unit = reading_unit(c, s);
     if (s.adc.bits < 0 || s.adc.bits > 24) {
-        throw InputError("--adc-bits", std::to_string(s.adc.bits), "a converter has 1 to 24 bits");
+        throw InputError(Input::adc_bits, std::to_string(s.adc.bits), "a converter has 1 to 24 bits");
     }
     if (!std::isfinite(s.adc.error_lsb) || s.adc.error_lsb < 0.0) {
-        throw InputError("--adc-error", describe(s.adc.error_lsb), "the converter error must be at least 0 LSB");
+        throw InputError(Input::adc_error, describe(s.adc.error_lsb), "the converter error must be at least 0 LSB");
     }
     if (s.adc.error_lsb > 0.0 && s.adc.bits == 0) {
-        throw InputError("--adc-error", describe(s.adc.error_lsb), "needs --adc-bits (an LSB needs a resolution)");
+        throw InputError(Input::adc_error, describe(s.adc.error_lsb), "needs {adc_bits} (an LSB needs a resolution)");
     }
     if (!std::isfinite(s.adc.full_scale) || s.adc.full_scale <= 0.0) {
-        throw InputError("--adc-ref", describe(s.adc.full_scale) + " V", "the reference must be a positive voltage");
+        throw InputError(Input::reference, describe(s.adc.full_scale) + " V", "the reference must be a positive voltage");
     }
     if (s.ratiometric && s.adc.full_scale != 1.0) {
-        throw InputError("--adc-ref", describe(s.adc.full_scale), "a ratiometric reading has a full scale of 1 V/V");
+        throw InputError(Input::reference, describe(s.adc.full_scale), "a ratiometric reading has a full scale of 1 V/V");
     }
     if (s.adc.bits > 0 && unit == "ohm") {
-        throw InputError("--adc-bits", std::to_string(s.adc.bits),
+        throw InputError(Input::adc_bits, std::to_string(s.adc.bits),
                          "the " + std::string(topology_name(c.topology)) +
-                             " circuit's output is a resistance; drive it with --current to read it in volts");
+                             " circuit's output is a resistance; drive it with {current} to read it in volts");
     }
     if (!std::isfinite(s.dissipation_w_per_k) || s.dissipation_w_per_k < 0.0) {
-        throw InputError("--dissipation", describe(1e3 * s.dissipation_w_per_k),
+        throw InputError(Input::dissipation, describe(1e3 * s.dissipation_w_per_k),
                          "the dissipation constant must be positive (mW/K)");
     }
     if (s.dissipation_w_per_k > 0.0 && drive == Drive::ratiometric) {
-        throw InputError("--dissipation", describe(1e3 * s.dissipation_w_per_k),
-                         "self-heating needs the real drive; give --excitation V (with --adc-ref excitation for a "
-                         "ratiometric reading) or --current A");
+        throw InputError(Input::dissipation, describe(1e3 * s.dissipation_w_per_k),
+                         "self-heating needs the real drive; give {excitation} V (with {reference} excitation for a "
+                         "ratiometric reading) or {current} A");
     }
     if (s.trials > kMaxTrials) {
-        throw InputError("--trials", std::to_string(s.trials), "at most " + std::to_string(kMaxTrials) + " trials");
+        throw InputError(Input::trials, std::to_string(s.trials), "at most " + std::to_string(kMaxTrials) + " trials");
     }
     if (s.threads > kMaxThreads) {
-        throw InputError("--threads", std::to_string(s.threads), "at most " + std::to_string(kMaxThreads) + " threads");
+        throw InputError(Input::threads, std::to_string(s.threads), "at most " + std::to_string(kMaxThreads) + " threads");
     }
 }
 
 namespace budget_detail {
 
 void out_of_range(double t_k) {
-    throw InputError("--span", format_number(kelvin_to_celsius(t_k)) + " C",
+    throw InputError(Input::span, format_number(kelvin_to_celsius(t_k)) + " C",
                      "the tolerances carry the reading past the end of the output's range here, so the firmware "
                      "reads no temperature; narrow the span or the tolerances");
 }
@@ -433,28 +433,28 @@ BudgetPoint point_bounds(const Channel& ch, const Channel& plain, const BudgetSp
 Budget compute_budget(const Grid& grid, const Thermistor& model, const Circuit& circuit, const BudgetSpec& spec) {
     validate(spec, circuit);
     if (grid.size() > kMaxBudgetPoints) {
-        throw InputError("--step", std::to_string(grid.size()) + " points",
+        throw InputError(Input::step, std::to_string(grid.size()) + " points",
                          "a budget takes at most " + std::to_string(kMaxBudgetPoints) + " temperatures");
     }
     if (spec.trials * grid.size() > kMaxSamples) {
-        throw InputError("--trials", std::to_string(spec.trials),
+        throw InputError(Input::trials, std::to_string(spec.trials),
                          "with " + std::to_string(grid.size()) + " temperatures that is more than " +
-                             std::to_string(kMaxSamples) + " samples; use fewer trials or a larger --step");
+                             std::to_string(kMaxSamples) + " samples; use fewer trials or a larger {step}");
     }
     const Span span{grid.t_k.front(), grid.t_k.back()};
     if (spec.tolerance.thermistor_dt_k > 0.0 && (span.lo_k < spec.dt_lo_k - 1e-9 || span.hi_k > spec.dt_hi_k + 1e-9)) {
-        throw InputError("--dt-range", format_span(Span{spec.dt_lo_k, spec.dt_hi_k}),
+        throw InputError(Input::dt_range, format_span(Span{spec.dt_lo_k, spec.dt_hi_k}),
                          "the thermistor's +-dT holds over this range only, and the span " + format_span(span) +
                              " reaches beyond it; give the range the part is specified over");
     }
-    if (spec.part) spec.part->check_span(span, "--part");
+    if (spec.part) spec.part->check_span(span, Input::part);
     const Channel ch(grid, model, circuit, spec);
     BudgetSpec plain_spec = spec;
     plain_spec.part.reset();
     plain_spec.trials = 0;  // no Monte Carlo runs on it
     const Channel plain(grid, model, circuit, plain_spec);
     if (spec.adc.bits > 0 && ch.largest_reading() > spec.adc.full_scale) {
-        throw InputError("--adc-ref", describe(spec.adc.full_scale) + (spec.ratiometric ? "" : " V"),
+        throw InputError(Input::reference, describe(spec.adc.full_scale) + (spec.ratiometric ? "" : " V"),
                          "the output reaches " + describe(ch.largest_reading()) + " " + reading_unit(circuit, spec) +
                              ", beyond the converter's full scale");
     }
@@ -462,7 +462,7 @@ Budget compute_budget(const Grid& grid, const Thermistor& model, const Circuit& 
         for (std::size_t i = 0; i < grid.size(); ++i) {
             const double rise_k = operate(circuit, grid.r_ohm[i]).power_w / spec.dissipation_w_per_k;
             if (rise_k > kMaxSelfHeatingK) {
-                throw InputError("--dissipation", describe(1e3 * spec.dissipation_w_per_k),
+                throw InputError(Input::dissipation, describe(1e3 * spec.dissipation_w_per_k),
                                  "the thermistor self-heats by " + format_number(rise_k, 3) + " K at " +
                                      format_number(kelvin_to_celsius(grid.t_k[i])) +
                                      " C; a budget takes a rise up to " + format_number(kMaxSelfHeatingK) +

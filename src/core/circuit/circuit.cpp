@@ -201,19 +201,19 @@ void validate(const Circuit& c) {
         }
     }
     if (!std::isfinite(c.lead_ohm) || c.lead_ohm < 0.0) {
-        throw InputError("--lead", describe(c.lead_ohm), "a lead resistance must be 0 or positive");
+        throw InputError(Input::lead, describe(c.lead_ohm), "a lead resistance must be 0 or positive");
     }
     if (!(c.load_ohm > 0.0)) {
-        throw InputError("--load", describe(c.load_ohm), "a load resistance must be positive");
+        throw InputError(Input::load, describe(c.load_ohm), "a load resistance must be positive");
     }
     const Excitation& e = c.excitation;
     if (e.drive != Drive::ratiometric && (!std::isfinite(e.value) || e.value <= 0.0)) {
-        const char* flag = e.drive == Drive::current ? "--current" : "--excitation";
+        const Input flag = e.drive == Drive::current ? Input::current : Input::excitation;
         throw InputError(flag, describe(e.value), "must be a positive value");
     }
     if (gives_resistance(c.topology) && e.drive == Drive::voltage) {
-        throw InputError("--excitation", describe(e.value),
-                         "the " + topo + " circuit's output is a resistance; drive it with --current to get volts");
+        throw InputError(Input::excitation, describe(e.value),
+                         "the " + topo + " circuit's output is a resistance; drive it with {current} to get volts");
     }
 }
 

@@ -11,24 +11,24 @@ namespace rtline {
 void validate_front_end(const Circuit& c, const std::optional<Amplifier>& amp) {
     const std::string topo(topology_name(c.topology));
     if (gives_resistance(c.topology) && c.excitation.drive != Drive::current) {
-        throw InputError("--current", "",
+        throw InputError(Input::current, "",
                          "the " + topo +
                              " circuit's output is a resistance; a converter reads it through a current "
-                             "drive (give --current)");
+                             "drive (give {current})");
     }
     if (is_bridge(c.topology) && !amp) {
-        throw InputError("--gain", "",
+        throw InputError(Input::gain, "",
                          "the " + topo +
                              " circuit's output is the difference V_A - V_B; a converter reads it "
-                             "through an amplifier (give --gain or --auto-range)");
+                             "through an amplifier (give {gain} or {output_range})");
     }
     if (!amp) return;
     if (!std::isfinite(amp->gain) || amp->gain == 0.0) {
-        throw InputError("--gain", describe(amp->gain), "the gain must be a finite number other than 0");
+        throw InputError(Input::gain, describe(amp->gain), "the gain must be a finite number other than 0");
     }
-    if (!std::isfinite(amp->offset)) throw InputError("--offset", describe(amp->offset), "must be a finite number");
+    if (!std::isfinite(amp->offset)) throw InputError(Input::offset, describe(amp->offset), "must be a finite number");
     if (!std::isfinite(amp->output_ohm) || amp->output_ohm < 0.0) {
-        throw InputError("--amp-output", describe(amp->output_ohm), "the output resistance must be 0 or more");
+        throw InputError(Input::amp_output, describe(amp->output_ohm), "the output resistance must be 0 or more");
     }
 }
 
@@ -39,10 +39,10 @@ double converter_input(const Circuit& c, const std::optional<Amplifier>& amp, do
 
 RangeFit fit_range(const Circuit& c, const Grid& grid, double full_scale, double headroom) {
     if (!(headroom >= 0.0 && headroom < 0.5)) {
-        throw InputError("--headroom", describe(100.0 * headroom), "the headroom at each end must be 0 to under 50 %");
+        throw InputError(Input::headroom, describe(100.0 * headroom), "the headroom at each end must be 0 to under 50 %");
     }
     if (!(full_scale > 0.0) || !std::isfinite(full_scale)) {
-        throw InputError("--adc-ref", describe(full_scale), "the converter's full scale must be positive");
+        throw InputError(Input::reference, describe(full_scale), "the converter's full scale must be positive");
     }
     double lo = INFINITY;
     double hi = -INFINITY;
@@ -51,7 +51,7 @@ RangeFit fit_range(const Circuit& c, const Grid& grid, double full_scale, double
         lo = std::min(lo, v);
         hi = std::max(hi, v);
     }
-    if (!(hi > lo)) throw InputError("--auto-range", "", "the network's output does not change over the span");
+    if (!(hi > lo)) throw InputError(Input::output_range, "", "the network's output does not change over the span");
     RangeFit fit;
     fit.amplifier.gain = (1.0 - 2.0 * headroom) * full_scale / (hi - lo);
     fit.amplifier.offset = headroom * full_scale - fit.amplifier.gain * lo;
@@ -69,33 +69,34 @@ void validate(const Channel& ch) {
     const Drive drive = c.excitation.drive;
     if (gives_resistance(c.topology)) {
         if (drive != Drive::current) {
-            throw InputError("circuit", topo,
+            throw InputError(Input::topology, topo,
                              "the output is a resistance, not a voltage; a converter reads it through a current "
-                             "drive, against a reference in volts");
+                             "drive, against a reference in volts (give {current} and {reference})");
         }
         if (!(ch.reference > 0.0) || !std::isfinite(ch.reference)) {
-            throw InputError("reference", describe(ch.reference),
-                             "a current drive is not ratiometric: the converter's reference must be given in volts");
+            throw InputError(Input::reference, describe(ch.reference),
+                             "a current drive is not ratiometric: the converter's reference must be given in volts "
+                             "(give {reference} V)");
         }
     } else {
         if (drive == Drive::voltage) {
-            throw InputError("excitation", describe(c.excitation.value),
+            throw InputError(Input::excitation, describe(c.excitation.value),
                              "the reading is ratiometric (the converter's reference is the excitation), so the "
                              "supply voltage does not matter; leave it out");
         }
         if (drive == Drive::current) {
-            throw InputError("current", describe(c.excitation.value),
+            throw InputError(Input::current, describe(c.excitation.value),
                              "a current drive is read only across a bare or shunt thermistor; a divider or "
                              "bridge is read ratiometrically, against its own excitation");
         }
         if (ch.reference != 1.0) {
-            throw InputError("reference", describe(ch.reference),
+            throw InputError(Input::reference, describe(ch.reference),
                              "a ratiometric reading's reference is the excitation itself (1 V/V)");
         }
         if (is_bridge(c.topology) && !ch.amplifier) {
-            throw InputError("amplifier", "",
+            throw InputError(Input::gain, "",
                              "a bridge's output is the difference V_A - V_B; a converter reads it through an "
-                             "amplifier (its gain and output offset)");
+                             "amplifier (its gain and output offset) (give {gain} and {offset}, or {output_range})");
         }
     }
     validate_front_end(c, ch.amplifier);
@@ -159,13 +160,13 @@ AmplifierShift amplifier_shift(const Amplifier& amp, const AmplifierErrors& e, d
 
 void validate(const Sampling& s) {
     if (s.bits < 1 || s.bits > 24) {
-        throw InputError("--adc-bits", std::to_string(s.bits), "a converter has 1 to 24 bits");
+        throw InputError(Input::adc_bits, std::to_string(s.bits), "a converter has 1 to 24 bits");
     }
     if (!(s.capacitance_f > 0.0) || !std::isfinite(s.capacitance_f)) {
-        throw InputError("--sample-cap", describe(s.capacitance_f), "the sampling capacitance must be positive");
+        throw InputError(Input::sample_cap, describe(s.capacitance_f), "the sampling capacitance must be positive");
     }
     if (!(s.acquisition_s > 0.0) || !std::isfinite(s.acquisition_s)) {
-        throw InputError("--acquisition", describe(s.acquisition_s), "the acquisition time must be positive");
+        throw InputError(Input::acquisition, describe(s.acquisition_s), "the acquisition time must be positive");
     }
 }
 

@@ -8,7 +8,7 @@ namespace rtline {
 
 std::vector<double> span_temperatures(const Span& span, double step_k) {
     if (!std::isfinite(step_k) || step_k <= 0.0) {
-        throw InputError("--step", format_number(step_k), "the step must be a positive number of kelvin");
+        throw InputError(Input::step, format_number(step_k), "the step must be a positive number of kelvin");
     }
     const double width = span.hi_k - span.lo_k;
     const double intervals = width / step_k;
@@ -16,9 +16,9 @@ std::vector<double> span_temperatures(const Span& span, double step_k) {
     if (!(std::floor(intervals + 1e-9) + 2.0 <= static_cast<double>(kMaxGridPoints)) &&
         !(std::floor(intervals + 1e-9) + 1.0 <= static_cast<double>(kMaxGridPoints) &&
           width - std::floor(intervals + 1e-9) * step_k <= 1e-9 * step_k)) {
-        throw InputError("--step", format_number(step_k),
+        throw InputError(Input::step, format_number(step_k),
                          "gives more than " + std::to_string(kMaxGridPoints) + " points over the span (" +
-                             format_number(width) + " K wide); use a larger step or a narrower --span");
+                             format_number(width) + " K wide); use a larger step or a narrower {span}");
     }
     // A step that divides the span to rounding gives exactly the end, not a sliver before it.
     const auto whole = static_cast<std::size_t>(std::floor(intervals + 1e-9));
@@ -37,7 +37,7 @@ void check_linearity_points(const Span& span, double step_k) {
     const std::size_t n = span_temperatures(span, step_k).size();
     if (n >= kMinLinearityPoints) return;
     const double width = span.hi_k - span.lo_k;
-    throw InputError("--step", format_number(step_k),
+    throw InputError(Input::step, format_number(step_k),
                      "leaves " + std::to_string(n) + " points over the span (" + format_number(width) +
                          " K wide); judging linearity takes at least " + std::to_string(kMinLinearityPoints) +
                          " (the ends, the middle and one in each half): use a step of at most " +
@@ -45,7 +45,7 @@ void check_linearity_points(const Span& span, double step_k) {
 }
 
 Grid make_grid(const Thermistor& model, const Span& span, double step_k) {
-    model.check_span(span, "--span");
+    model.check_span(span, Input::span);
     Grid g;
     g.t_k = span_temperatures(span, step_k);
     g.r_ohm.reserve(g.t_k.size());
@@ -55,7 +55,7 @@ Grid make_grid(const Thermistor& model, const Span& span, double step_k) {
         // number: −B/T² overflows within about 1e-154 K of absolute zero, where an R-T table can still
         // place a point (the R-T fuzzer's input had one at 8e-215 K).
         if (!std::isfinite(model.alpha(t))) {
-            throw InputError("--span", format_span(span),
+            throw InputError(Input::span, format_span(span),
                              "the model's temperature coefficient overflows a double at " + format_number(t) +
                                  " K; keep the span well above absolute zero");
         }

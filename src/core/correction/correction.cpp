@@ -19,21 +19,24 @@ double CodeMap::temperature(std::int64_t code) const {
 CodeMap map_codes(const Thermistor& model, const Channel& channel, const Span& span, int adc_bits,
                   AdcTransfer transfer) {
     if (adc_bits < 1 || adc_bits > kMaxAdcBits) {
-        throw InputError("--adc-bits", std::to_string(adc_bits),
+        throw InputError(Input::adc_bits, std::to_string(adc_bits),
                          "an ADC has 1 to " + std::to_string(kMaxAdcBits) + " bits");
     }
     validate(channel);
-    model.check_span(span, "--span");
+    model.check_span(span, Input::span);
     const double v_a = channel_ratio(channel, model.resistance(span.lo_k));
     const double v_b = channel_ratio(channel, model.resistance(span.hi_k));
     for (const auto& [v, t_k] : {std::pair{v_a, span.lo_k}, std::pair{v_b, span.hi_k}}) {
         if (!(v >= 0.0 && v <= 1.0)) {
-            throw InputError("range", describe(v),
+            const bool amp = channel.amplifier.has_value();
+            throw InputError(amp ? Input::gain : Input::current,
+                             describe(amp ? channel.amplifier->gain : channel.circuit.excitation.value),
                              "at " + format_number(kelvin_to_celsius(t_k), 4) +
                                  " \xC2\xB0"
                                  "C the converter input is " +
                                  format_number(v, 4) +
-                                 " of the reference, outside 0 to 1: that end of the span would read as a rail");
+                                 " of the reference, outside 0 to 1: that end of the span would read as a rail" +
+                                 (amp ? " (lower the gain, or use {output_range})" : " (lower the current)"));
         }
     }
     // Code k stands for (k + offset)/steps: offset ½ for truncating, else 0 (converter.hpp).
@@ -48,7 +51,7 @@ CodeMap map_codes(const Thermistor& model, const Channel& channel, const Span& s
     // A table over fewer codes than the grid rule's points cannot show how the line bends (grid.hpp).
     if (hi - lo + 1 < static_cast<std::int64_t>(kMinLinearityPoints)) {
         const std::int64_t n = std::max<std::int64_t>(hi - lo + 1, 0);
-        throw InputError("--adc-bits", std::to_string(adc_bits),
+        throw InputError(Input::adc_bits, std::to_string(adc_bits),
                          "the span's output swing (" + format_number(std::abs(v_b - v_a) * steps, 3) + " LSB) covers " +
                              std::to_string(n) + (n == 1 ? " code" : " codes") + "; a table takes at least " +
                              std::to_string(kMinLinearityPoints) +
@@ -283,7 +286,7 @@ LookupTable power_of_two_table(const CodeMap& map, int shift) {
 LookupTable make_table(const CodeMap& map, std::size_t entries, Spacing spacing) {
     const std::size_t limit = std::min(map.size(), kMaxTableEntries);
     if (entries < 2 || entries > limit) {
-        throw InputError("--entries", std::to_string(entries),
+        throw InputError(Input::entries, std::to_string(entries),
                          "a table needs 2 to " + std::to_string(limit) + " entries (" +
                              (limit == map.size() ? "the span covers " + std::to_string(map.size()) + " codes"
                                                   : std::string("a sane limit")) +

@@ -189,10 +189,10 @@ std::vector<double> minimax(const CodeMap& map, int d) {
 
 Polynomial fit_polynomial(const CodeMap& map, int degree, FitKind fit) {
     if (degree < 1 || degree > kMaxDegree) {
-        throw InputError("--degree", std::to_string(degree), "choose a degree from 1 to " + std::to_string(kMaxDegree));
+        throw InputError(Input::degree, std::to_string(degree), "choose a degree from 1 to " + std::to_string(kMaxDegree));
     }
     if (map.size() < static_cast<std::size_t>(degree) + 2) {
-        throw InputError("--degree", std::to_string(degree),
+        throw InputError(Input::degree, std::to_string(degree),
                          "the span covers only " + std::to_string(map.size()) + " codes, too few for this degree");
     }
     Polynomial p;

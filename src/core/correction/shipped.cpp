@@ -41,7 +41,7 @@ std::int32_t FixedTable::interpolate(std::int64_t code) const {
 
 FixedTable to_fixed(const LookupTable& table, const CodeMap& map, int scale_per_c) {
     if (scale_per_c != 10 && scale_per_c != 100) {
-        throw InputError("--unit", format_number(1.0 / scale_per_c), std::string("choose 0.1 or 0.01 (") + kDegC + ")");
+        throw InputError(Input::unit, format_number(1.0 / scale_per_c), std::string("choose 0.1 or 0.01 (") + kDegC + ")");
     }
     FixedTable f;
     f.scale_per_c = scale_per_c;
@@ -102,7 +102,7 @@ ShippedTable shipped(const CodeMap& map, std::size_t entries, Spacing spacing, i
                           " once rounded to " + unit_words(best.scale_per_c) + " " + kDegC + " (" +
                           std::to_string(best.codes.size()) + " entries ship " + format_number(best.max_error_k, 4) +
                           " " + kDegC + "; the unit alone rounds by up to " + format_number(best_floor_k, 4) + " " +
-                          kDegC + "); give --entries to build a larger table");
+                          kDegC + "); give {entries} to build a larger table");
 }
 
 ShippedTable smallest_power_of_two(const CodeMap& map, double target_k, int scale) {
@@ -130,7 +130,7 @@ ShippedTable smallest_table(const CodeMap& map, double max_error_k, Spacing spac
         throw InfeasibleError("the " + unit_words(scale_per_c) + " " + kDegC + " unit alone rounds by up to " +
                               format_number(floor_k, 4) + " " + kDegC + " over the span, more than the " +
                               format_number(max_error_k, 4) + " " + kDegC + " target; use " +
-                              (scale_per_c == 10 ? "--unit 0.01 or " : "") + "a larger --max-error");
+                              (scale_per_c == 10 ? "{unit} 0.01 or " : "") + "a larger {max_error}");
     }
     if (spacing == Spacing::power_of_two) return smallest_power_of_two(map, max_error_k, scale_per_c);
     const std::size_t limit = std::min(map.size(), kMaxSearchEntries);

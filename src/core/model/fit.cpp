@@ -33,7 +33,7 @@ std::vector<Residual> usable_residuals(const Thermistor& model, const std::vecto
         const double residual_k = t_model - p.t_k;
         const bool missed = exact && !(std::abs(residual_k) <= 1e-6 * p.t_k);
         if (!std::isfinite(t_model) || !(t_model > 0.0) || missed) {
-            throw InputError("--points", count_points(points.size()),
+            throw InputError(Input::points, count_points(points.size()),
                              std::string("the ") + what + " fit cannot give back the temperature of the point at " +
                                  format_number(kelvin_to_celsius(p.t_k)) +
                                  " \xC2\xB0"
@@ -57,7 +57,7 @@ Eigen::VectorXd solve_scaled(Eigen::MatrixXd a, const Eigen::VectorXd& y, const 
     Eigen::ColPivHouseholderQR<Eigen::MatrixXd> qr(a);
     qr.setThreshold(1e-12);
     if (qr.rank() < a.cols()) {
-        throw InputError("--points", count_points(static_cast<std::size_t>(a.rows())),
+        throw InputError(Input::points, count_points(static_cast<std::size_t>(a.rows())),
                          std::string("the points do not determine a ") + what +
                              " fit (too few distinct resistances, or collinear in ln R)");
     }
@@ -85,7 +85,7 @@ SteinhartHart steinhart_hart_three_point(const RtPoint& p1, const RtPoint& p2, c
 
 ShFit fit_steinhart_hart(const std::vector<RtPoint>& points) {
     if (points.size() < 3) {
-        throw InputError("--points", count_points(points.size()), "a Steinhart-Hart fit needs at least 3 R-T points");
+        throw InputError(Input::points, count_points(points.size()), "a Steinhart-Hart fit needs at least 3 R-T points");
     }
     SteinhartHart m;
     const auto n = static_cast<Eigen::Index>(points.size());
@@ -117,14 +117,14 @@ ShFit fit_steinhart_hart(const std::vector<RtPoint>& points) {
     try {
         // Coefficients that turn back between the points describe no thermistor: every command would
         // refuse them over this span, so refuse them here, where the points can still be fixed.
-        model.check_span(span, "--points");
+        model.check_span(span, Input::points);
     } catch (const InputError&) {
-        throw InputError("--points", count_points(points.size()),
+        throw InputError(Input::points, count_points(points.size()),
                          "the Steinhart-Hart fit does not give a resistance that falls monotonically from " +
                              format_number(kelvin_to_celsius(span.lo_k)) + " to " +
                              format_number(kelvin_to_celsius(span.hi_k)) +
                              " \xC2\xB0"
-                             "C; check the points, or use the beta model (--model beta)");
+                             "C; check the points, or use the beta model");
     }
     ShFit fit{m, usable_residuals(model, points, "Steinhart-Hart", points.size() == 3), 0.0};
     fit.max_residual_k = max_abs(fit.residuals);
@@ -133,7 +133,7 @@ ShFit fit_steinhart_hart(const std::vector<RtPoint>& points) {
 
 BetaFit fit_beta(const std::vector<RtPoint>& points, double t0_k) {
     if (points.size() < 2) {
-        throw InputError("--points", count_points(points.size()), "a beta fit needs at least 2 R-T points");
+        throw InputError(Input::points, count_points(points.size()), "a beta fit needs at least 2 R-T points");
     }
     const auto n = static_cast<Eigen::Index>(points.size());
     // 1/T = a + b·(ln R − ln R_ref); the shift by a central ln R keeps the two columns apart.
@@ -154,14 +154,14 @@ BetaFit fit_beta(const std::vector<RtPoint>& points, double t0_k) {
     // 1/t0 = x0 + (ln R0 − l_ref)/B  ⇒  ln R0 = l_ref + B·(1/t0 − x0).
     const double r0 = std::exp(l_ref + b_k * (1.0 / t0_k - x(0)));
     if (!(b_k > 0.0) || !std::isfinite(b_k)) {
-        throw InputError("--points", count_points(static_cast<std::size_t>(n)),
+        throw InputError(Input::points, count_points(static_cast<std::size_t>(n)),
                          "the beta fit gives no positive B-value");
     }
     if (!std::isnormal(r0)) {
-        throw InputError("--points", count_points(static_cast<std::size_t>(n)),
+        throw InputError(Input::points, count_points(static_cast<std::size_t>(n)),
                          "the beta fit's R0 at " + format_number(kelvin_to_celsius(t0_k)) +
                              " \xC2\xB0"
-                             "C is beyond the range of a double; state R0 at a temperature among the points (--t0)");
+                             "C is beyond the range of a double; state R0 at a temperature among the points ({t0})");
     }
     BetaModel m{r0, t0_k, b_k};
     BetaFit fit{m, usable_residuals(Thermistor(m), points, "beta", points.size() == 2), 0.0};

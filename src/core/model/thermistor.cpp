@@ -34,12 +34,39 @@ double pchip_end_slope(double h0, double h1, double m0, double m1) {
     return d;
 }
 
+// The checks of validate_points, blaming `source`: an Input or a caller's field (both build an InputError).
+template <class Source>
+std::vector<RtPoint> checked_points(std::vector<RtPoint> points, std::size_t min_count, const Source& source) {
+    if (points.size() < min_count) {
+        throw InputError(source, count_points(points.size()),
+                         "this model needs at least " + std::to_string(min_count) + " R-T points");
+    }
+    for (const RtPoint& p : points) {
+        if (!std::isfinite(p.r_ohm) || p.r_ohm <= 0.0) {
+            throw InputError(source, describe(p.r_ohm) + " ohm", "resistances must be positive");
+        }
+        if (const std::string why = point_temperature_problem(p.t_k); !why.empty()) {
+            throw InputError(source, describe(kelvin_to_celsius(p.t_k)) + " C", why);
+        }
+    }
+    std::sort(points.begin(), points.end(), [](const RtPoint& a, const RtPoint& b) { return a.t_k < b.t_k; });
+    for (std::size_t i = 1; i < points.size(); ++i) {
+        if (points[i].t_k == points[i - 1].t_k) {
+            throw InputError(source, describe(kelvin_to_celsius(points[i].t_k)) + " C", "duplicate temperature");
+        }
+        if (!(points[i].r_ohm < points[i - 1].r_ohm)) {
+            throw InputError(source, describe(kelvin_to_celsius(points[i].t_k)) + " C",
+                             "an NTC's resistance must fall strictly as temperature rises");
+        }
+    }
+    return points;
+}
+
 }  // namespace
 
 // ---------------------------------------------------------------------------------------- table
 
-TableModel::TableModel(std::vector<RtPoint> points) : points_(std::move(points)) {
-    std::sort(points_.begin(), points_.end(), [](const RtPoint& a, const RtPoint& b) { return a.t_k < b.t_k; });
+TableModel::TableModel(std::vector<RtPoint> points) : points_(checked_points(std::move(points), 2, Input::points)) {
     const std::size_t n = points_.size();
     x_.resize(n);
     y_.resize(n);
@@ -210,23 +237,23 @@ SteinhartHart to_steinhart_hart(const BetaModel& m) {
 
 void validate(const BetaModel& m) {
     if (!std::isfinite(m.r0_ohm) || m.r0_ohm <= 0.0) {
-        throw InputError("--r25", describe(m.r0_ohm), "the resistance at T0 must be positive");
+        throw InputError(Input::r0, describe(m.r0_ohm), "the resistance at T0 must be positive");
     }
     if (!std::isfinite(m.b_k) || m.b_k <= 0.0) {
-        throw InputError("--beta", describe(m.b_k), "the B-value of an NTC must be positive (kelvin)");
+        throw InputError(Input::b_value, describe(m.b_k), "the B-value of an NTC must be positive (kelvin)");
     }
     if (!std::isfinite(m.t0_k) || m.t0_k <= 0.0) {
-        throw InputError("--t0", describe(m.t0_k), "T0 must be above absolute zero");
+        throw InputError(Input::t0, describe(m.t0_k), "T0 must be above absolute zero");
     }
 }
 
 void validate(const SteinhartHart& m) {
     const std::string text = describe(m.a) + "," + describe(m.b) + "," + describe(m.c);
     if (!std::isfinite(m.a) || !std::isfinite(m.b) || !std::isfinite(m.c)) {
-        throw InputError("--sh", text, "the coefficients must be finite numbers");
+        throw InputError(Input::sh_coefficients, text, "the coefficients must be finite numbers");
     }
     if (m.b == 0.0 && m.c == 0.0) {
-        throw InputError("--sh", text, "B and C cannot both be zero: T would not depend on R");
+        throw InputError(Input::sh_coefficients, text, "B and C cannot both be zero: T would not depend on R");
     }
 }
 
@@ -239,30 +266,9 @@ std::string point_temperature_problem(double t_k) {
     return "";
 }
 
+
 std::vector<RtPoint> validate_points(std::vector<RtPoint> points, std::size_t min_count, const std::string& source) {
-    if (points.size() < min_count) {
-        throw InputError(source, count_points(points.size()),
-                         "this model needs at least " + std::to_string(min_count) + " R-T points");
-    }
-    for (const RtPoint& p : points) {
-        if (!std::isfinite(p.r_ohm) || p.r_ohm <= 0.0) {
-            throw InputError(source, describe(p.r_ohm) + " ohm", "resistances must be positive");
-        }
-        if (const std::string why = point_temperature_problem(p.t_k); !why.empty()) {
-            throw InputError(source, describe(kelvin_to_celsius(p.t_k)) + " C", why);
-        }
-    }
-    std::sort(points.begin(), points.end(), [](const RtPoint& a, const RtPoint& b) { return a.t_k < b.t_k; });
-    for (std::size_t i = 1; i < points.size(); ++i) {
-        if (points[i].t_k == points[i - 1].t_k) {
-            throw InputError(source, describe(kelvin_to_celsius(points[i].t_k)) + " C", "duplicate temperature");
-        }
-        if (!(points[i].r_ohm < points[i - 1].r_ohm)) {
-            throw InputError(source, describe(kelvin_to_celsius(points[i].t_k)) + " C",
-                             "an NTC's resistance must fall strictly as temperature rises");
-        }
-    }
-    return points;
+    return checked_points(std::move(points), min_count, source);
 }
 
 // ------------------------------------------------------------------------------------ thermistor
@@ -312,7 +318,7 @@ std::string Thermistor::kind() const {
                       model_);
 }
 
-void Thermistor::check_span(const Span& span, const std::string& field) const {
+void Thermistor::check_span(const Span& span, Input field) const {
     const std::string text = format_span(span);
     if (const auto* table = std::get_if<TableModel>(&model_)) {
         const double tol = 1e-9;
@@ -350,6 +356,14 @@ void Thermistor::check_span(const Span& span, const std::string& field) const {
     const double r_hi = resistance(span.hi_k);
     if (!std::isnormal(r_lo) || !std::isnormal(r_hi) || r_lo > 1e300) {
         throw InputError(field, text, "the model's resistance overflows a double over this span");
+    }
+}
+
+void Thermistor::check_span(const Span& span, const std::string& field) const {
+    try {
+        check_span(span);
+    } catch (const InputError& e) {
+        throw InputError(field, e.value(), e.why());
     }
 }
 

@@ -107,15 +107,15 @@ ClosedForms closed_forms(const Thermistor& model, const Span& span, const Circui
 
 // ------------------------------------------------------------------------------ standard values
 
-std::string failed_constraint(const SizingSpec& spec, const Candidate& c) {
+std::optional<Input> failed_constraint(const SizingSpec& spec, const Candidate& c) {
     const Constraints& k = spec.constraints;
-    if (c.output_span < k.min_span) return "--min-span";
-    if (c.sensitivity_min_per_k < k.min_sensitivity) return "--min-sensitivity";
-    if (std::isfinite(k.max_power_w) && !(c.max_power_w <= k.max_power_w)) return "--max-power";
+    if (c.output_span < k.min_span) return Input::min_span;
+    if (c.sensitivity_min_per_k < k.min_sensitivity) return Input::min_sensitivity;
+    if (std::isfinite(k.max_power_w) && !(c.max_power_w <= k.max_power_w)) return Input::max_power;
     if (std::isfinite(k.max_self_heating_k) && !(c.max_self_heating_k <= k.max_self_heating_k)) {
-        return "--max-self-heating";
+        return Input::max_self_heating;
     }
-    return "";
+    return std::nullopt;
 }
 
 }  // namespace rtline

@@ -170,7 +170,7 @@ Candidate optimize_continuous(const SizingSpec& spec, const Grid& grid, const Th
     kernel::with_kernel(spec.base, r_null, scan,
                         [&](const auto& k) { best = continuous_optimum(spec, grid, scan, k, fbest, ridge); });
     if (!std::isfinite(fbest)) {
-        throw InputError("--circuit", std::string(topology_name(spec.base.topology)),
+        throw InputError(Input::topology, std::string(topology_name(spec.base.topology)),
                          "the output does not change over the span with this drive, whatever the resistor values");
     }
     // Of the ridge, the pair with the largest output span.

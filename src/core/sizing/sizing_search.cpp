@@ -16,8 +16,8 @@ namespace rtline {
 
 namespace {
 
-// The constraint flags, in the order StandardSearch::removed lists them.
-constexpr std::array<const char*, 4> kFlags = {"--min-span", "--min-sensitivity", "--max-power", "--max-self-heating"};
+// The constraints, in the order StandardSearch::removed lists them.
+constexpr std::array<Input, 4> kConstraints = {Input::min_span, Input::min_sensitivity, Input::max_power, Input::max_self_heating};
 
 // What every assessment reads: the spec, the grid in scan order and the model's alpha at each point.
 struct Context {
@@ -25,7 +25,7 @@ struct Context {
     const Grid& grid;
     const Thermistor& model;
     kernel::ScanGrid scan;
-    std::vector<double> alpha;  // 1/K at each scan position, for --min-sensitivity
+    std::vector<double> alpha;  // 1/K at each scan position, for {min_sensitivity}
     bool need_power = false;
     bool need_sensitivity = false;
 
@@ -289,10 +289,10 @@ StandardSearch run_search(const Context& ctx, const std::vector<double>& values,
     std::vector<Ranked> all;
     StandardSearch result;
     result.examined = rows * n;
-    for (const auto& flag : kFlags) result.removed.emplace_back(flag, 0);
+    for (const Input c : kConstraints) result.removed.emplace_back(c, 0);
     for (const Worker<K>& me : w) {
         all.insert(all.end(), me.top.items().begin(), me.top.items().end());
-        for (std::size_t f = 0; f < kFlags.size(); ++f) result.removed[f].second += me.assessor.removed()[f];
+        for (std::size_t f = 0; f < kConstraints.size(); ++f) result.removed[f].second += me.assessor.removed()[f];
     }
     std::sort(all.begin(), all.end(), better);
     if (all.size() > top) all.resize(top);
@@ -310,7 +310,7 @@ StandardSearch search_standard(const SizingSpec& spec, const Grid& grid, const T
     const std::vector<double> values = series_values(spec.series, spec.range_lo_ohm, spec.range_hi_ohm);
     const Context ctx(spec, grid, model);
     StandardSearch result;
-    for (const auto& flag : kFlags) result.removed.emplace_back(flag, 0);  // bare: nothing to search
+    for (const Input c : kConstraints) result.removed.emplace_back(c, 0);  // bare: nothing to search
     kernel::with_kernel(spec.base, ctx.r_null(), ctx.scan, [&](const auto& k) { result = run_search(ctx, values, k); });
     return result;
 }
