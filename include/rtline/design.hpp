@@ -44,7 +44,7 @@ struct DesignSpec {
     double range_lo_ohm = 100.0;
     double range_hi_ohm = 1e6;
     Constraints constraints;
-    std::size_t shortlist = 4;   // the most linear combinations per part, series and topology budgeted
+    std::size_t shortlist = 6;   // the most linear combinations per part, series and topology budgeted
     std::size_t finalists = 8;   // a Monte Carlo confidence: the best by worst case that get the Monte Carlo
     // the table
     Spacing spacing = Spacing::code;

@@ -29,7 +29,7 @@ struct DesignCommand {
     std::string series = "E24,E96";
     std::string circuit;  // comma list; empty: every divider
     std::string range = "100:1M";
-    std::string shortlist = "4";
+    std::string shortlist = "6";
     std::string max_power, max_self_heating, min_span, min_sensitivity;
     std::string spacing = "code";
     std::string unit = "0.01";
@@ -262,7 +262,7 @@ void setup_design(CLI::App& app) {
         ->group(search);
     sub->add_option("--range", opt->range, "Resistor values LO:HI in ohm (default 100:1M)")->group(search);
     sub->add_option("--shortlist", opt->shortlist,
-                    "Most linear combinations budgeted per part, series and topology (default 4)")
+                    "Most linear combinations budgeted per part, series and topology (default 6)")
         ->group(search);
     sub->add_option("--runners-up", opt->runners_up, "Runners-up listed beside the design (default 5)")->group(search);
     const char* cons = "Constraints";

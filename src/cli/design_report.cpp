@@ -90,6 +90,7 @@ Json readback_flags(const DesignRun& r) {
     j["objective"] = "total-error";
     j["confidence"] = std::string(confidence_name(r.spec.confidence));
     j["shortlist"] = r.spec.shortlist;
+    j["top"] = r.spec.shortlist;  // size then ranks the same most linear combinations design budgeted
     // table: the share of the target the table was sized to
     if (d.table) {
         j["max_error"] = d.table_target_k;
