@@ -339,6 +339,13 @@ Json design_json(const DesignRun& r) {
                         {"interpolation_error_c", d.table->table.max_error_k},
                         {"code_lo", d.map->code_lo},
                         {"code_hi", d.map->code_hi}};
+        Json rows = Json::array();
+        for (std::size_t i = 0; i < d.table->table.codes.size(); ++i) {
+            rows.push_back({{"code", d.table->table.codes[i]},
+                            {"t_c", kelvin_to_celsius(d.table->table.t_k[i])},
+                            {"t_fixed", d.table->fixed.t[i]}});
+        }
+        doc["table"]["breakpoints"] = rows;
     } else {
         doc["table"] = nullptr;
     }
