@@ -1,18 +1,20 @@
 #!/usr/bin/env bash
 # Builds the libFuzzer targets (clang, with AddressSanitizer and UndefinedBehaviorSanitizer) and runs
 # each for a bounded time, starting from the seed corpus in fuzz/corpus/<target>/. Fails on any crash,
-# leak, timeout or sanitizer report; the input that caused
-# it is kept as build-fuzz/<target>-crash-* (or -leak-*, -timeout-*).
-#   bash fuzz/run.sh                         # 60 s per target
-#   RTLINE_FUZZ_SECONDS=600 bash fuzz/run.sh  # longer
-#   RTLINE_FUZZ_SEED=0 bash fuzz/run.sh        # a new random seed each run (libFuzzer's -seed=0)
-# The default seed is fixed (1), so that CI walks the same inputs each time and a red run can be
-# replayed; fuzz with other seeds by hand to explore further.
-# The seed corpus is left as it is: new inputs a run finds go to a scratch folder and are discarded.
+# leak, timeout or sanitizer report; the input that caused it is written into the seed corpus itself,
+# as fuzz/corpus/<target>/found-crash-* (or found-leak-*, found-timeout-*), so that once the bug is
+# fixed the input is committed with the fix and every later run starts from it.
+#   bash fuzz/run.sh                          # 60 s per target, a new random seed
+#   RTLINE_FUZZ_SECONDS=600 bash fuzz/run.sh   # longer
+#   RTLINE_FUZZ_SEED=12345 bash fuzz/run.sh    # replay the seed a run printed
+# Each run draws a new seed (from /dev/urandom) and prints it first, so that runs keep exploring new
+# inputs and a red run replays with the same seed. Inputs that only add coverage go to a scratch
+# folder and are discarded (the corpus stays small and reviewed).
 set -euo pipefail
 cd "$(dirname "$0")/.."
 seconds=${RTLINE_FUZZ_SECONDS:-60}
-seed=${RTLINE_FUZZ_SEED:-1}
+seed=${RTLINE_FUZZ_SEED:-$(( $(od -An -N4 -tu4 /dev/urandom) % 2147483647 + 1 ))}
+echo "fuzz: seed $seed (replay with RTLINE_FUZZ_SEED=$seed bash fuzz/run.sh)"
 build=build-fuzz
 targets=(values rtcsv spec)
 jobs=$(nproc 2>/dev/null || echo 2)
@@ -30,7 +32,7 @@ for t in "${targets[@]}"; do
   mkdir -p "$scratch/$t"
   status=0
   ASAN_OPTIONS=detect_leaks=1 "$build/fuzz/fuzz_$t" -max_total_time="$seconds" -seed="$seed" -timeout=10 -rss_limit_mb=2048 \
-      -print_final_stats=1 -dict="fuzz/$t.dict" -artifact_prefix="$build/$t-" \
+      -print_final_stats=1 -dict="fuzz/$t.dict" -artifact_prefix="fuzz/corpus/$t/found-" \
       "$scratch/$t" "fuzz/corpus/$t" >"$log" 2>&1 || status=$?
   # A sanitizer report is a failure even if the process somehow exited 0.
   if [ "$status" -eq 0 ] && grep -q -E 'ERROR: (Address|Leak|UndefinedBehavior)Sanitizer|runtime error:|fuzz property failed' "$log"; then
@@ -43,6 +45,7 @@ for t in "${targets[@]}"; do
   else
     echo "fuzz: $t: FAILED (exit $status) after ${execs:-?} executions (seed ${used_seed:-$seed}); the end of $log:"
     tail -n 40 "$log"
+    ls fuzz/corpus/"$t"/found-* 2>/dev/null | sed 's/^/fuzz: the input is kept in the corpus: /' || true
     failed=$((failed + 1))
   fi
 done

@@ -3,8 +3,10 @@
 # core names its inputs by rtline::Input, and the CLI maps them to flags (src/cli/input_flags.cpp).
 # A C++ pre-decrement ("--n;", "; --shift)") is not a flag.
 root=${1:-.}
-found=$(grep -rnE -- '--[a-z][a-z0-9-]*' "$root/src/core" "$root/include/rtline" |
-        grep -vE -- '(^|[^a-z0-9-])--[a-z_][a-z0-9_]*;|; --[a-z_][a-z0-9_]*\)')
+# A flag built from its name ("--" + name) counts too.
+found=$( (grep -rnE -- '--[a-z][a-z0-9-]*' "$root/src/core" "$root/include/rtline" |
+          grep -vE -- '(^|[^a-z0-9-])--[a-z_][a-z0-9_]*;|; --[a-z_][a-z0-9_]*\)';
+         grep -rnF -- '"--"' "$root/src/core" "$root/include/rtline") )
 if [ -n "$found" ]; then
     echo "command-line flags in the core (name the input by rtline::Input instead):"
     echo "$found"

@@ -16,7 +16,7 @@ using namespace rtline;
 TEST_CASE("every input has a distinct key and noun, and its key finds it again") {
     std::set<std::string> keys;
     std::set<std::string> nouns;
-    REQUIRE(all_inputs().size() == static_cast<std::size_t>(Input::max_self_heating) + 1);
+    REQUIRE(all_inputs().size() == kInputCount);
     for (const Input input : all_inputs()) {
         const std::string key(input_key(input));
         CAPTURE(key);

@@ -658,3 +658,31 @@ TEST_CASE("a drive under which the output cannot change gives no candidates") {
     CHECK(found.best.empty());
     CHECK(std::isinf(objective(spec, grid, sized_circuit(spec, model, {10e3}))));
 }
+
+TEST_CASE("the objective curve for the size picture is the endpoint nonlinearity at each value, least at the optimum") {
+    // A greenhouse of our own, 0 to 45 C, 10k B3950, divider-low, endpoint line. Each value of the
+    // curve against endpoint_pct_fsd on the divider v = R_T/(rs + R_T) written here (Pallas-Areny &
+    // Webster eq. 2.31 form); the smallest value sits at the continuous optimum the curve inserts.
+    const Thermistor model = beta_model(10e3, 3950);
+    SizingSpec spec = spec_for(Topology::divider_low);
+    const Grid grid = make_grid(model, span_c(0, 45), 1.0);
+    const Candidate opt = optimize_continuous(spec, grid, model);
+    const double rs_opt = opt.circuit.rs;
+    const ObjectiveCurve curve = objective_curve(spec, grid, model, rs_opt / 4.0, rs_opt * 4.0, 41, rs_opt);
+    REQUIRE(curve.first_ohm.size() == 42);  // 41 log-spaced values and the optimum
+    REQUIRE(curve.objective_pct_fsd.size() == 42);
+    std::size_t at_min = 0;
+    for (std::size_t i = 0; i < curve.first_ohm.size(); ++i) {
+        const double rs = curve.first_ohm[i];
+        std::vector<double> y;
+        for (std::size_t j = 0; j < grid.size(); ++j) {
+            const double r = beta_r(10e3, 3950, grid.t_k[j]);
+            y.push_back(r / (rs + r));
+        }
+        CHECK(curve.objective_pct_fsd[i] == doctest::Approx(endpoint_pct_fsd(grid.t_k, y)).epsilon(1e-9));
+        CHECK(curve.meets[i]);  // no constraints given
+        if (curve.objective_pct_fsd[i] < curve.objective_pct_fsd[at_min]) at_min = i;
+    }
+    CHECK(curve.first_ohm[at_min] == doctest::Approx(rs_opt).epsilon(1e-12));
+    CHECK(std::is_sorted(curve.first_ohm.begin(), curve.first_ohm.end()));
+}

@@ -73,10 +73,19 @@ enum class Input : unsigned char {
     min_sensitivity,   // the least sensitivity
     max_power,         // the most power in the thermistor
     max_self_heating,  // the most self-heating
+    // the circuit's fixed resistors, by their names in circuit.hpp
+    rs,                // the series resistor of a divider
+    rp,                // the resistor in parallel with the thermistor
+    r1,                // a bridge's resistor over the thermistor
+    r2,                // the top of a bridge's reference arm
+    r3,                // the bottom of a bridge's reference arm
 };
 
+// How many inputs there are: one more than the last enumerator.
+inline constexpr std::size_t kInputCount = static_cast<std::size_t>(Input::r3) + 1;
+
 // Every input, in declaration order (for tests and front ends that map them all).
-[[nodiscard]] const std::array<Input, 52>& all_inputs();
+[[nodiscard]] const std::array<Input, kInputCount>& all_inputs();
 // The stable key ("step", "b_value", "min_span"): the enumerator's name.
 [[nodiscard]] std::string_view input_key(Input input);
 // The input in the core's words ("the step", "the B-value").

@@ -77,6 +77,19 @@ struct InnerBest {
 [[nodiscard]] InnerBest best_second(const SizingSpec& spec, const Grid& grid, const Thermistor& model,
                                     double first_ohm);
 
+// The objective along the first free resistor, for a picture of the search: n values log-spaced from
+// lo_ohm to hi_ohm (n >= 2), with optimum_ohm inserted in order when it lies strictly inside; for a
+// two-resistor topology each with the second at its best (best_second). `objective_pct_fsd` is NaN where
+// the output cannot change. For one resistor, `meets` says whether the value meets every constraint
+// (failed_constraint); for two, or without constraints, it is true throughout.
+struct ObjectiveCurve {
+    std::vector<double> first_ohm;
+    std::vector<double> objective_pct_fsd;
+    std::vector<bool> meets;
+};
+[[nodiscard]] ObjectiveCurve objective_curve(const SizingSpec& spec, const Grid& grid, const Thermistor& model,
+                                             double lo_ohm, double hi_ohm, int n, double optimum_ohm);
+
 // Closed forms for one-resistor topologies (Pallàs-Areny & Webster, Sensors and Signal Conditioning,
 // 2nd ed., ch. 2): the inflection value R = R_Tc·(B − 2Tc)/(B + 2Tc) at the span's centre, with the
 // model's local B there (absent when B ≤ 2Tc), and the three-point value

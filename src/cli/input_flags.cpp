@@ -59,6 +59,11 @@ std::string flag_name(Input input) {
         case Input::min_sensitivity: return "--min-sensitivity";
         case Input::max_power: return "--max-power";
         case Input::max_self_heating: return "--max-self-heating";
+        case Input::rs: return "--rs";
+        case Input::rp: return "--rp";
+        case Input::r1: return "--r1";
+        case Input::r2: return "--r2";
+        case Input::r3: return "--r3";
     }
     return std::string(input_key(input));  // unreachable with every enumerator handled (-Wswitch)
 }

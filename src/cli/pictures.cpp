@@ -140,22 +140,10 @@ svg::Figure size_figure(const SizePicture& p) {
     const std::string topology(topology_name(spec.base.topology));
     const std::string line(line_name(spec.line));
 
-    auto value_at = [&](double r) {
-        const double v = two ? best_second(spec, *p.grid, *p.model, r).objective_pct_fsd
-                             : objective(spec, *p.grid, sized_circuit(spec, *p.model, {r}));
-        return std::isfinite(v) ? v : NAN;
-    };
-    std::vector<double> xs;
-    const int n = std::max(2, p.points);
-    xs.reserve(static_cast<std::size_t>(n) + 1);
-    for (int i = 0; i < n; ++i)
-        xs.push_back(p.lo_ohm * std::pow(p.hi_ohm / p.lo_ohm, static_cast<double>(i) / (n - 1)));
-    // The optimum itself is a point of the curve, so the curve reaches the marker at its minimum.
     const double opt = resistor_value(p.continuous.circuit, first);
-    if (opt > p.lo_ohm && opt < p.hi_ohm) xs.insert(std::upper_bound(xs.begin(), xs.end(), opt), opt);
-    std::vector<double> ys;
-    ys.reserve(xs.size());
-    for (const double x : xs) ys.push_back(value_at(x));
+    const ObjectiveCurve curve = objective_curve(spec, *p.grid, *p.model, p.lo_ohm, p.hi_ohm, p.points, opt);
+    const std::vector<double>& xs = curve.first_ohm;
+    const std::vector<double>& ys = curve.objective_pct_fsd;
 
     svg::Figure f;
     f.title = "rtline size: " + topology + ", the objective against " + first;
@@ -178,11 +166,7 @@ svg::Figure size_figure(const SizePicture& p) {
     if (constrained && !two) {
         // One resistor: the values that fail a constraint drawn apart, in grey. A run of either kind
         // takes in its neighbours on both sides, so the two lines meet.
-        std::vector<bool> ok;
-        for (const double x : xs) {
-            const Candidate c = evaluate(spec, *p.grid, *p.model, sized_circuit(spec, *p.model, {x}));
-            ok.push_back(!failed_constraint(spec, c).has_value());
-        }
+        const std::vector<bool>& ok = curve.meets;
         std::vector<double> meets(ys.size(), NAN);
         std::vector<double> fails(ys.size(), NAN);
         for (std::size_t i = 0; i < ys.size(); ++i) {

@@ -14,7 +14,7 @@ struct InputName {
 };
 
 // One row per Input, in declaration order (checked by the static_assert below and by error_test).
-constexpr std::array<InputName, 52> kInputs = {{
+constexpr std::array<InputName, kInputCount> kInputs = {{
     {Input::points, "points", "the R-T points"},
     {Input::r0, "r0", "the resistance at T0"},
     {Input::b_value, "b_value", "the B-value"},
@@ -67,13 +67,18 @@ constexpr std::array<InputName, 52> kInputs = {{
     {Input::min_sensitivity, "min_sensitivity", "the least sensitivity"},
     {Input::max_power, "max_power", "the power limit"},
     {Input::max_self_heating, "max_self_heating", "the self-heating limit"},
+    {Input::rs, "rs", "the series resistor"},
+    {Input::rp, "rp", "the parallel resistor"},
+    {Input::r1, "r1", "the bridge resistor r1"},
+    {Input::r2, "r2", "the bridge resistor r2"},
+    {Input::r3, "r3", "the bridge resistor r3"},
 }};
 
 constexpr bool in_order() {
     for (std::size_t i = 0; i < kInputs.size(); ++i) {
         if (static_cast<std::size_t>(kInputs[i].input) != i) return false;
     }
-    return static_cast<std::size_t>(Input::max_self_heating) + 1 == kInputs.size();
+    return kInputCount == kInputs.size();
 }
 static_assert(in_order(), "kInputs must list every Input once, in declaration order");
 
@@ -91,9 +96,9 @@ std::string head_of(const std::optional<Input>& input, const std::string& field,
 
 }  // namespace
 
-const std::array<Input, 52>& all_inputs() {
-    static const std::array<Input, 52> all = [] {
-        std::array<Input, 52> a{};
+const std::array<Input, kInputCount>& all_inputs() {
+    static const std::array<Input, kInputCount> all = [] {
+        std::array<Input, kInputCount> a{};
         for (std::size_t i = 0; i < a.size(); ++i) a[i] = kInputs[i].input;
         return a;
     }();

@@ -189,15 +189,28 @@ void set_resistor(Circuit& c, std::string_view name, double ohm) {
     if (name == "r3") c.r3 = ohm;
 }
 
+namespace {
+
+// The input a fixed resistor's name (resistor_names) stands for.
+Input resistor_input(std::string_view name) {
+    if (name == "rp") return Input::rp;
+    if (name == "r1") return Input::r1;
+    if (name == "r2") return Input::r2;
+    if (name == "r3") return Input::r3;
+    return Input::rs;
+}
+
+}  // namespace
+
 void validate(const Circuit& c) {
     const std::string topo(topology_name(c.topology));
     for (const std::string& name : resistor_names(c.topology)) {
         const double v = resistor_value(c, name);
         if (v == 0.0) {
-            throw InputError("--" + name, "", "the " + topo + " circuit needs this resistor; give its value");
+            throw InputError(resistor_input(name), "", "the " + topo + " circuit needs this resistor; give its value");
         }
         if (!std::isfinite(v) || v < 0.0) {
-            throw InputError("--" + name, describe(v), "a resistance must be positive");
+            throw InputError(resistor_input(name), describe(v), "a resistance must be positive");
         }
     }
     if (!std::isfinite(c.lead_ohm) || c.lead_ohm < 0.0) {

@@ -205,4 +205,33 @@ InnerBest best_second(const SizingSpec& spec, const Grid& grid, const Thermistor
     return {std::exp(v), fv};
 }
 
+ObjectiveCurve objective_curve(const SizingSpec& spec, const Grid& grid, const Thermistor& model, double lo_ohm,
+                               double hi_ohm, int n, double optimum_ohm) {
+    const bool two = free_resistors(spec.base.topology).size() == 2;
+    const Constraints& k = spec.constraints;
+    const bool constrained = std::isfinite(k.max_power_w) || std::isfinite(k.max_self_heating_k) || k.min_span > 0.0 ||
+                             k.min_sensitivity > 0.0;
+    n = std::max(2, n);
+    ObjectiveCurve curve;
+    std::vector<double>& xs = curve.first_ohm;
+    xs.reserve(static_cast<std::size_t>(n) + 1);
+    for (int i = 0; i < n; ++i) xs.push_back(lo_ohm * std::pow(hi_ohm / lo_ohm, static_cast<double>(i) / (n - 1)));
+    // The optimum itself is a point of the curve, so the curve reaches the marker at its minimum.
+    if (optimum_ohm > lo_ohm && optimum_ohm < hi_ohm) xs.insert(std::upper_bound(xs.begin(), xs.end(), optimum_ohm), optimum_ohm);
+    for (const double x : xs) {
+        double v = 0.0;
+        bool ok = true;
+        if (two) {
+            v = best_second(spec, grid, model, x).objective_pct_fsd;
+        } else {
+            const Circuit c = sized_circuit(spec, model, {x});
+            v = objective(spec, grid, c);
+            if (constrained) ok = !failed_constraint(spec, evaluate(spec, grid, model, c)).has_value();
+        }
+        curve.objective_pct_fsd.push_back(std::isfinite(v) ? v : NAN);
+        curve.meets.push_back(ok);
+    }
+    return curve;
+}
+
 }  // namespace rtline
