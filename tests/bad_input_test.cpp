@@ -185,7 +185,8 @@ TEST_CASE("a budget takes the grid rule, and a table a span of at least 5 conver
 }
 
 TEST_CASE("table and budget warn as check and size do: on stderr, and in JSON's warnings") {
-    const std::string w = "--beta '8000': a B-value of 8000 K is unusual for an NTC part (most lie from 2000 to 6000 K)";
+    const std::string w =
+        "--beta '8000': a B-value of 8000 K is unusual for an NTC part (most lie from 2000 to 6000 K)";
     for (auto args : {kTable, kBudget, kCheck, kSize}) {
         if (args == kCheck) args = with(args, {"divider-low", "--rs", "10k"});
         args = with(args, {"--beta", "8000", "--format"});
@@ -272,12 +273,15 @@ TEST_CASE("an argument mistake is named in our words, with the nearest real name
          "unknown option --compare for model (see rtline model --help)"},
         {"an unknown command",
          {"linearize"},
-         "unknown command 'linearize'; choose model, fit, check, size, table or budget (see rtline --help)"},
+         "unknown command 'linearize'; choose model, fit, check, size, table, budget or design (see rtline --help)"},
         {"a command two letters off",
          {"chekc"},
-         "unknown command 'chekc'; did you mean check?; choose model, fit, check, size, table or budget (see rtline "
+         "unknown command 'chekc'; did you mean check?; choose model, fit, check, size, table, budget or design (see "
+         "rtline "
          "--help)"},
-        {"no command", {}, "no command given; choose model, fit, check, size, table or budget (see rtline --help)"},
+        {"no command",
+         {},
+         "no command given; choose model, fit, check, size, table, budget or design (see rtline --help)"},
         {"an option before the command",
          {"--verbose", "model"},
          "unknown option --verbose before the command; the program takes --help and --version (see rtline --help)"},
@@ -535,43 +539,61 @@ TEST_CASE("a thermistor no NTC part could be is refused, and an unusual one warn
         {"a B-value with a digit missing",
          {"check", "--r25", "10k", "--beta", "395", "--span", "0:50", "--circuit", "divider-low", "--rs", "10k"},
          "--beta '395': a B-value of 395 K " + b_range + "; a digit missing?"},
-        {"a resistance in milliohm", {"model", "--r25", "1e-3", "--beta", "3950", "--span", "0:50"},
-         "--r25 '1e-3': a resistance of 0R001 ohm at 25 \xC2\xB0""C " + r_range},
-        {"a resistance past 1 Gohm", {"model", "--r25", "5G", "--beta", "3950", "--span", "0:50"},
-         "--r25 '5G': a resistance of 5G ohm at 25 \xC2\xB0""C " + r_range},
+        {"a resistance in milliohm",
+         {"model", "--r25", "1e-3", "--beta", "3950", "--span", "0:50"},
+         "--r25 '1e-3': a resistance of 0R001 ohm at 25 \xC2\xB0"
+         "C " +
+             r_range},
+        {"a resistance past 1 Gohm",
+         {"model", "--r25", "5G", "--beta", "3950", "--span", "0:50"},
+         "--r25 '5G': a resistance of 5G ohm at 25 \xC2\xB0"
+         "C " +
+             r_range},
         // 1 ohm stated at 0 °C with B = 3950 K is 1·exp(3950·(1/298.15 − 1/273.15)) = e^-1.2126 = 0.2974 ohm
         // at 25 °C (by hand), below any part; the hint is the value a thousand times larger.
         {"a resistance judged at 25 degC, not at T0",
          {"model", "--r25", "1", "--beta", "3950", "--t0", "0", "--span", "0:50"},
-         "--r25 '1': a resistance of 0R2974 ohm at 25 \xC2\xB0""C " + r_range + "; did you mean 297R4?"},
+         "--r25 '1': a resistance of 0R2974 ohm at 25 \xC2\xB0"
+         "C " +
+             r_range + "; did you mean 297R4?"},
         {"a reference temperature in kelvin", with(kModel, {"--t0", "298.15", "--span", "0:50"}),
-         "--t0 '298.15': looks like kelvin without its K (298.15 K = 25 \xC2\xB0""C); write 25 or 298.15K"},
+         "--t0 '298.15': looks like kelvin without its K (298.15 K = 25 \xC2\xB0"
+         "C); write 25 or 298.15K"},
         {"a beta fit's reference temperature in kelvin",
          {"fit", "--points", "-", "--model", "beta", "--t0", "273.15"},
-         "--t0 '273.15': looks like kelvin without its K (273.15 K = 0 \xC2\xB0""C); write 0 or 273.15K",
+         "--t0 '273.15': looks like kelvin without its K (273.15 K = 0 \xC2\xB0"
+         "C); write 0 or 273.15K",
          "t_c,r_ohm\n0,32k\n25,10k\n50,3k6\n"},
         {"a span in kelvin", with(kCheck, {"divider-low", "--rs", "10k", "--span", "233.15:303.15"}),
-         "--span '233.15:303.15': looks like kelvin without its K (233.15 to 303.15 K = -40 to 30 \xC2\xB0""C); "
+         "--span '233.15:303.15': looks like kelvin without its K (233.15 to 303.15 K = -40 to 30 \xC2\xB0"
+         "C); "
          "write -40:30 or 233.15K:303.15K"},
         {"a span in kelvin for a table",
          {"table", "--r25", "10k", "--beta", "3950", "--span", "273.15:318.15", "--circuit", "divider-low", "--rs",
           "10k"},
-         "--span '273.15:318.15': looks like kelvin without its K (273.15 to 318.15 K = 0 to 45 \xC2\xB0""C); "
+         "--span '273.15:318.15': looks like kelvin without its K (273.15 to 318.15 K = 0 to 45 \xC2\xB0"
+         "C); "
          "write 0:45 or 273.15K:318.15K"},
     });
     check_warned({
         {"an unusually steep B-value", with(kModel, {"--beta", "8000", "--span", "0:50"}),
          "--beta '8000': a B-value of 8000 K is unusual for an NTC part (most lie from 2000 to 6000 K)"},
-        {"a resistance typed without its k", {"model", "--r25", "10", "--beta", "3950", "--span", "0:50"},
-         "--r25 '10': a resistance of 10 ohm at 25 \xC2\xB0""C is unusual for an NTC sensor (most lie from 100 ohm "
+        {"a resistance typed without its k",
+         {"model", "--r25", "10", "--beta", "3950", "--span", "0:50"},
+         "--r25 '10': a resistance of 10 ohm at 25 \xC2\xB0"
+         "C is unusual for an NTC sensor (most lie from 100 ohm "
          "to 10M ohm); did you mean 10k?"},
         // 310 °C is past the 300 °C of glass-encapsulated parts, but a high-temperature part may be meant.
         {"a reference temperature that may be kelvin", with(kModel, {"--t0", "310", "--span", "0:50"}),
-         "--t0 '310': is above 300 \xC2\xB0""C, beyond most NTC parts; if it is kelvin (310 K = 36.85 \xC2\xB0""C), "
+         "--t0 '310': is above 300 \xC2\xB0"
+         "C, beyond most NTC parts; if it is kelvin (310 K = 36.85 \xC2\xB0"
+         "C), "
          "write 36.85 or 310K"},
         {"a span that may be kelvin", with(kModel, {"--span", "250:350"}),
-         "--span '250:350': reaches above 300 \xC2\xB0""C, beyond most NTC parts; if it is kelvin (250 to 350 K = "
-         "-23.15 to 76.85 \xC2\xB0""C), write -23.15:76.85 or 250K:350K"},
+         "--span '250:350': reaches above 300 \xC2\xB0"
+         "C, beyond most NTC parts; if it is kelvin (250 to 350 K = "
+         "-23.15 to 76.85 \xC2\xB0"
+         "C), write -23.15:76.85 or 250K:350K"},
     });
     // Typed in kelvin with the K, or in °C, the same span and T0 pass silently.
     for (const auto& args : {with(kModel, {"--t0", "298.15K", "--span", "233.15K:303.15K"}),
@@ -616,24 +638,39 @@ TEST_CASE("an R-T file whose temperature column reads as kelvin or as degF is re
     CHECK(k["celsius"]["b_k"].get<double>() > 10000.0);
     CHECK(k["kelvin"]["b_k"].get<double>() == doctest::Approx(3802.0).epsilon(1e-3));
     const std::string kelvin_why =
-        "the temperatures read as kelvin, not \xC2\xB0""C: as \xC2\xB0""C the points imply B = " +
+        "the temperatures read as kelvin, not \xC2\xB0"
+        "C: as \xC2\xB0"
+        "C the points imply B = " +
         fixed0(k["celsius"]["b_k"].get<double>()) + " K and " +
-        rtline::format_resistance(k["celsius"]["r25_ohm"].get<double>(), 4) + " ohm at 25 \xC2\xB0""C, as kelvin B = " +
+        rtline::format_resistance(k["celsius"]["r25_ohm"].get<double>(), 4) +
+        " ohm at 25 \xC2\xB0"
+        "C, as kelvin B = " +
         fixed0(k["kelvin"]["b_k"].get<double>()) + " K and " +
         rtline::format_resistance(k["kelvin"]["r25_ohm"].get<double>(), 4) +
-        " ohm at 25 \xC2\xB0""C; give them in \xC2\xB0""C, or head the column t_k";
+        " ohm at 25 \xC2\xB0"
+        "C; give them in \xC2\xB0"
+        "C, or head the column t_k";
     // Read as °C, the °F column gives a plausible B (2642 K) but misses the points 10 times more than
     // read as °F (5335 mK against 543 mK).
     CHECK(f["celsius"]["max_residual_mk"].get<double>() > 5.0 * f["fahrenheit"]["max_residual_mk"].get<double>());
     const std::string fahrenheit_why =
-        "the temperatures read as \xC2\xB0""F, not \xC2\xB0""C: a beta model misses the points by up to " +
-        fixed0(f["celsius"]["max_residual_mk"].get<double>()) + " mK as \xC2\xB0""C and " +
-        fixed0(f["fahrenheit"]["max_residual_mk"].get<double>()) + " mK as \xC2\xB0""F; convert them to \xC2\xB0""C";
+        "the temperatures read as \xC2\xB0"
+        "F, not \xC2\xB0"
+        "C: a beta model misses the points by up to " +
+        fixed0(f["celsius"]["max_residual_mk"].get<double>()) +
+        " mK as \xC2\xB0"
+        "C and " +
+        fixed0(f["fahrenheit"]["max_residual_mk"].get<double>()) +
+        " mK as \xC2\xB0"
+        "F; convert them to \xC2\xB0"
+        "C";
     const std::string in_kelvin = freezer_points(as_kelvin);
     const std::string in_fahrenheit = freezer_points(as_fahrenheit);
     check_refused({
         {"kelvin under t_c, fitted", {"fit", "--points", "-"}, "stdin: " + kelvin_why, in_kelvin},
-        {"kelvin under t_c, as a beta fit", {"fit", "--points", "-", "--model", "beta"}, "stdin: " + kelvin_why,
+        {"kelvin under t_c, as a beta fit",
+         {"fit", "--points", "-", "--model", "beta"},
+         "stdin: " + kelvin_why,
          in_kelvin},
         {"kelvin under t_c, as a table model",
          {"model", "--points", "-", "--model", "table", "--span", "250:300"},

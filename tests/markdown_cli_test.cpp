@@ -12,6 +12,7 @@
 #include <vector>
 
 #include "rtline/budget.hpp"
+#include "markdown_reading.hpp"
 #include "support.hpp"
 
 namespace {
@@ -19,6 +20,12 @@ namespace {
 using nlohmann::json;
 using rtline::test::python_ref;
 using rtline::test::run_rtline;
+using rtline::test::table_under;
+using rtline::test::column;
+using rtline::test::stands_for;
+using rtline::test::check_column;
+using rtline::test::rkm;
+using rtline::test::resistors_of;
 using Args = std::vector<std::string>;
 
 // Our own thermistor for every case: beta model R25 = 10 kΩ, B = 3950 K.
@@ -48,53 +55,6 @@ Page run_both(const Args& args) {
     return {python_ref("markdown_read.py", {{"text", md.out}}), json::parse(js.out), md.err};
 }
 
-const json& table_under(const json& md, const std::string& heading) {
-    for (const json& t : md["tables"]) {
-        if (t["heading"] == heading) return t;
-    }
-    FAIL("no table under the heading '" << heading << "'");
-    static const json none;
-    return none;
-}
-
-std::size_t column(const json& table, const std::string& header) {
-    for (std::size_t i = 0; i < table["header"].size(); ++i) {
-        if (table["header"][i] == header) return i;
-    }
-    FAIL("no column '" << header << "' in " << table["header"].dump());
-    return 0;
-}
-
-// True when `cell`, a number printed rounded ("0.0132", "4498", "1.2e-05", "-" for none), stands
-// for `value` (null for none): within half a unit of its last printed digit.
-bool stands_for(const std::string& cell, const json& value) {
-    if (cell == "-") return value.is_null();
-    if (value.is_null()) return false;
-    const double v = value.get<double>();
-    char* end = nullptr;
-    const double x = std::strtod(cell.c_str(), &end);
-    if (end == cell.c_str() || *end != '\0') return false;
-    if (cell == "0" || cell == "-0") return std::abs(v) <= 1e-12;
-    const std::size_t e = cell.find_first_of("eE");
-    const std::string mantissa = cell.substr(0, e);
-    const std::size_t dot = mantissa.find('.');
-    const int decimals = dot == std::string::npos ? 0 : static_cast<int>(mantissa.size() - dot - 1);
-    const int exponent = e == std::string::npos ? 0 : std::atoi(cell.c_str() + e + 1);
-    const double half_unit = 0.5 * std::pow(10.0, exponent - decimals);
-    return std::abs(x - v) <= half_unit * (1.0 + 1e-9) + 1e-12 * std::abs(v);
-}
-
-// Every row of `header`'s column against the reference figures, in order.
-void check_column(const json& table, const std::string& header, const std::vector<json>& expected) {
-    const std::size_t c = column(table, header);
-    REQUIRE(table["rows"].size() == expected.size());
-    for (std::size_t i = 0; i < expected.size(); ++i) {
-        const std::string cell = table["rows"][i][c];
-        INFO(header << ", row " << i << ": '" << cell << "' against " << expected[i].dump());
-        CHECK(stands_for(cell, expected[i]));
-    }
-}
-
 std::vector<json> pluck(const json& rows, const std::vector<std::string>& path, double scale = 1.0) {
     std::vector<json> out;
     for (const json& r : rows) {
@@ -103,35 +63,6 @@ std::vector<json> pluck(const json& rows, const std::vector<std::string>& path, 
         out.push_back(v.is_null() || scale == 1.0 ? v : json(scale * v.get<double>()));
     }
     return out;
-}
-
-// A resistance in the RKM code of IEC 60062 ("8k2" is 8.2 kΩ, "100" is 100 Ω): the letter stands for
-// the decimal point and the multiplier.
-double rkm(const std::string& text) {
-    const std::string letters = "RkMG";
-    const double scales[] = {1.0, 1e3, 1e6, 1e9};
-    for (std::size_t i = 0; i < letters.size(); ++i) {
-        const std::size_t at = text.find(letters[i]);
-        if (at == std::string::npos) continue;
-        std::string number = text;
-        number[at] = '.';
-        return std::strtod(number.c_str(), nullptr) * scales[i];
-    }
-    return std::strtod(text.c_str(), nullptr);
-}
-
-// "rs = 8k2, rp = 47k" as name -> ohm.
-json resistors_of(const std::string& cell) {
-    json r = json::object();
-    std::size_t at = 0;
-    while (at < cell.size()) {
-        const std::size_t eq = cell.find(" = ", at);
-        const std::size_t comma = cell.find(", ", eq);
-        const std::string value = cell.substr(eq + 3, comma == std::string::npos ? std::string::npos : comma - eq - 3);
-        r[cell.substr(at, eq - at)] = rkm(value);
-        at = comma == std::string::npos ? cell.size() : comma + 2;
-    }
-    return r;
 }
 
 bool has_caution(const json& md) {

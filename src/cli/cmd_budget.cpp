@@ -5,6 +5,7 @@
 #include <memory>
 #include <tuple>
 
+#include "budget_flags.hpp"
 #include "commands.hpp"
 #include "common.hpp"
 #include "markdown.hpp"
@@ -20,35 +21,7 @@ struct BudgetOptions {
     ModelOptions model;
     SpanOptions span;
     CircuitOptions circuit;
-    std::string r25_tol;             // %; default 1, or 0 with --dt-tol
-    std::string beta_tol;            // %; default 1, or 0 with --dt-tol
-    std::string resistor_tol = "1";  // %
-    std::string resistor_tc;         // ppm/K
-    std::string board_temp = "sensed";
-    std::string dt_tol;    // K
-    std::string dt_range;  // °C LO:HI
-    std::string drift;     // %
-    std::string part_sh;
-    std::string part_points;
-    std::string lead_tol;  // %
-    std::string cable_temp;
-    std::string lead_compensation = "yes";
-    std::string adc_offset;  // LSB
-    std::string adc_gain;    // %
-    std::string adc_inl;     // LSB
-    std::string adc_transfer;
-    std::string ref_tol;         // %
-    std::string ref_tc;          // ppm/K
-    std::string excitation_tol;  // %; default 1 when the reading is in volts, else not applicable
-    std::string distribution = "normal";
-    std::string reading = "model";
-    std::string adc_bits;
-    std::string adc_error;    // LSB
-    std::string adc_ref;      // "excitation" or a voltage; default: the excitation voltage as a fixed reference
-    std::string dissipation;  // mW/K
-    std::string trials = "100000";
-    std::string seed;
-    std::string threads;
+    BudgetFlags parts;  // tolerances, environment, converter, Monte Carlo
     OutputOptions out;
     std::string svg;  // --svg FILE
 };
@@ -56,155 +29,6 @@ struct BudgetOptions {
 const char* const kDegC =
     "\xC2\xB0"
     "C";
-
-double parse_percent(const std::string& text, const std::string& flag) {
-    std::string s = text;
-    if (!s.empty() && s.back() == '%') s.pop_back();
-    const double v = parse_number(s, flag);
-    if (!(v >= 0.0 && v < 100.0))
-        throw InputError(flag, text, "a tolerance must be at least 0 and below 100 (percent)");
-    return v / 100.0;
-}
-
-// A whole number in [lo, hi] (written plainly or as 1e6); throws InputError naming `flag`.
-std::uint64_t parse_count(const std::string& text, const std::string& flag, double lo, double hi,
-                          const std::string& why) {
-    double v = 0.0;
-    try {
-        v = parse_number(text, flag);
-    } catch (const InputError&) {
-        throw InputError(flag, text, why);
-    }
-    if (!(v >= lo && v <= hi) || v != std::floor(v)) throw InputError(flag, text, why);
-    return static_cast<std::uint64_t>(v);
-}
-
-std::uint64_t parse_seed(const std::string& text) {
-    std::uint64_t v = 0;
-    const char* end = text.data() + text.size();
-    const auto [ptr, ec] = std::from_chars(text.data(), end, v);
-    if (text.empty() || ec != std::errc() || ptr != end) {
-        throw InputError("--seed", text, "the seed must be a whole number from 0 to 18446744073709551615");
-    }
-    return v;
-}
-
-// A number with an optional unit suffix (e.g. "2LSB", "50ppm/K"), at least 0.
-double parse_nonnegative(const std::string& text, const std::string& flag, const std::string& suffix) {
-    std::string t = text;
-    if (t.size() > suffix.size() && t.compare(t.size() - suffix.size(), suffix.size(), suffix) == 0) {
-        t.resize(t.size() - suffix.size());
-    }
-    const double v = parse_number(t, flag);
-    if (!(v >= 0.0)) throw InputError(flag, text, "must be 0 or more");
-    return v;
-}
-
-// A temperature range LO:HI or a single temperature, °C, as kelvin.
-std::pair<double, double> parse_range(const std::string& text, const std::string& flag) {
-    if (text.find(':') == std::string::npos) {
-        const double t = parse_temperature(text, flag);
-        return {t, t};
-    }
-    const Span sp = parse_span(text, flag);
-    return {sp.lo_k, sp.hi_k};
-}
-
-BudgetSpec build_spec(const BudgetOptions& o, const Circuit& circuit) {
-    BudgetSpec s;
-    const bool dt = !o.dt_tol.empty();
-    if (dt && (!o.r25_tol.empty() || !o.beta_tol.empty())) {
-        throw InputError(!o.r25_tol.empty() ? "--r25-tol" : "--beta-tol", !o.r25_tol.empty() ? o.r25_tol : o.beta_tol,
-                         "--dt-tol already states the thermistor's tolerance; give it one way, not both");
-    }
-    s.tolerance.r25 = o.r25_tol.empty() ? (dt ? 0.0 : 0.01) : parse_percent(o.r25_tol, "--r25-tol");
-    s.tolerance.beta = o.beta_tol.empty() ? (dt ? 0.0 : 0.01) : parse_percent(o.beta_tol, "--beta-tol");
-    if (dt) {
-        s.tolerance.thermistor_dt_k = parse_nonnegative(o.dt_tol, "--dt-tol", "K");
-        if (o.dt_range.empty())
-            throw InputError("--dt-range", "", "--dt-tol needs the range it holds over, LO:HI degC");
-        std::tie(s.dt_lo_k, s.dt_hi_k) = parse_range(o.dt_range, "--dt-range");
-    } else if (!o.dt_range.empty()) {
-        throw InputError("--dt-range", o.dt_range, "applies only with --dt-tol");
-    }
-    if (!o.drift.empty()) s.tolerance.thermistor_drift = parse_percent(o.drift, "--drift");
-    if (!o.resistor_tc.empty())
-        s.tolerance.resistor_tc_per_k = 1e-6 * parse_nonnegative(o.resistor_tc, "--resistor-tc", "ppm/K");
-    if (o.board_temp != "sensed") {
-        s.board.sensed = false;
-        std::tie(s.board.lo_k, s.board.hi_k) = parse_range(o.board_temp, "--board-temp");
-    }
-    if (!o.lead_tol.empty()) s.tolerance.lead = parse_percent(o.lead_tol, "--lead-tol");
-    if (!o.cable_temp.empty()) std::tie(s.cable_lo_k, s.cable_hi_k) = parse_range(o.cable_temp, "--cable-temp");
-    if (o.lead_compensation != "yes" && o.lead_compensation != "no") {
-        throw InputError("--lead-compensation", o.lead_compensation,
-                         "choose yes (the firmware subtracts --lead) or no");
-    }
-    s.lead_compensated = o.lead_compensation == "yes";
-    if (!o.part_sh.empty() && !o.part_points.empty()) {
-        throw InputError("--part-points", o.part_points, "give the part's curve one way: --part-sh or --part-points");
-    }
-    if (!o.part_sh.empty()) {
-        ModelOptions m;
-        m.sh = o.part_sh;
-        try {
-            s.part = build_model(m);
-        } catch (const InputError& e) {
-            throw InputError("--part-sh", o.part_sh, e.why());
-        }
-    }
-    if (!o.part_points.empty()) {
-        ModelOptions m;
-        m.points = o.part_points;
-        m.model = "table";
-        s.part = build_model(m);
-    }
-    if (!o.adc_offset.empty()) s.adc.offset_lsb = parse_nonnegative(o.adc_offset, "--adc-offset", "LSB");
-    if (!o.adc_inl.empty()) s.adc.inl_lsb = parse_nonnegative(o.adc_inl, "--adc-inl", "LSB");
-    if (!o.adc_gain.empty()) s.adc.gain = parse_percent(o.adc_gain, "--adc-gain");
-    s.adc.transfer = build_adc_transfer(o.adc_transfer);
-    if (!o.ref_tol.empty()) s.tolerance.reference = parse_percent(o.ref_tol, "--ref-tol");
-    if (!o.ref_tc.empty()) s.tolerance.reference_tc_per_k = 1e-6 * parse_nonnegative(o.ref_tc, "--ref-tc", "ppm/K");
-    s.tolerance.resistors = parse_percent(o.resistor_tol, "--resistor-tol");
-    s.distribution = parse_distribution(o.distribution, "--distribution");
-    s.reading = parse_reading(o.reading, "--reading");
-
-    if (!o.adc_bits.empty()) {
-        s.adc.bits = static_cast<int>(parse_count(o.adc_bits, "--adc-bits", 1, 24, "a converter has 1 to 24 bits"));
-    }
-    ConverterReference ref;
-    if (o.adc_ref == "excitation") {
-        ref.kind = ConverterReference::Kind::excitation;
-    } else if (!o.adc_ref.empty()) {
-        ref.kind = ConverterReference::Kind::fixed;
-        ref.volts = parse_quantity(o.adc_ref, "--adc-ref", "V");
-    }
-    try {
-        set_converter_reference(s, circuit, ref);
-    } catch (const InputError& e) {
-        throw e.with_value(o.adc_ref);  // quoted as typed
-    }
-    s.tolerance.excitation = o.excitation_tol.empty() ? default_excitation_tolerance(s, circuit)
-                                                      : parse_percent(o.excitation_tol, "--excitation-tol");
-    if (!o.adc_error.empty()) {
-        std::string e = o.adc_error;
-        if (e.size() > 3 && e.compare(e.size() - 3, 3, "LSB") == 0) e.resize(e.size() - 3);
-        s.adc.error_lsb = parse_number(e, "--adc-error");
-        if (!(s.adc.error_lsb >= 0.0))
-            throw InputError("--adc-error", o.adc_error, "the converter error must be at least 0 LSB");
-    }
-    if (!o.dissipation.empty()) {
-        s.dissipation_w_per_k = 1e-3 * parse_number(o.dissipation, "--dissipation");
-        if (!(s.dissipation_w_per_k > 0.0)) {
-            throw InputError("--dissipation", o.dissipation, "the dissipation constant must be positive (mW/K)");
-        }
-    }
-    s.trials = parse_count(o.trials, "--trials", 0, static_cast<double>(kMaxTrials),
-                           "the number of trials must be a whole number from 0 to " + std::to_string(kMaxTrials));
-    s.seed = o.seed.empty() ? kDefaultSeed : parse_seed(o.seed);
-    s.threads = build_threads(o.threads);
-    return s;
-}
 
 std::string reading_description(const BudgetSpec& s, const Circuit& circuit, const std::string& unit) {
     std::string t = s.reading == Reading::model
@@ -550,7 +374,7 @@ void run_budget(const BudgetOptions& o) {
                              std::to_string(kMaxBudgetPoints));
     }
     const Circuit circuit = build_circuit(o.circuit, thermistor, span);
-    const BudgetSpec spec = build_spec(o, circuit);
+    const BudgetSpec spec = build_budget_spec(o.parts, circuit);
     if (!o.svg.empty()) check_svg_path(o.svg, o.out.output);
     const Budget b = compute_budget(grid, thermistor, circuit, spec);
     const std::string unit = reading_unit(circuit, spec);
@@ -583,69 +407,7 @@ void setup_budget(CLI::App& app) {
         ->description(
             "divider-high, divider-low, shunt-divider, bridge or shunt-bridge; bare or shunt with "
             "--current");
-    const char* tol = "Tolerances";
-    sub->add_option("--r25-tol", opt->r25_tol, "Thermistor resistance at T0, +-% (default 1; 0 with --dt-tol)")
-        ->group(tol);
-    sub->add_option("--beta-tol", opt->beta_tol, "Thermistor B-value, +-% (default 1; 0 with --dt-tol)")->group(tol);
-    sub->add_option("--dt-tol", opt->dt_tol,
-                    "Thermistor interchangeability, +-K over --dt-range (instead of --r25-tol and --beta-tol)")
-        ->group(tol);
-    sub->add_option("--dt-range", opt->dt_range, "The range --dt-tol holds over, LO:HI degC")->group(tol);
-    sub->add_option("--drift", opt->drift, "Thermistor long-term drift, +-% of R (default 0)")->group(tol);
-    sub->add_option("--part-sh", opt->part_sh,
-                    "The part's real curve, Steinhart-Hart A,B,C, while the firmware inverts the model (model error)")
-        ->group(tol);
-    sub->add_option("--part-points", opt->part_points,
-                    "The part's real curve as R-T points (CSV t_c,r_ohm, interpolated) while the firmware inverts the "
-                    "model (model error)")
-        ->check(non_empty_file_name)
-        ->group(tol);
-    sub->add_option("--resistor-tol", opt->resistor_tol, "Every fixed resistor, +-% (default 1)")->group(tol);
-    sub->add_option("--resistor-tc", opt->resistor_tc, "Every fixed resistor's temperature coefficient, +-ppm/K")
-        ->group(tol);
-    sub->add_option("--board-temp", opt->board_temp,
-                    "Where the resistors and reference sit: sensed (a probe inside the product, default) or LO:HI "
-                    "degC (a remote probe)")
-        ->group(tol);
-    sub->add_option("--lead-tol", opt->lead_tol, "Lead wires' loop resistance (--lead), +-%")->group(tol);
-    sub->add_option("--cable-temp", opt->cable_temp,
-                    "Lead wires' temperature, degC or LO:HI (default 20; copper 0.393 %/K, IEC 60028)")
-        ->group(tol);
-    sub->add_option("--lead-compensation", opt->lead_compensation,
-                    "yes: the firmware subtracts --lead (default); no: the whole lead is an error")
-        ->group(tol);
-    sub->add_option("--excitation-tol", opt->excitation_tol,
-                    "Drive voltage or current, +-% (default 1; only for a reading in volts)")
-        ->group(tol);
-    sub->add_option("--distribution", opt->distribution,
-                    "Monte Carlo spread: normal (tolerance = 3 sigma, default), normal-truncated (screened at the "
-                    "tolerance) or uniform")
-        ->group(tol);
-    const char* rd = "Reading";
-    sub->add_option("--reading", opt->reading,
-                    "model (firmware inverts the nominal model, default) or line (the endpoint line)")
-        ->group(rd);
-    sub->add_option("--adc-bits", opt->adc_bits, "Converter resolution, 1 to 24 bits (default: no converter)")
-        ->group(rd);
-    add_adc_transfer_option(*sub, opt->adc_transfer, rd);
-    sub->add_option("--adc-offset", opt->adc_offset, "Converter offset, +-LSB")->group(rd);
-    sub->add_option("--adc-gain", opt->adc_gain, "Converter gain error, +-%")->group(rd);
-    sub->add_option("--adc-inl", opt->adc_inl, "Converter integral nonlinearity, +-LSB")->group(rd);
-    sub->add_option("--adc-error", opt->adc_error, "Further converter error bound, +-LSB (needs --adc-bits)")
-        ->group(rd);
-    sub->add_option("--adc-ref", opt->adc_ref,
-                    "Converter reference: excitation (ratiometric) or volts (default: the --excitation voltage as "
-                    "a fixed reference; ratiometric without a drive)")
-        ->group(rd);
-    sub->add_option("--ref-tol", opt->ref_tol, "Reference voltage, +-%")->group(rd);
-    sub->add_option("--ref-tc", opt->ref_tc, "Reference temperature coefficient, +-ppm/K")->group(rd);
-    sub->add_option("--dissipation", opt->dissipation, "Thermistor dissipation constant, mW/K (self-heating)")
-        ->group(rd);
-    const char* mc = "Monte Carlo";
-    sub->add_option("--trials", opt->trials, "Monte Carlo trials (default 100000; 0 = worst case only)")->group(mc);
-    sub->add_option("--seed", opt->seed, "Random seed (default " + std::to_string(kDefaultSeed) + ")")->group(mc);
-    sub->add_option("--threads", opt->threads, "Threads (default: every core; the result does not depend on it)")
-        ->group(mc);
+    add_budget_flags(*sub, opt->parts);
     add_output_options(*sub, opt->out, true);
     add_svg_option(*sub, opt->svg);
     sub->footer(

@@ -4,11 +4,13 @@
 #include <memory>
 #include <tuple>
 
+#include "budget_flags.hpp"
 #include "commands.hpp"
 #include "common.hpp"
 #include "markdown.hpp"
 #include "pictures.hpp"
 #include "rtline/error.hpp"
+#include "rtline/objective.hpp"
 #include "rtline/sizing.hpp"
 
 namespace rtline::cli {
@@ -35,6 +37,10 @@ struct SizeCommand {
     std::string min_sensitivity;   // output units per K
     bool compare = false;
     bool tradeoff = false;
+    std::string objective = "nonlinearity";  // nonlinearity | resolution | total-error
+    std::string confidence;                  // total-error: worst-case (default), 95 or 99.7
+    std::string shortlist;                   // how many of the nonlinearity search's best the others rank
+    BudgetFlags parts;                       // the converter and, for total-error, the budget's tolerances
     OutputOptions out;
     std::string svg;  // --svg FILE
 };
@@ -45,6 +51,7 @@ struct Setup {
     Span span;
     Grid grid;
     SizingSpec spec;
+    ObjectiveSpec objective;  // its budget is set once the drive is known (objective_budget)
 };
 
 Setup build_setup(const SizeCommand& o) {
@@ -105,7 +112,47 @@ Setup build_setup(const SizeCommand& o) {
             throw InputError("--null-at", o.circuit.null_at, e.why());
         }
     }
-    return {std::move(model), span, std::move(grid), spec};
+    ObjectiveSpec obj;
+    obj.kind = parse_objective(o.objective, "--objective");
+    if (obj.kind != Objective::total_error && !o.confidence.empty()) {
+        throw InputError("--confidence", o.confidence, "applies only with --objective total-error");
+    }
+    if (!o.confidence.empty()) obj.confidence = parse_confidence(o.confidence, "--confidence");
+    if (!o.shortlist.empty()) {
+        if (obj.kind == Objective::nonlinearity) {
+            throw InputError("--shortlist", o.shortlist, "applies only with --objective resolution or total-error");
+        }
+        obj.shortlist = parse_count(o.shortlist, "--shortlist", 1, 1000, "expected a whole number from 1 to 1000");
+    }
+    return {std::move(model), span, std::move(grid), spec, obj};
+}
+
+// The budget an objective other than nonlinearity judges by, for the drive of `base`: the budget's flags,
+// with size's own --dissipation and --threads.
+BudgetSpec objective_budget(const SizeCommand& o, const Circuit& base) {
+    BudgetFlags parts = o.parts;
+    parts.dissipation = o.dissipation;
+    parts.threads = o.threads;
+    return build_budget_spec(parts, base);
+}
+
+// The objective in words, for the header.
+std::string objective_words(const Setup& s) {
+    const ObjectiveSpec& obj = s.objective;
+    if (obj.kind == Objective::nonlinearity) {
+        return "largest |nonlinearity| against the " + std::string(line_name(s.spec.line)) + " line";
+    }
+    const std::string shortlist = free_resistors(s.spec.base.topology).size() == 1 && obj.kind == Objective::resolution
+                                      ? "every value in range"
+                                      : "the " + std::to_string(obj.shortlist) + " most linear combinations";
+    if (obj.kind == Objective::resolution) {
+        return "resolution, the largest " + std::string(kDeg) + " per code of the " +
+               std::to_string(obj.budget.adc.bits) + "-bit converter over the span (ranking " + shortlist + ")";
+    }
+    return "total error, the budget's largest |error| over the span at " +
+           (obj.confidence == Confidence::worst_case ? std::string("the worst case")
+                                                     : std::string(confidence_name(obj.confidence)) + " %") +
+           " (ranking " + shortlist + ")";
 }
 
 Json resistors_json(const Circuit& c) {
@@ -126,6 +173,11 @@ std::string resistors_text(const Circuit& c, int digits) {
 // Power and self-heating are figures of a drive: a ratiometric design has none.
 bool driven(const Candidate& c) { return c.circuit.excitation.drive != Drive::ratiometric; }
 
+// The JSON key of an objective's figure per candidate.
+std::string objective_key(Objective o) {
+    return o == Objective::resolution ? "resolution_c_per_code" : "total_error_c";
+}
+
 Json candidate_json(const Candidate& c) {
     Json j = {{"topology", std::string(topology_name(c.circuit.topology))},
               {"resistors_ohm", resistors_json(c.circuit)},
@@ -141,7 +193,7 @@ Json candidate_json(const Candidate& c) {
 }
 
 Table candidate_table(const std::vector<Candidate>& cs, const std::string& unit, bool csv, bool with_topology,
-                      bool self_heating) {
+                      bool self_heating, const std::vector<double>& figures = {}, Objective objective = Objective::nonlinearity) {
     std::vector<Column> cols;
     if (with_topology) cols.push_back({"circuit", "topology"});
     const std::vector<std::string> names =
@@ -162,8 +214,13 @@ Table candidate_table(const std::vector<Candidate>& cs, const std::string& unit,
     const bool power = !cs.empty() && driven(cs.front());
     if (power) cols.push_back({csv ? "power (W)" : "power (mW)", "max_power_w", -1, 4});
     if (power && self_heating) cols.push_back({"self-heating (K)", "max_self_heating_k", 4});
+    if (!figures.empty()) {
+        cols.push_back({objective == Objective::resolution ? "resolution (\xC2\xB0" "C/code)" : "total error (\xC2\xB0" "C)",
+                        objective_key(objective), 4});
+    }
     Table t(cols);
-    for (const Candidate& c : cs) {
+    for (std::size_t i = 0; i < cs.size(); ++i) {
+        const Candidate& c = cs[i];
         std::vector<Cell> row;
         if (with_topology) row.emplace_back(std::string(topology_name(c.circuit.topology)));
         if (csv) {
@@ -178,6 +235,7 @@ Table candidate_table(const std::vector<Candidate>& cs, const std::string& unit,
         row.emplace_back(c.sensitivity_max_per_k);
         if (power) row.emplace_back(csv ? c.max_power_w : 1e3 * c.max_power_w);
         if (power && self_heating) row.emplace_back(c.max_self_heating_k);
+        if (!figures.empty()) row.emplace_back(figures[i]);
         t.add_row(std::move(row));
     }
     return t;
@@ -198,8 +256,7 @@ Facts header_facts(const Setup& s, const SizeCommand& o, const std::string& topo
             {"circuit", topology_text},
             {"span", format_number(kelvin_to_celsius(s.span.lo_k)) + " to " +
                          format_number(kelvin_to_celsius(s.span.hi_k)) + " " + kDeg + ", " +
-                         std::to_string(s.grid.size()) + " points; objective: largest |nonlinearity| against the " +
-                         std::string(line_name(s.spec.line)) + " line"},
+                         std::to_string(s.grid.size()) + " points; objective: " + objective_words(s)},
             {"values", std::string(series_name(s.spec.series)) + " from " + format_resistance(s.spec.range_lo_ohm) +
                            " to " + format_resistance(s.spec.range_hi_ohm) + " ohm" +
                            (o.range == "1:10M" ? " (the default range)" : "")}};
@@ -370,6 +427,14 @@ void run_size(const SizeCommand& o) {
     }
     if (!o.svg.empty()) check_svg_path(o.svg, o.out.output);
     Setup s = build_setup(o);
+    if (s.objective.kind != Objective::nonlinearity && (o.compare || o.tradeoff)) {
+        throw InputError("--objective", o.objective,
+                         std::string("ranks the standard values of one topology; leave out ") +
+                             (o.compare ? "--compare" : "--tradeoff"));
+    }
+    if (s.objective.kind != Objective::nonlinearity && !o.svg.empty()) {
+        throw InputError("--svg", o.svg, "draws the nonlinearity objective; leave out --objective, or --svg");
+    }
     std::string bytes;
     if (o.compare) {
         emit(o.out.output, run_compare(o, s, format));
@@ -436,7 +501,27 @@ void run_size(const SizeCommand& o) {
     const Candidate continuous = optimize_continuous(s.spec, s.grid, s.model);
     const bool one = names.size() == 1;
     const ClosedForms cf = closed_forms(s.model, s.span, s.spec.base);
-    const StandardSearch found = search_standard(s.spec, s.grid, s.model);
+    std::vector<double> figures;  // the objective's figure per candidate, when it is not the nonlinearity
+    StandardSearch found;
+    std::size_t ranked_count = 0;  // combinations the objective was evaluated for
+    if (s.objective.kind == Objective::nonlinearity) {
+        found = search_standard(s.spec, s.grid, s.model);
+    } else {
+        s.objective.budget = objective_budget(o, s.spec.base);
+        try {
+            const ObjectiveSearch ranked = search_objective(s.objective, s.spec, s.grid, s.model);
+            found = ranked.nonlinearity;
+            ranked_count = ranked.ranked;
+            found.best.clear();
+            for (const RankedCandidate& r : ranked.best) {
+                found.best.push_back(r.candidate);
+                figures.push_back(r.objective);
+            }
+        } catch (const InputError& e) {
+            if (e.input() == Input::trials) throw e.with_value(o.parts.trials);
+            throw;
+        }
+    }
     if (found.best.empty()) throw infeasible(s.spec, found, "");
     const auto fails = failed_constraint(s.spec, continuous);
     const std::string cont_fails = fails ? flag_name(*fails) : std::string();
@@ -462,12 +547,26 @@ void run_size(const SizeCommand& o) {
                                   {"load_ignored", cf.load_ignored}};
         }
         Json arr = Json::array();
-        for (const Candidate& c : found.best) arr.push_back(candidate_json(c));
+        for (std::size_t i = 0; i < found.best.size(); ++i) {
+            Json c = candidate_json(found.best[i]);
+            if (!figures.empty()) c[objective_key(s.objective.kind)] = figures[i];
+            arr.push_back(c);
+        }
         doc["candidates"] = arr;
+        if (s.objective.kind != Objective::nonlinearity) {
+            Json obj = {{"name", std::string(objective_name(s.objective.kind))},
+                        {"adc_bits", s.objective.budget.adc.bits},
+                        {"ranked", ranked_count}};
+            if (s.objective.kind == Objective::total_error) {
+                obj["confidence"] = std::string(confidence_name(s.objective.confidence));
+                obj["trials"] = s.objective.budget.trials;
+            }
+            doc["objective"] = obj;
+        }
         doc["examined"] = found.examined;
         bytes = dump(doc);
     } else if (csv) {
-        bytes = candidate_table(found.best, unit, true, false, heat).csv();
+        bytes = candidate_table(found.best, unit, true, false, heat, figures, s.objective.kind).csv();
     } else if (format == Format::markdown) {
         Markdown md = markdown_start(s, o, o.circuit.circuit, describe_circuit(s.spec.base));
         md.section("Continuous optimum");
@@ -491,7 +590,7 @@ void run_size(const SizeCommand& o) {
         md.facts(opt);
         md.section("Best " + std::string(series_name(s.spec.series)) + " values");
         md.paragraph(std::to_string(found.examined) + " combinations examined, exhaustively.");
-        md.table(candidate_table(found.best, unit, false, false, heat));
+        md.table(candidate_table(found.best, unit, false, false, heat, figures, s.objective.kind));
         if (!driven(found.best.front()))
             md.facts({{"power, self-heating", "none without a drive; give --excitation V or --current A"}});
         bytes = md.str();
@@ -527,7 +626,7 @@ void run_size(const SizeCommand& o) {
                  "\n";
         }
         t += "\nbest " + std::string(series_name(s.spec.series)) + " values (" + std::to_string(found.examined) +
-             " combinations examined, exhaustively)\n" + candidate_table(found.best, unit, false, false, heat).text();
+             " combinations examined, exhaustively)\n" + candidate_table(found.best, unit, false, false, heat, figures, s.objective.kind).text();
         if (!driven(found.best.front()))
             t += "power, self-heating: none without a drive; give --excitation V or --current A\n";
         bytes = t;
@@ -576,6 +675,18 @@ void setup_size(CLI::App& app) {
     sub->add_option("--min-sensitivity", opt->min_sensitivity,
                     "Smallest |d output/dT| over the span, output units per K")
         ->group("Constraints");
+    sub->add_option("--objective", opt->objective,
+                    "What the standard values are ranked by: nonlinearity (default), resolution (largest degC per "
+                    "code; needs --adc-bits) or total-error (the budget's largest |error|, with its tolerance flags)")
+        ->group("Objective");
+    sub->add_option("--confidence", opt->confidence,
+                    "With total-error: worst-case (default), or the Monte Carlo's 95 or 99.7 % bound of |error|")
+        ->group("Objective");
+    sub->add_option("--shortlist", opt->shortlist,
+                    "With resolution or total-error: how many of the most linear combinations are ranked (default "
+                    "24; resolution ranks every value of a one-resistor topology)")
+        ->group("Objective");
+    add_budget_flags(*sub, opt->parts, {false, false, false, false});
     add_output_options(*sub, opt->out, true);
     add_svg_option(*sub, opt->svg);
     sub->footer(

@@ -13,6 +13,7 @@ void setup_check(CLI::App& app);
 void setup_size(CLI::App& app);
 void setup_table(CLI::App& app);
 void setup_budget(CLI::App& app);
+void setup_design(CLI::App& app);
 
 // The whole program on `app`: every command above, each with --spec and --jsonl declared for --help.
 void build_program(CLI::App& app, const std::string& only = "");

@@ -38,7 +38,7 @@ void build_program(CLI::App& app, const std::string& only) {
     // and declaring every command's flags each time would cost more than the sizing itself.
     const std::pair<const char*, void (*)(CLI::App&)> commands[] = {
         {"model", setup_model}, {"fit", setup_fit},     {"check", setup_check},
-        {"size", setup_size},   {"table", setup_table}, {"budget", setup_budget},
+        {"size", setup_size},   {"table", setup_table}, {"budget", setup_budget}, {"design", setup_design},
     };
     for (const auto& command : commands) {
         if (only.empty() || only == command.first) command.second(app);

@@ -102,7 +102,32 @@ Json parse_spec(const std::string& text, const std::string& field, const std::st
 std::vector<std::string> spec_arguments(const Json& spec_in, const CLI::App& sub, const std::string& base_dir) {
     if (!spec_in.is_object()) throw InputError("--spec", spec_in.type_name(), "a spec must be a JSON object");
     const bool document = spec_in.contains("tool") && spec_in["tool"] == "rtline";
-    const Json spec = document ? design_of(spec_in) : spec_in;
+    Json spec = document ? design_of(spec_in) : spec_in;
+    // A design document's "flags" are the settings it was made with (tolerances, converter, table
+    // target); each command takes those it has a flag for and leaves the others.
+    if (document) {
+        if (const Json* flags = object_at(spec_in, "flags", "flags")) {
+            for (const auto& [key, value] : flags->items()) {
+                std::string flag = "--" + key;
+                for (char& c : flag) {
+                    if (c == '_') c = '-';
+                }
+                if (sub.get_option_no_throw(flag) != nullptr && !spec.contains(key)) spec[key] = value;
+            }
+        }
+        // A design reads back into size (which chooses the resistors itself) as into budget and table.
+        if (spec_in.contains("command") && spec_in["command"] == "design") {
+            Json known = Json::object();
+            for (const auto& [key, value] : spec.items()) {
+                std::string flag = "--" + key;
+                for (char& c : flag) {
+                    if (c == '_') c = '-';
+                }
+                if (sub.get_option_no_throw(flag) != nullptr) known[key] = value;
+            }
+            spec = known;
+        }
+    }
     std::vector<std::string> args;
     for (const auto& [key, value] : spec.items()) {
         if (key == "spec" || key == "jsonl") throw InputError(key_field(key), "", "is not allowed inside a spec");

@@ -1,7 +1,7 @@
 // Spec files and JSON Lines batches. A spec is a JSON object whose keys are a command's long option
 // names with '-' turned into '_' and whose values are numbers or the strings the flags take; it becomes
 // flag arguments placed before the command line's own, so flags given on the command line win. A
-// design document that rtline wrote (check or size JSON) is accepted too: its model, span and circuit
+// design document that rtline wrote (check, size or design JSON) is accepted too: its model, span and circuit
 // are taken from it.
 #pragma once
 

@@ -1,0 +1,131 @@
+// Sizing objectives (objective.hpp): the nonlinearity the exhaustive search ranks by, and the
+// resolution and total error that re-rank its shortlist.
+#include "rtline/objective.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <exception>
+#include <optional>
+
+#include "rtline/analysis.hpp"
+#include "rtline/error.hpp"
+
+namespace rtline {
+
+std::string_view objective_name(Objective o) {
+    switch (o) {
+        case Objective::nonlinearity: return "nonlinearity";
+        case Objective::resolution: return "resolution";
+        case Objective::total_error: return "total-error";
+    }
+    return "nonlinearity";
+}
+
+Objective parse_objective(std::string_view text, std::string_view field) {
+    for (const Objective o : {Objective::nonlinearity, Objective::resolution, Objective::total_error}) {
+        if (text == objective_name(o)) return o;
+    }
+    throw InputError(std::string(field), std::string(text),
+                     "unknown objective; choose nonlinearity, resolution or total-error");
+}
+
+std::string_view objective_unit(Objective o) { return o == Objective::nonlinearity ? "%FSD" : "K"; }
+
+std::string_view confidence_name(Confidence c) {
+    switch (c) {
+        case Confidence::worst_case: return "worst-case";
+        case Confidence::p95: return "95";
+        case Confidence::p99_7: return "99.7";
+    }
+    return "worst-case";
+}
+
+Confidence parse_confidence(std::string_view text, std::string_view field) {
+    std::string_view t = text;
+    if (!t.empty() && t.back() == '%') t.remove_suffix(1);
+    for (const Confidence c : {Confidence::worst_case, Confidence::p95, Confidence::p99_7}) {
+        if (t == confidence_name(c)) return c;
+    }
+    throw InputError(std::string(field), std::string(text),
+                     "unknown confidence; choose worst-case, 95 or 99.7 (a Monte Carlo percentile of |error|)");
+}
+
+void validate(const ObjectiveSpec& spec) {
+    if (spec.kind == Objective::nonlinearity) return;
+    if (spec.budget.adc.bits <= 0) {
+        throw InputError(Input::adc_bits, "",
+                         std::string("the ") + std::string(objective_name(spec.kind)) +
+                             " objective judges the reading at the converter; give its resolution in bits");
+    }
+    if (spec.kind == Objective::total_error && spec.confidence != Confidence::worst_case && spec.budget.trials == 0) {
+        throw InputError(Input::trials, "0",
+                         "a Monte Carlo confidence needs trials; give some, or choose the worst case");
+    }
+}
+
+double resolution_k_per_code(const Grid& grid, const Thermistor& model, const Circuit& c, const Converter& adc) {
+    const double lsb = adc.lsb();
+    double worst = 0.0;
+    for (std::size_t i = 0; i < grid.size(); ++i) {
+        const double s = sensitivity(c, model, grid.t_k[i], grid.r_ohm[i]);
+        worst = std::max(worst, s > 0.0 ? lsb / s : INFINITY);
+    }
+    return worst;
+}
+
+TotalError total_error(const Budget& b, Confidence c) {
+    TotalError e;
+    for (const BudgetPoint& p : b.points) {
+        const double v = c == Confidence::worst_case ? p.worst_case_k
+                         : c == Confidence::p95      ? p.mc.p95_k
+                                                     : p.mc.p99_7_k;
+        if (v > e.error_k) e = {v, p.t_k};
+    }
+    return e;
+}
+
+double objective_value(const ObjectiveSpec& obj, const SizingSpec& spec, const Grid& grid, const Thermistor& model,
+                       const Circuit& c) {
+    switch (obj.kind) {
+        case Objective::nonlinearity: return objective(spec, grid, c);
+        case Objective::resolution: return resolution_k_per_code(grid, model, c, obj.budget.adc);
+        case Objective::total_error: return total_error(compute_budget(grid, model, c, obj.budget), obj.confidence).error_k;
+    }
+    return INFINITY;
+}
+
+ObjectiveSearch search_objective(const ObjectiveSpec& obj, const SizingSpec& spec, const Grid& grid,
+                                 const Thermistor& model) {
+    validate(obj);
+    ObjectiveSearch result;
+    if (obj.kind == Objective::nonlinearity) {
+        result.nonlinearity = search_standard(spec, grid, model);
+        for (const Candidate& c : result.nonlinearity.best) result.best.push_back({c, c.max_nonlinearity_pct_fsd});
+        result.ranked = result.nonlinearity.examined;
+        return result;
+    }
+    SizingSpec wide = spec;
+    const bool every = obj.kind == Objective::resolution && free_resistors(spec.base.topology).size() == 1;
+    wide.top = every ? series_values(spec.series, spec.range_lo_ohm, spec.range_hi_ohm).size()
+                     : std::max(spec.top, obj.shortlist);
+    result.nonlinearity = search_standard(wide, grid, model);
+    std::vector<RankedCandidate> all;
+    std::optional<InputError> refused;  // a budget that cannot be taken for a candidate leaves it out
+    for (const Candidate& c : result.nonlinearity.best) {
+        try {
+            all.push_back({c, objective_value(obj, spec, grid, model, c.circuit)});
+        } catch (const InputError& e) {
+            if (!refused) refused = e;
+        }
+    }
+    if (all.empty() && refused) throw *refused;
+    result.ranked = all.size();
+    // A stable sort keeps the nonlinearity order among equal figures.
+    std::stable_sort(all.begin(), all.end(),
+                     [](const RankedCandidate& a, const RankedCandidate& b) { return a.objective < b.objective; });
+    if (all.size() > spec.top) all.resize(spec.top);
+    result.best = std::move(all);
+    return result;
+}
+
+}  // namespace rtline
