@@ -699,3 +699,42 @@ TEST_CASE("an R-T file whose temperature column reads as kelvin or as degF is re
                    "6000 K)",
                    "t_c,r_ohm\n0,116558.19\n25,10000\n50,1254.5272\n"}});
 }
+
+TEST_CASE("a design's requirements and parts file are refused by their flag, column or line") {
+    const std::vector<std::string> design = {"design", "--span", "-30:10", "--step", "2", "--adc-bits", "12"};
+    const std::vector<std::string> one = with(design, {"--r25", "10k", "--beta", "3950"});
+    const std::vector<std::string> parts = with(design, {"--max-error", "1", "--candidates", "-"});
+    check_refused({
+        {"no accuracy target", one, "--max-error: give the accuracy the design must meet, degC"},
+        {"a zero target", with(one, {"--max-error", "0"}), "--max-error '0': the target must be positive (degC)"},
+        {"a confidence that is no percentile the budget gives", with(one, {"--max-error", "1", "--confidence", "90"}),
+         "--confidence '90': unknown confidence; choose worst-case, 95 or 99.7 (a Monte Carlo percentile of |error|)"},
+        {"a resistor range turned round", with(one, {"--max-error", "1", "--range", "1M:100"}),
+         "--range '1M:100': the low end must be below the high end"},
+        {"a table unit other than 0.1 or 0.01", with(one, {"--max-error", "1", "--unit", "0.5"}),
+         "--unit '0.5': choose 0.1 or 0.01 (degC per count of the fixed-point table)"},
+        {"CSV output for a whole design", with(one, {"--max-error", "1", "--format", "csv"}),
+         "--format 'csv': design writes text, json or markdown"},
+        {"a bridge, which needs an amplifier", with(one, {"--max-error", "1", "--circuit", "bridge"}),
+         "--circuit 'bridge': a design chooses among the dividers (divider-high, divider-low, shunt-divider), "
+         "which the converter reads directly; a bridge needs an amplifier and a bare or shunt thermistor a current "
+         "source"},
+        {"no converter",
+         {"design", "--span", "-30:10", "--r25", "10k", "--beta", "3950", "--max-error", "1"},
+         "--adc-bits: give the converter's resolution in bits"},
+        {"an unknown column in the parts file", parts,
+         "--candidates line 1 'colour': unknown column; the columns are label, r25_ohm, b_k, t0_c, points, "
+         "r25_tol_pct, b_tol_pct and dissipation_mw_per_k",
+         "label,r25_ohm,b_k,colour\nx,10k,3950,red\n"},
+        {"a short row in the parts file", parts, "--candidates line 2 'x,10k': has 2 cells for 3 columns",
+         "label,r25_ohm,b_k\nx,10k\n"},
+        {"a parts file with no part", parts, "--candidates '-': holds no part (a header line, then one part a line)",
+         "label,r25_ohm,b_k\n"},
+        {"a model and a parts file", with(parts, {"--r25", "10k"}),
+         "--candidates '-': give the thermistor one way: a model, or --candidates", "label,r25_ohm,b_k\nx,10k,3950\n"},
+        {"a part's dissipation constant without a drive", parts,
+         "--candidates '-': a part's dissipation_mw_per_k asks for its self-heating, which needs the real drive; give "
+         "--excitation V (with --adc-ref excitation for a ratiometric reading)",
+         "label,r25_ohm,b_k,dissipation_mw_per_k\nx,10k,3950,1.5\n"},
+    });
+}

@@ -71,8 +71,8 @@ std::vector<DesignPart> read_candidates(const std::string& path, const DesignPar
         if (header.empty()) {
             header = cells;
             for (const std::string& h : header) {
-                if (h != "label" && h != "r25_ohm" && h != "b_k" && h != "t0_c" && h != "points" && h != "r25_tol_pct" &&
-                    h != "b_tol_pct" && h != "dissipation_mw_per_k") {
+                if (h != "label" && h != "r25_ohm" && h != "b_k" && h != "t0_c" && h != "points" &&
+                    h != "r25_tol_pct" && h != "b_tol_pct" && h != "dissipation_mw_per_k") {
                     throw InputError(where, h,
                                      "unknown column; the columns are label, r25_ohm, b_k, t0_c, points, "
                                      "r25_tol_pct, b_tol_pct and dissipation_mw_per_k");
@@ -84,9 +84,9 @@ std::vector<DesignPart> read_candidates(const std::string& path, const DesignPar
             continue;
         }
         if (cells.size() != header.size()) {
-            throw InputError(where, line,
-                             "has " + std::to_string(cells.size()) + " cells for " + std::to_string(header.size()) +
-                                 " columns");
+            throw InputError(
+                where, line,
+                "has " + std::to_string(cells.size()) + " cells for " + std::to_string(header.size()) + " columns");
         }
         auto cell = [&](const std::string& name) {
             const auto it = std::find(header.begin(), header.end(), name);
@@ -165,9 +165,12 @@ DesignRun build_run(const DesignCommand& o) {
     s.spacing = parse_spacing(o.spacing, "--spacing");
     {
         const double u = parse_number(o.unit, "--unit");
-        if (std::abs(u - 0.1) < 1e-12) s.scale_per_c = 10;
-        else if (std::abs(u - 0.01) < 1e-12) s.scale_per_c = 100;
-        else throw InputError("--unit", o.unit, "choose 0.1 or 0.01 (degC per count of the fixed-point table)");
+        if (std::abs(u - 0.1) < 1e-12)
+            s.scale_per_c = 10;
+        else if (std::abs(u - 0.01) < 1e-12)
+            s.scale_per_c = 100;
+        else
+            throw InputError("--unit", o.unit, "choose 0.1 or 0.01 (degC per count of the fixed-point table)");
     }
     // The budget: its flags for a divider under the drive (its reading unit and default drive tolerance).
     Circuit probe;
@@ -176,7 +179,8 @@ DesignRun build_run(const DesignCommand& o) {
     if (o.parts.adc_bits.empty()) throw InputError("--adc-bits", "", "give the converter's resolution in bits");
     s.budget = build_budget_spec(flags, probe);
     s.threads = s.budget.threads;
-    if (o.parts.adc_ref == "excitation") s.reference.kind = ConverterReference::Kind::excitation;
+    if (o.parts.adc_ref == "excitation")
+        s.reference.kind = ConverterReference::Kind::excitation;
     else if (!o.parts.adc_ref.empty()) {
         s.reference.kind = ConverterReference::Kind::fixed;
         s.reference.volts = s.budget.adc.full_scale;
@@ -211,6 +215,12 @@ void run_design(const DesignCommand& o) {
         r.design = design(r.spec);
     } catch (const InputError& e) {
         if (e.input() == Input::trials) throw e.with_value(o.parts.trials);
+        if (e.input() == Input::dissipation && o.parts.dissipation.empty() && !o.candidates.empty()) {
+            // The dissipation constant came from the parts file, not from a flag: say so.
+            throw InputError("--candidates", o.candidates,
+                             "a part's dissipation_mw_per_k asks for its self-heating, which needs the real drive; "
+                             "give --excitation V (with --adc-ref excitation for a ratiometric reading)");
+        }
         throw;
     }
     std::string bytes;
@@ -240,7 +250,8 @@ void run_design(const DesignCommand& o) {
 void setup_design(CLI::App& app) {
     auto opt = std::make_shared<DesignCommand>();
     auto* sub = app.add_subcommand(
-        "design", "From requirements to a design: thermistor, topology, standard values and firmware table by total error");
+        "design",
+        "From requirements to a design: thermistor, topology, standard values and firmware table by total error");
     add_model_options(*sub, opt->model);
     sub->add_option("--candidates", opt->candidates,
                     "CSV of your own parts: label, r25_ohm and b_k (or points), r25_tol_pct, b_tol_pct, "
@@ -256,7 +267,8 @@ void setup_design(CLI::App& app) {
         ->group(req);
     sub->add_option("--excitation", opt->excitation, "Drive voltage, V (default: ratiometric, no drive)")->group(req);
     const char* search = "Search";
-    sub->add_option("--series", opt->series, "Standard series allowed, comma-separated (default E24,E96)")->group(search);
+    sub->add_option("--series", opt->series, "Standard series allowed, comma-separated (default E24,E96)")
+        ->group(search);
     sub->add_option("--circuit", opt->circuit,
                     "Topologies allowed, comma-separated: divider-high, divider-low, shunt-divider (default all)")
         ->group(search);
