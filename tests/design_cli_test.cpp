@@ -52,14 +52,14 @@ json brute_input() {
 
 // The design for that space: both parts, divider-low, every E24 value of the range budgeted.
 Args brute_design(const std::string& csv) {
-    return {"design", "--candidates", csv,  "--span",   "-20:60", "--step", "5",     "--max-error",  "1",
-            "--adc-bits", "12", "--trials", "0", "--circuit", "divider-low", "--series", "E24", "--range", "6k8:13k",
-            "--shortlist", "8", "--runners-up", "20"};
+    return {"design", "--candidates", csv,       "--span",      "-20:60", "--step",       "5",           "--max-error",
+            "1",      "--adc-bits",   "12",      "--trials",    "0",      "--circuit",    "divider-low", "--series",
+            "E24",    "--range",      "6k8:13k", "--shortlist", "8",      "--runners-up", "20"};
 }
 
 // Our own single thermistor for the package cases: R25 = 10 kΩ, B = 3950 K, a 12-bit converter.
-const Args kOne = {"design", "--r25", "10k", "--beta", "3950", "--span", "-20:60", "--step", "5",
-                   "--max-error", "1", "--adc-bits", "12", "--trials", "10000"};
+const Args kOne = {"design", "--r25",       "10k", "--beta",     "3950", "--span",   "-20:60", "--step",
+                   "5",      "--max-error", "1",   "--adc-bits", "12",   "--trials", "10000"};
 
 }  // namespace
 
@@ -82,7 +82,8 @@ TEST_CASE("design chooses the tighter part over the more linear one, as a numpy 
     for (const json& o : d["ranked"]) {
         bool found = false;
         for (const json& r : ref["results"]) {
-            if (r["label"] != o["part"] || r["rs_ohm"].get<double>() != o["resistors_ohm"]["rs"].get<double>()) continue;
+            if (r["label"] != o["part"] || r["rs_ohm"].get<double>() != o["resistors_ohm"]["rs"].get<double>())
+                continue;
             found = true;
             INFO(o.dump());
             CHECK(o["error_c"].get<double>() == doctest::Approx(r["worst_case_c"].get<double>()).epsilon(1e-9));
@@ -142,7 +143,8 @@ TEST_CASE("design.json read back by size, budget and table gives the design's fi
     CHECK(s["candidates"][0]["total_error_c"] == d["analog"]["error_c"]);
 }
 
-TEST_CASE("design's header, compiled and run over every code, reads within the shipped error of an independent inverse") {
+TEST_CASE(
+    "design's header, compiled and run over every code, reads within the shipped error of an independent inverse") {
     // Reference: tests/ref/adc_inverse.py (beta equation, Ohm's law, scipy brentq) at every code.
     const TempPath dir;
     const auto run = run_rtline(with(kOne, {"-o", dir.str(), "--prefix", "pack_"}));
@@ -161,8 +163,14 @@ TEST_CASE("design's header, compiled and run over every code, reads within the s
     REQUIRE(built.code == 0);
     const auto ran = run_shell(program.str());
     REQUIRE(ran.code == 0);
-    const json in = {{"r25_ohm", 10000}, {"b_k", 3950}, {"t0_c", 25}, {"topology", d["circuit"]["topology"]},
-                     {"rs_ohm", d["circuit"]["resistors_ohm"]["rs"]}, {"adc_bits", 12}, {"lo_c", -20}, {"hi_c", 60}};
+    const json in = {{"r25_ohm", 10000},
+                     {"b_k", 3950},
+                     {"t0_c", 25},
+                     {"topology", d["circuit"]["topology"]},
+                     {"rs_ohm", d["circuit"]["resistors_ohm"]["rs"]},
+                     {"adc_bits", 12},
+                     {"lo_c", -20},
+                     {"hi_c", 60}};
     const json ref = python_ref("adc_inverse.py", in);
     CHECK(ref["code_lo"] == d["table"]["code_lo"]);
     CHECK(ref["code_hi"] == d["table"]["code_hi"]);
@@ -172,7 +180,8 @@ TEST_CASE("design's header, compiled and run over every code, reads within the s
     double worst = 0.0;
     std::size_t n = 0;
     while (lines >> code >> counts) {
-        const double exact = ref["t_c"][static_cast<std::size_t>(code - static_cast<long>(ref["code_lo"].get<double>()))].get<double>();
+        const double exact =
+            ref["t_c"][static_cast<std::size_t>(code - static_cast<long>(ref["code_lo"].get<double>()))].get<double>();
         worst = std::max(worst, std::abs(counts / 100.0 - exact));
         ++n;
     }
@@ -199,9 +208,18 @@ TEST_CASE("report.md renders as tables that hold the design's JSON, row by row")
         at.push_back(o["at_t_c"]);
         wc.push_back(o["worst_case_c"]);
     }
-    check_column(ranked, "error (\xC2\xB0" "C)", err);
-    check_column(ranked, "at (\xC2\xB0" "C)", at);
-    check_column(ranked, "worst case (\xC2\xB0" "C)", wc);
+    check_column(ranked,
+                 "error (\xC2\xB0"
+                 "C)",
+                 err);
+    check_column(ranked,
+                 "at (\xC2\xB0"
+                 "C)",
+                 at);
+    check_column(ranked,
+                 "worst case (\xC2\xB0"
+                 "C)",
+                 wc);
     for (std::size_t i = 0; i < d["ranked"].size(); ++i) {
         CHECK(resistors_of(ranked["rows"][i][column(ranked, "values")]) == d["ranked"][i]["resistors_ohm"]);
     }
@@ -213,14 +231,29 @@ TEST_CASE("report.md renders as tables that hold the design's JSON, row by row")
         hi.push_back(p["worst_high_c"]);
         p997.push_back(p["mc"]["p99_7_c"]);
     }
-    check_column(signed_errors, "T (\xC2\xB0" "C)", t);
-    check_column(signed_errors, "worst low (\xC2\xB0" "C)", lo);
-    check_column(signed_errors, "worst high (\xC2\xB0" "C)", hi);
-    check_column(signed_errors, "|e| 99.7 % (\xC2\xB0" "C)", p997);
+    check_column(signed_errors,
+                 "T (\xC2\xB0"
+                 "C)",
+                 t);
+    check_column(signed_errors,
+                 "worst low (\xC2\xB0"
+                 "C)",
+                 lo);
+    check_column(signed_errors,
+                 "worst high (\xC2\xB0"
+                 "C)",
+                 hi);
+    check_column(signed_errors,
+                 "|e| 99.7 % (\xC2\xB0"
+                 "C)",
+                 p997);
     const json& split = table_under(md, "Each cause alone");
     std::vector<json> b_value;
     for (const json& p : d["budget"]["points"]) b_value.push_back(p["components"]["beta_c"]);
-    check_column(split, "B-value (\xC2\xB0" "C)", b_value);
+    check_column(split,
+                 "B-value (\xC2\xB0"
+                 "C)",
+                 b_value);
     const json& firmware = table_under(md, "Firmware table");
     std::vector<json> codes, counts;
     for (const json& r : d["table"]["breakpoints"]) {
@@ -242,17 +275,19 @@ TEST_CASE("design that cannot meet its target exits 1 with the closest design an
     CHECK_FALSE(std::filesystem::exists(dir.str()));
     // The B tolerance (1 %) dominates at 60 degC: budget's own split for the closest design says so.
     INFO(run.err);
-    CHECK(run.err.find("no design meets 0.3 \xC2\xB0" "C: the B tolerance alone gives 0.39 \xC2\xB0" "C at 60.0 \xC2\xB0" "C") !=
-          std::string::npos);
+    CHECK(run.err.find("no design meets 0.3 \xC2\xB0"
+                       "C: the B tolerance alone gives 0.39 \xC2\xB0"
+                       "C at 60.0 \xC2\xB0"
+                       "C") != std::string::npos);
     CHECK(run.err.find("the closest design: divider-") != std::string::npos);
 }
 
 TEST_CASE("size --objective resolution: the largest degC per code, by the divider's derivative") {
     // Reference: a hand calculation. Divider-low v = R/(rs + R), dv/dR = rs/(rs + R)^2; beta model
     // dR/dT = -B·R/T^2 (docs/sources.md); one LSB of a 12-bit rounding converter is 1/4096.
-    const auto run = run_rtline({"size", "--r25", "10k", "--beta", "3950", "--span", "-20:60", "--step", "5",
-                                 "--circuit", "divider-low", "--objective", "resolution", "--adc-bits", "12",
-                                 "--format", "json"});
+    const auto run =
+        run_rtline({"size", "--r25", "10k", "--beta", "3950", "--span", "-20:60", "--step", "5", "--circuit",
+                    "divider-low", "--objective", "resolution", "--adc-bits", "12", "--format", "json"});
     INFO(run.err);
     REQUIRE(run.code == 0);
     const json d = json::parse(run.out);
@@ -276,9 +311,10 @@ TEST_CASE("size --objective resolution: the largest degC per code, by the divide
 
 TEST_CASE("size --objective total-error ranks by the worst case the numpy brute force computes") {
     // Reference: tests/ref/design_brute.py for the tight part, each candidate size lists.
-    const auto run = run_rtline({"size", "--r25", "10k", "--beta", "3950", "--span", "-20:60", "--step", "5",
-                                 "--circuit", "divider-low", "--objective", "total-error", "--adc-bits", "12",
-                                 "--r25-tol", "0.5", "--beta-tol", "0.5", "--trials", "0", "--format", "json"});
+    const auto run = run_rtline({"size",        "--r25",      "10k", "--beta",    "3950",        "--span",
+                                 "-20:60",      "--step",     "5",   "--circuit", "divider-low", "--objective",
+                                 "total-error", "--adc-bits", "12",  "--r25-tol", "0.5",         "--beta-tol",
+                                 "0.5",         "--trials",   "0",   "--format",  "json"});
     INFO(run.err);
     REQUIRE(run.code == 0);
     const json d = json::parse(run.out);
@@ -293,4 +329,26 @@ TEST_CASE("size --objective total-error ranks by the worst case the numpy brute 
               doctest::Approx(ref["results"][i]["worst_case_c"].get<double>()).epsilon(1e-9));
     }
     CHECK(d["objective"]["name"] == "total-error");
+}
+
+TEST_CASE("a spec file's parts file is read from the spec file's folder, as its points file is") {
+    const TempPath dir;
+    std::filesystem::create_directories(dir.str());
+    write_file(dir.str() + "/parts.csv", "label,r25_ohm,b_k\nloose-bead,10k,3435\ntight-chip,10k,3950\n");
+    write_file(dir.str() + "/req.json",
+               R"({"candidates": "parts.csv", "span": "-20:60", "step": 5, "max_error": 1, "adc_bits": 12,
+                   "trials": 0, "circuit": "divider-low", "series": "E24"})");
+    // The same run with the path spelt out in full: the spec's relative name must find the same file.
+    const auto by_spec = run_rtline({"design", "--spec", dir.str() + "/req.json", "--format", "json"});
+    const auto direct = run_rtline({"design", "--candidates", dir.str() + "/parts.csv", "--span", "-20:60", "--step",
+                                    "5", "--max-error", "1", "--adc-bits", "12", "--trials", "0", "--circuit",
+                                    "divider-low", "--series", "E24", "--format", "json"});
+    INFO(by_spec.err << direct.err);
+    REQUIRE(by_spec.code == 0);
+    REQUIRE(direct.code == 0);
+    const json a = json::parse(by_spec.out);
+    const json b = json::parse(direct.out);
+    CHECK(a["part"]["label"] == b["part"]["label"]);
+    CHECK(a["circuit"] == b["circuit"]);
+    CHECK(a["ranked"].size() == b["ranked"].size());
 }

@@ -154,7 +154,9 @@ std::vector<std::string> spec_arguments(const Json& spec_in, const CLI::App& sub
         } else {
             throw InputError(key_field(key), value.dump(), "expected a number or a string");
         }
-        if (key == "points" && !base_dir.empty() && text != "-" && !text.empty() && text.front() != '/') {
+        // A file named in a spec file is found beside it, as a reader of the spec expects.
+        const bool names_file = key == "points" || key == "part_points" || key == "candidates";
+        if (names_file && !base_dir.empty() && text != "-" && !text.empty() && text.front() != '/') {
             text = (std::filesystem::path(base_dir) / text).string();
         }
         args.push_back(flag);
