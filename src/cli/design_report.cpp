@@ -147,12 +147,29 @@ Table ranked_table(const DesignRun& r) {
         const DesignOption& o = d.ranked[i];
         std::vector<Cell> row{static_cast<double>(i + 1)};
         if (several) row.emplace_back(r.spec.parts[o.part].label);
+        // Below the finalists a Monte Carlo confidence has no figure: those rank by their worst case.
+        const bool figure = o.monte_carlo || r.spec.confidence == Confidence::worst_case;
         row.insert(row.end(), {std::string(topology_name(o.candidate.circuit.topology)), values_text(o.candidate.circuit),
-                               std::string(series_name(o.series)), o.analog_k, kelvin_to_celsius(o.analog_at_k),
-                               o.worst_case_k, o.candidate.max_nonlinearity_pct_fsd});
+                               std::string(series_name(o.series)), figure ? o.analog_k : NAN,
+                               figure ? kelvin_to_celsius(o.analog_at_k) : NAN, o.worst_case_k,
+                               o.candidate.max_nonlinearity_pct_fsd});
         t.add_row(row);
     }
     return t;
+}
+
+// What a "-" in the ranked table's error column means, when one is shown; else empty.
+std::string ranked_note(const DesignRun& r) {
+    const Design& d = r.design;
+    if (r.spec.confidence == Confidence::worst_case) return "";
+    const std::size_t n = std::min(d.ranked.size(), r.runners_up + 1);
+    for (std::size_t i = 0; i < n; ++i) {
+        if (!d.ranked[i].monte_carlo) {
+            return "error -: not among the " + std::to_string(r.spec.finalists) +
+                   " best by worst case that the Monte Carlo budgets; ranked by the worst case\n";
+        }
+    }
+    return "";
 }
 
 // The signed error per temperature: the worst case's ends and, with the Monte Carlo, its percentiles.
@@ -409,7 +426,7 @@ Json design_json(const DesignRun& r) {
 std::string design_text(const DesignRun& r) {
     std::string t = facts_text(requirement_facts(r), 13) + "\n" + facts_text(result_facts(r), 13) + "\n";
     t += "parts:\n" + parts_table(r).text() + "\n";
-    t += "ranked by the error at the confidence (the design first):\n" + ranked_table(r).text() + "\n";
+    t += "ranked by the error at the confidence (the design first):\n" + ranked_table(r).text() + ranked_note(r) + "\n";
     t += "signed error per temperature:\n" + signed_table(r).text() + "\n";
     t += "each cause alone:\n" + split_table(r).text();
     return t;
@@ -432,6 +449,7 @@ std::string design_markdown(const DesignRun& r, bool package) {
     md.section("Why this design");
     md.paragraph("Every option budgeted, ranked by its error at the confidence before the table; the first is the design.");
     md.table(ranked_table(r));
+    if (!ranked_note(r).empty()) md.paragraph(ranked_note(r));
     md.section("Signed error per temperature");
     md.table(signed_table(r));
     md.section("Each cause alone");
