@@ -280,6 +280,15 @@ TEST_CASE("design that cannot meet its target exits 1 with the closest design an
                        "C at 60.0 \xC2\xB0"
                        "C") != std::string::npos);
     CHECK(run.err.find("the closest design: divider-") != std::string::npos);
+
+    // At 0.5 degC no one cause reaches the target (the B tolerance's 0.39 is the largest): the message
+    // says they do together rather than blaming one that alone would pass.
+    const auto together = run_rtline(with(kOne, {"--max-error", "0.5", "--trials", "0"}));
+    CHECK(together.code == 1);
+    INFO(together.err);
+    CHECK(together.err.find("the analog errors together give") != std::string::npos);
+    CHECK(together.err.find("the largest the B tolerance (0.39 \xC2\xB0" "C alone)") != std::string::npos);
+    CHECK(together.err.find("alone gives") == std::string::npos);
 }
 
 TEST_CASE("size --objective resolution: the largest degC per code, by the divider's derivative") {
@@ -351,4 +360,37 @@ TEST_CASE("a spec file's parts file is read from the spec file's folder, as its 
     CHECK(a["part"]["label"] == b["part"]["label"]);
     CHECK(a["circuit"] == b["circuit"]);
     CHECK(a["ranked"].size() == b["ranked"].size());
+}
+
+TEST_CASE("a design on a supply in volts budgets the self-heating and states each resistor's power") {
+    // Hand calculation (Ohm's law and the beta equation, written here): the chosen divider's resistor
+    // dissipates most at the end of the span where it carries the larger share of the 3.3 V:
+    // P = (3.3·rs/(rs + R_T))²/rs for divider-high, (3.3·R_T/(rs + R_T))²/rs for divider-low.
+    const auto run = run_rtline(with(kOne, {"--max-error", "1.5", "--excitation", "3.3", "--adc-ref", "excitation",
+                                            "--dissipation", "1.5", "--trials", "0", "--format", "json"}));
+    INFO(run.err);
+    REQUIRE(run.code == 0);
+    const json d = json::parse(run.out);
+    CHECK(d["circuit"]["drive"]["excitation_v"].get<double>() == 3.3);
+    const double rs = d["circuit"]["resistors_ohm"]["rs"].get<double>();
+    const bool high = d["circuit"]["topology"] == "divider-high";
+    double p_max = 0.0;
+    for (double tc = -20.0; tc <= 60.0 + 1e-9; tc += 5.0) {
+        const double r_t = 10e3 * std::exp(3950.0 * (1.0 / (tc + 273.15) - 1.0 / 298.15));
+        const double v_rs = 3.3 * (high ? rs : r_t) / (rs + r_t);
+        p_max = std::max(p_max, v_rs * v_rs / rs);
+    }
+    CHECK(d["resistor_power_w"]["rs"].get<double>() == doctest::Approx(p_max).epsilon(1e-12));
+    // The self-heating is a cause of its own at every point, and reads warm (the signed high end).
+    for (const json& p : d["budget"]["points"]) {
+        CHECK(p["components"]["self_heating_c"].get<double>() > 0.0);
+    }
+    // Read back as a spec, the budget finds the same figure with the drive the design chose.
+    const TempPath doc(".json");
+    write_file(doc.str(), run.out);
+    const auto budget = run_rtline({"budget", "--spec", doc.str(), "--trials", "0", "--format", "json"});
+    INFO(budget.err);
+    REQUIRE(budget.code == 0);
+    CHECK(json::parse(budget.out)["summary"]["worst_case_c"].get<double>() ==
+          doctest::Approx(d["budget"]["worst_case_c"].get<double>()).epsilon(1e-12));
 }

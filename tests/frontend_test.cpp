@@ -175,6 +175,48 @@ TEST_CASE("the channel's ratio and its inverse agree with hand calculations thro
     }
 }
 
+TEST_CASE("a divider on a supply in volts is read against a fixed reference in volts") {
+    // Hand calculation (Ohm's law): divider-low, rs = 10 kΩ, R_T = 5 kΩ on 3.3 V gives 3.3·5/15 = 1.1 V
+    // at the output; a 2.5 V converter reference reads 1.1/2.5 = 0.44 of full scale. With the supply's
+    // own value as the reference the ratio is the ratiometric one, 5/15.
+    rtline::Channel ch;
+    ch.circuit = divider_low(10e3);
+    ch.circuit.excitation = {Drive::voltage, 3.3};
+    ch.reference = 2.5;
+    REQUIRE_NOTHROW(rtline::validate(ch));
+    CHECK(rtline::channel_ratio(ch, 5e3) == doctest::Approx(0.44).epsilon(1e-14));
+    CHECK(rtline::channel_resistance(ch, 0.44) == doctest::Approx(5e3).epsilon(1e-12));
+    ch.reference = 3.3;
+    CHECK(rtline::channel_ratio(ch, 5e3) == doctest::Approx(1.0 / 3.0).epsilon(1e-14));
+
+    // Every divider and bridge under 5 V against 4.096 V, loaded, with leads and an amplifier (volts):
+    // the inverse returns the R_T it was given.
+    for (const Topology t : rtline::all_topologies()) {
+        if (rtline::gives_resistance(t)) continue;
+        rtline::Channel v;
+        v.circuit.topology = t;
+        v.circuit.rs = 6.8e3;
+        v.circuit.rp = 33e3;
+        v.circuit.r1 = 12e3;
+        v.circuit.r2 = 10e3;
+        v.circuit.r3 = 4.7e3;
+        v.circuit.load_ohm = 150e3;
+        v.circuit.lead_ohm = 12.0;
+        v.circuit.excitation = {Drive::voltage, 5.0};
+        v.reference = 4.096;
+        v.amplifier = rtline::Amplifier{-3.0, 2.0, 0.0};
+        REQUIRE_NOTHROW(rtline::validate(v));
+        for (const double r_t : {800.0, 4.7e3, 22e3}) {
+            CAPTURE(rtline::topology_name(t));
+            CAPTURE(r_t);
+            CHECK(rtline::channel_resistance(v, rtline::channel_ratio(v, r_t)) == doctest::Approx(r_t).epsilon(1e-9));
+        }
+    }
+    // A supply in volts against no reference in volts has no ratio.
+    ch.reference = std::nan("");
+    CHECK_THROWS_WITH_AS(rtline::validate(ch), doctest::Contains("reference in volts"), rtline::InputError);
+}
+
 TEST_CASE("a channel the converter cannot read is refused in the core's own words") {
     rtline::Channel ch;
     ch.circuit.topology = Topology::bridge;

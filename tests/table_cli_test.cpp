@@ -471,9 +471,6 @@ TEST_CASE("bad input exits 2 with one line naming the flag and the value") {
         {{"--degree", "2", "--format", "csv"},
          "--format 'csv': CSV carries the table alone; use text or json for the "
          "polynomial"},
-        {{"--excitation", "3.3"},
-         "--excitation '3.3': the reading is ratiometric (the converter's reference is the excitation), "
-         "so the supply voltage does not matter; leave it out"},
         {{"--current", "100u"},
          "--current '100u': a current drive is read only across a bare or shunt thermistor; a divider "
          "or bridge is read ratiometrically, against its own excitation"},
@@ -621,4 +618,31 @@ TEST_CASE("a shunt on a current source: the open code is I·rp, and within the m
     const auto readings = run_header(wide, "sh_", false, 0, 4095);
     CHECK(readings[770].state == 0);
     CHECK(readings[776].state == 3);  // past the readings, and no fault gives it
+}
+
+TEST_CASE("a divider on a 3.3 V supply reads the same table against its own supply and a scaled one against 2.5 V") {
+    // Hand calculation (Ohm's law and the beta equation, written here): divider-high with rs = 10 kΩ
+    // on 3.3 V, a converter with a fixed 2.5 V reference: code k of 4096 is the output k/4096·2.5 V,
+    // the fraction y = k/4096·2.5/3.3 of the supply, R_T = rs·(1 − y)/y and
+    // T = 1/(1/298.15 + ln(R_T/10k)/3950) − 273.15.
+    const Design d = divider("divider-high", "10k", 10e3, 12, 0.0, 50.0);
+    const std::vector<std::string> sized = with(d.flags, {"--entries", "9"});
+    const Json ratiometric = run_json(sized);
+    const Json own = run_json(with(sized, {"--excitation", "3.3"}));
+    CHECK(own["table"] == ratiometric["table"]);
+    CHECK(own["front_end"]["ratiometric"] == true);
+    const Json fixed = run_json(with(sized, {"--excitation", "3.3", "--adc-ref", "2.5"}));
+    CHECK(fixed["front_end"]["ratiometric"] == false);
+    CHECK(fixed["front_end"]["reference"].get<double>() == 2.5);
+    REQUIRE(fixed["table"].size() == 9);
+    for (const Json& row : fixed["table"]) {
+        const double y = row["code"].get<double>() / 4096.0 * 2.5 / 3.3;
+        const double r_t = 10e3 * (1.0 - y) / y;
+        const double t_c = 1.0 / (1.0 / 298.15 + std::log(r_t / 10e3) / 3950.0) - 273.15;
+        CAPTURE(row.dump());
+        CHECK(row["t_c"].get<double>() == doctest::Approx(t_c).epsilon(1e-9));
+    }
+    // The lower fixed reference spreads the span over more codes than the supply does (3.3/2.5 as many).
+    CHECK(fixed["table"].back()["code"].get<long>() - fixed["table"].front()["code"].get<long>() >
+          ratiometric["table"].back()["code"].get<long>() - ratiometric["table"].front()["code"].get<long>());
 }

@@ -47,20 +47,26 @@ struct RangeFit {
 
 // What a converter reads and against what: the network, the amplifier between them (none: the
 // converter reads the network directly), and the converter's reference in output_unit(circuit) —
-// 1 when the reading is ratiometric (the reference is the excitation, V/V), volts with a current drive.
+// 1 when the reading is ratiometric (the reference is the excitation, V/V), volts with a current drive
+// or a supply in volts (its own value when the converter's reference is the supply).
 // The one place that maps a thermistor resistance to the converter's input ratio and back; the table,
 // its fault bands and its shipped error all go through it.
 struct Channel {
     Circuit circuit;
     std::optional<Amplifier> amplifier;
     double reference = 1.0;
-    [[nodiscard]] bool ratiometric() const { return circuit.excitation.drive == Drive::ratiometric; }
+    // The reference is the excitation: no supply value (V/V), or the supply's own volts.
+    [[nodiscard]] bool ratiometric() const {
+        const Excitation& e = circuit.excitation;
+        return e.drive == Drive::ratiometric || (e.drive == Drive::voltage && reference == e.value);
+    }
 };
 
 // Checks that the channel's input ratio can be turned back into R_T by a closed form: a divider
-// (divider-high, divider-low, shunt-divider) read ratiometrically, a bridge or shunt-bridge read
-// ratiometrically through an amplifier, or a bare or shunt thermistor driven by a current and read
-// against a reference in volts; an amplifier is optional except for bridges. Throws InputError naming
+// (divider-high, divider-low, shunt-divider) or a bridge or shunt-bridge through an amplifier, read
+// ratiometrically (no supply value, reference 1) or under a supply in volts against a reference in volts
+// (the fixed reference of a converter, or the supply's own value); or a bare or shunt thermistor driven
+// by a current and read against a reference in volts; an amplifier is optional except for bridges. Throws InputError naming
 // the input: Input::topology, excitation, current, gain (a bridge without an amplifier) or reference
 // (and the amplifier's own numbers as validate_front_end does).
 void validate(const Channel& ch);
@@ -73,7 +79,8 @@ void validate(const Channel& ch);
 
 // The exact inverse of channel_ratio: the thermistor resistance (ohm) at which the converter input is
 // `ratio` of the reference, the known lead wires subtracted. Closed forms (Ohm's law on each network):
-//   network output  y = (ratio·reference − offset)/gain (or ratio·reference)
+//   network output  y = (ratio·reference − offset)/gain (or ratio·reference), divided by the supply
+//                   for a divider or bridge under a supply in volts
 //   bare            R_arm = (y/I) unparallel load
 //   shunt           R_arm = ((y/I) unparallel load) unparallel rp
 //   divider-high    R_arm = B·(1 − y)/y, B = rs ∥ load

@@ -63,9 +63,11 @@ std::vector<std::string> channel_lines(const Channel& ch, const AmplifierChoice&
     if (ch.ratiometric()) {
         lines.push_back("ratiometric: the ADC reference is the circuit's excitation");
     } else {
-        lines.push_back("not ratiometric: the ADC reads the voltage the current makes across the network against a " +
-                        format_number(ch.reference, 6) +
-                        " V reference (the current's and the reference's own errors move every reading)");
+        const bool current = ch.circuit.excitation.drive == Drive::current;
+        lines.push_back(std::string("not ratiometric: the ADC reads the voltage ") +
+                        (current ? "the current makes across the network" : "of the network on its supply") +
+                        " against a " + format_number(ch.reference, 6) + " V reference (the " +
+                        (current ? "current's" : "supply's") + " and the reference's own errors move every reading)");
     }
     if (ch.amplifier) {
         lines.push_back(std::string("through an amplifier, ") +
@@ -631,8 +633,9 @@ void setup_table(CLI::App& app) {
                             "--max-error 0.05\n"
                             "  rtline table --r25 10k --beta 3950 --span 10:60 --circuit bare --current 50u "
                             "--adc-ref 2.5 --max-error 0.2\n"
-                            "A divider or bridge is read ratiometrically (the ADC reference is its excitation); a "
-                            "current drive against --adc-ref volts.\n--adc-transfer says which ratio a code stands "
+                            "A divider or bridge is read ratiometrically (the ADC reference is its excitation), or "
+                            "with --excitation V against a fixed --adc-ref V;\na current drive against --adc-ref "
+                            "volts. --adc-transfer says which ratio a code stands "
                             "for. The shipped error is the emitted integer code's, measured over every code of the "
                             "span\nagainst the exact inverse (code -> ratio -> amplifier -> network -> R_T -> T by "
                             "the model).\n\n") +

@@ -308,8 +308,13 @@ std::string shortfall_words(const DesignRun& r) {
             if (d.cause == Cause::beta) cause = "B tolerance";
             if (d.cause == Cause::r25) cause = "R25 tolerance";
             if (d.cause == Cause::resistors) cause = "fixed resistors' tolerance";
-            return "no design meets " + format_number(r.spec.max_error_k) + " " + kDeg + ": the " + cause +
-                   " alone gives " + deg(d.cause_k, 2) + " at " + at_c(d.cause_at_k);
+            const std::string head = "no design meets " + format_number(r.spec.max_error_k) + " " + kDeg + ": ";
+            if (d.cause_k >= r.spec.max_error_k) {
+                return head + "the " + cause + " alone gives " + deg(d.cause_k, 2) + " at " + at_c(d.cause_at_k);
+            }
+            // No one cause reaches the target: they do together.
+            return head + "the analog errors together give " + deg(d.chosen().analog_k, 3) + " at " +
+                   at_c(d.cause_at_k) + ", the largest the " + cause + " (" + deg(d.cause_k, 2) + " alone)";
         }
         case Shortfall::table: break;
     }

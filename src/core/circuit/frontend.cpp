@@ -80,16 +80,21 @@ void validate(const Channel& ch) {
         }
     } else {
         if (drive == Drive::voltage) {
-            throw InputError(Input::excitation, describe(c.excitation.value),
-                             "the reading is ratiometric (the converter's reference is the excitation), so the "
-                             "supply voltage does not matter; leave it out");
+            if (!(c.excitation.value > 0.0) || !std::isfinite(c.excitation.value)) {
+                throw InputError(Input::excitation, describe(c.excitation.value), "the supply must be positive volts");
+            }
+            if (!(ch.reference > 0.0) || !std::isfinite(ch.reference)) {
+                throw InputError(Input::reference, describe(ch.reference),
+                                 "a supply in volts is read against a converter reference in volts (give "
+                                 "{reference} V), or leave the supply out for a ratiometric reading");
+            }
         }
         if (drive == Drive::current) {
             throw InputError(Input::current, describe(c.excitation.value),
                              "a current drive is read only across a bare or shunt thermistor; a divider or "
                              "bridge is read ratiometrically, against its own excitation");
         }
-        if (ch.reference != 1.0) {
+        if (drive == Drive::ratiometric && ch.reference != 1.0) {
             throw InputError(Input::reference, describe(ch.reference),
                              "a ratiometric reading's reference is the excitation itself (1 V/V)");
         }
@@ -116,6 +121,8 @@ double unparallel(double p, double a) {
 
 // The thermistor arm's resistance (R_T + lead) at which the network's output is y (output_unit).
 double arm_at_output(const Circuit& c, double y) {
+    // A divider or bridge under a supply in volts: its algebra below is in fractions of the supply.
+    if (!gives_resistance(c.topology) && c.excitation.drive == Drive::voltage) y /= c.excitation.value;
     switch (c.topology) {
         case Topology::bare: return unparallel(y / c.excitation.value, c.load_ohm);
         case Topology::shunt: return unparallel(unparallel(y / c.excitation.value, c.load_ohm), c.rp);
