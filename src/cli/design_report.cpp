@@ -217,6 +217,15 @@ Table split_table(const DesignRun& r) {
     return t;
 }
 
+// How the converter reads the divider: against its own supply, or a fixed reference in volts.
+std::string reading_words(const DesignRun& r) {
+    const DesignSpec& s = r.spec;
+    if (s.drive.drive != Drive::voltage) return "ratiometric (no drive given)";
+    const std::string drive = format_number(s.drive.value) + " V drive";
+    if (s.budget.ratiometric) return drive + ", read ratiometrically (the reference is the drive)";
+    return drive + " against a fixed " + format_number(s.budget.adc.full_scale) + " V reference (not ratiometric)";
+}
+
 Facts requirement_facts(const DesignRun& r) {
     const DesignSpec& s = r.spec;
     std::string series;
@@ -229,8 +238,7 @@ Facts requirement_facts(const DesignRun& r) {
             {"accuracy", "|error| at most " + format_number(s.max_error_k) + " " + kDeg + ", table included, at " +
                              confidence_words(s.confidence)},
             {"converter", std::to_string(s.budget.adc.bits) + " bits, " + std::string(adc_transfer_name(s.budget.adc.transfer)) +
-                              "; " + (s.drive.drive == Drive::voltage ? format_number(s.drive.value) + " V drive"
-                                                                       : std::string("ratiometric (no drive given)"))},
+                              "; " + reading_words(r)},
             {"thermistors", r.candidates_file.empty() ? describe_model(s.parts.front().model)
                                                       : std::to_string(s.parts.size()) + " candidates from " + r.candidates_file},
             {"series", series + " from " + format_resistance(s.range_lo_ohm) + " to " + format_resistance(s.range_hi_ohm) + " ohm"},
@@ -441,7 +449,7 @@ std::string design_markdown(const DesignRun& r, bool package) {
     const Design& d = r.design;
     Markdown md("rtline design: " + std::string(topology_name(d.chosen().candidate.circuit.topology)) + ", " +
                 format_number(kelvin_to_celsius(r.spec.span.lo_k)) + " to " +
-                format_number(kelvin_to_celsius(r.spec.span.hi_k)) + " " + kDeg + ", " +
+                format_number(kelvin_to_celsius(r.spec.span.hi_k)) + " " + kDeg + " within \u00b1" +
                 format_number(r.spec.max_error_k) + " " + kDeg);
     md.section("Requirements");
     md.facts(requirement_facts(r));
