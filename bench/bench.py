@@ -9,7 +9,8 @@
      (leads with tolerance and copper's coefficient over the cable's range, resistor and reference
      coefficients over the board's range, thermistor drift, converter offset, gain and INL, self-heating)
   6  design for one thermistor: every divider topology, E96 over 100 ohm..1 Mohm, -20..60 C at 1 C, the budget
-     at 10^4 Monte Carlo trials (99.7 % confidence), the firmware table sized (target 1 s)
+     at 10^4 Monte Carlo trials (99.7 % confidence) with self-heating on a 3.3 V ratiometric drive, the
+     firmware table sized (target 1 s)
   7  design over a catalogue of 50 candidate thermistors of our own (catalogue_csv below), otherwise as 6
      (target 10 s)
 
@@ -56,19 +57,22 @@ def batch_specs(n=1000):
 
 def catalogue_csv(n=50):
     """n candidate parts of our own for `design --candidates`: R25 from 2k2 to 100k, B from 3380 to 4250 K,
-    tolerances of 0.5 to 3 % (round figures of the usual size, not any product's)."""
+    tolerances of 0.5 to 3 %, dissipation constants of 1 to 3 mW/K (round figures of the usual size, not any
+    product's)."""
     r25s = ["2k2", "4k7", "10k", "22k", "47k", "100k"]
     betas = [3380, 3435, 3610, 3950, 3977, 4100, 4250]
     tols = [0.5, 1, 2, 3]
-    rows = ["label,r25_ohm,b_k,r25_tol_pct,b_tol_pct"]
+    dissipations = [1, 1.5, 2, 3]
+    rows = ["label,r25_ohm,b_k,r25_tol_pct,b_tol_pct,dissipation_mw_per_k"]
     for i in range(n):
         rows.append(f"NTC{i + 1:02d},{r25s[i % len(r25s)]},{betas[(i // 6) % len(betas)]},{tols[i % 4]},"
-                    f"{tols[(i // 4) % 4]}")
+                    f"{tols[(i // 4) % 4]},{dissipations[(i // 3) % 4]}")
     return "\n".join(rows) + "\n"
 
 
 DESIGN = ["design", "--span", "-20:60", "--step", "1", "--max-error", "1", "--confidence", "99.7",
-          "--adc-bits", "12", "--series", "E96", "--range", "100:1M", "--trials", "10000", "--format", "json"]
+          "--adc-bits", "12", "--series", "E96", "--range", "100:1M", "--trials", "10000", "--excitation", "3.3",
+          "--adc-ref", "excitation", "--format", "json"]
 
 
 def run(cmd, stdin=None):
@@ -165,7 +169,7 @@ def main():
         print(line + f"; {errors} errors")
         ok = ok and len(results) == 1000 and errors == 0
     if "6" in which:
-        cmd = [a.rtline] + DESIGN + ["--r25", "10k", "--beta", "3950"]
+        cmd = [a.rtline] + DESIGN + ["--r25", "10k", "--beta", "3950", "--dissipation", "1.5"]
         med, best, cpu, out = median_time(cmd, a.runs)
         d = json.loads(out)
         line = (f"6  design, one thermistor, every divider, E96, 10^4 trials: median {med * 1e3:.0f} ms"
