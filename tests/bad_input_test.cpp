@@ -736,5 +736,13 @@ TEST_CASE("a design's requirements and parts file are refused by their flag, col
          "--candidates '-': a part's dissipation_mw_per_k asks for its self-heating, which needs the real drive; give "
          "--excitation V (with --adc-ref excitation for a ratiometric reading)",
          "label,r25_ohm,b_k,dissipation_mw_per_k\nx,10k,3950,1.5\n"},
+        {"no thermistor at all", with(design, {"--max-error", "1"}),
+         "--r25: no thermistor given; use --r25 and --beta, --sh A,B,C, --points FILE, or a parts file of candidates "
+         "with --candidates FILE"},
+        {"a package folder that is a file", with(one, {"--max-error", "1", "-o", "/dev/null"}),
+         "-o '/dev/null': is a file; design writes its review package (report.md, design.json, the header, the "
+         "pictures) into a folder"},
+        {"a parts file that does not exist", with(design, {"--max-error", "1", "--candidates", "/no/such/parts.csv"}),
+         "--candidates '/no/such/parts.csv': cannot be opened"},
     });
 }

@@ -196,6 +196,11 @@ DesignRun build_run(const DesignCommand& o) {
         s.parts = read_candidates(o.candidates, defaults);
         r.candidates_file = o.candidates;
     } else {
+        if (o.model.r25.empty() && o.model.beta.empty() && o.model.sh.empty() && o.model.points.empty()) {
+            throw InputError("--r25", "",
+                             "no thermistor given; use --r25 and --beta, --sh A,B,C, --points FILE, or a parts file "
+                             "of candidates with --candidates FILE");
+        }
         defaults.model = build_model(o.model);
         defaults.label = "thermistor";
         s.parts.push_back(defaults);
@@ -210,6 +215,11 @@ DesignRun build_run(const DesignCommand& o) {
 void run_design(const DesignCommand& o) {
     const Format format = parse_format(o.format, true);
     if (format == Format::csv) throw InputError("--format", o.format, "design writes text, json or markdown");
+    if (!o.output_dir.empty() && std::filesystem::exists(o.output_dir) && !std::filesystem::is_directory(o.output_dir)) {
+        throw InputError("-o", o.output_dir,
+                         "is a file; design writes its review package (report.md, design.json, the header, the "
+                         "pictures) into a folder");
+    }
     DesignRun r = build_run(o);
     try {
         r.design = design(r.spec);
