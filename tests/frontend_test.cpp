@@ -27,6 +27,20 @@ Circuit divider_low(double rs) {
     return c;
 }
 
+// Every resistor of topology t set (the ones it does not use are ignored), loaded, with lead wires.
+Circuit loaded_network(Topology t) {
+    Circuit c;
+    c.topology = t;
+    c.rs = 6.8e3;
+    c.rp = 33e3;
+    c.r1 = 12e3;
+    c.r2 = 10e3;
+    c.r3 = 4.7e3;
+    c.load_ohm = 150e3;
+    c.lead_ohm = 12.0;
+    return c;
+}
+
 }  // namespace
 
 TEST_CASE("the converter sees gain times the network's output plus the offset") {
@@ -153,14 +167,7 @@ TEST_CASE("the channel's ratio and its inverse agree with hand calculations thro
     // Every network, loaded, with lead wires and an amplifier: the inverse returns the R_T it was given.
     for (const Topology t : rtline::all_topologies()) {
         rtline::Channel ch;
-        ch.circuit.topology = t;
-        ch.circuit.rs = 6.8e3;
-        ch.circuit.rp = 33e3;
-        ch.circuit.r1 = 12e3;
-        ch.circuit.r2 = 10e3;
-        ch.circuit.r3 = 4.7e3;
-        ch.circuit.load_ohm = 150e3;
-        ch.circuit.lead_ohm = 12.0;
+        ch.circuit = loaded_network(t);
         ch.amplifier = rtline::Amplifier{-3.0, 0.7, 0.0};
         if (rtline::gives_resistance(t)) {
             ch.circuit.excitation = {Drive::current, 20e-6};
@@ -194,14 +201,7 @@ TEST_CASE("a divider on a supply in volts is read against a fixed reference in v
     for (const Topology t : rtline::all_topologies()) {
         if (rtline::gives_resistance(t)) continue;
         rtline::Channel v;
-        v.circuit.topology = t;
-        v.circuit.rs = 6.8e3;
-        v.circuit.rp = 33e3;
-        v.circuit.r1 = 12e3;
-        v.circuit.r2 = 10e3;
-        v.circuit.r3 = 4.7e3;
-        v.circuit.load_ohm = 150e3;
-        v.circuit.lead_ohm = 12.0;
+        v.circuit = loaded_network(t);
         v.circuit.excitation = {Drive::voltage, 5.0};
         v.reference = 4.096;
         v.amplifier = rtline::Amplifier{-3.0, 2.0, 0.0};
