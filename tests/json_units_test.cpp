@@ -29,8 +29,8 @@ using rtline::test::write_file;
 using Args = std::vector<std::string>;
 
 // The unit suffixes (docs/json.md). `_k` is kelvin: a B-value, or a temperature difference.
-const std::vector<std::string> kSuffixes = {"_ohm", "_c",       "_k",         "_w",         "_v",        "_a",
-                                            "_f",   "_s",       "_lsb",       "_v_per_v",   "_pct",      "_pct_fsd",
+const std::vector<std::string> kSuffixes = {"_ohm",   "_c",         "_k",        "_w",       "_v",   "_a",
+                                            "_f",     "_s",         "_lsb",      "_v_per_v", "_pct", "_pct_fsd",
                                             "_per_k", "_ppm_per_k", "_mw_per_k", "_per_code"};
 
 // The keys without a suffix, by kind; docs/json.md has the same table.
@@ -84,10 +84,21 @@ const std::map<std::string, std::string> kPlainKeys = {
 };
 
 // The `_c` keys: temperatures on the Celsius scale (never a difference, never an output value).
-const std::set<std::string> kCelsiusKeys = {"t_c",        "lo_c",           "hi_c",           "t0_c",
-                                            "at_t_c",     "centre_c",       "coefficients_from_c", "r25_at_t_c",
-                                            "cable_lo_c", "cable_hi_c",     "stated_at_c",    "p99_7_at_t_c",
-                                            "max_source_at_t_c", "t_at_code_lo_c", "t_at_code_hi_c"};
+const std::set<std::string> kCelsiusKeys = {"t_c",
+                                            "lo_c",
+                                            "hi_c",
+                                            "t0_c",
+                                            "at_t_c",
+                                            "centre_c",
+                                            "coefficients_from_c",
+                                            "r25_at_t_c",
+                                            "cable_lo_c",
+                                            "cable_hi_c",
+                                            "stated_at_c",
+                                            "p99_7_at_t_c",
+                                            "max_source_at_t_c",
+                                            "t_at_code_lo_c",
+                                            "t_at_code_hi_c"};
 
 // The output-unit keys a CSV header carries with the unit's suffix (CSV has no "output_unit" field);
 // the sensitivity columns are in output units per kelvin.
@@ -209,7 +220,8 @@ std::vector<std::string> csv_violations(const std::string& csv, const std::strin
         const std::string& h = headers[c];
         bool named = false;
         for (const std::string& stem : kCsvOutputStems) {
-            if (h == stem && !unit_column) bad.push_back(h + ": in the output unit without naming it (" + stem + us + ")");
+            if (h == stem && !unit_column)
+                bad.push_back(h + ": in the output unit without naming it (" + stem + us + ")");
             for (const std::string s : {"_v_per_v", "_v", "_ohm"}) {
                 if (h == stem + s && s != us) bad.push_back(h + ": names " + s + " but the output is in " + unit);
             }
@@ -263,39 +275,44 @@ std::vector<Variant> variants(const std::string& parts) {
         {"fit", with({"fit"}, kPoints)},
         {"fit beta", with({"fit"}, with(kPoints, {"--model", "beta"}))},
         {"check", with(check, {"--circuit", "divider-low", "--rs", "10k"})},
-        {"check driven", with(check, {"--circuit", "divider-low", "--rs", "10k", "--excitation", "3.3",
-                                      "--dissipation", "1.5", "--lead", "2"})},
+        {"check driven", with(check, {"--circuit", "divider-low", "--rs", "10k", "--excitation", "3.3", "--dissipation",
+                                      "1.5", "--lead", "2"})},
         {"check bare", with(check, {"--circuit", "bare"})},
-        {"check bridge, loaded", with(check, {"--circuit", "bridge", "--r1", "10k", "--load", "100k", "--excitation", "3.3"})},
+        {"check bridge, loaded",
+         with(check, {"--circuit", "bridge", "--r1", "10k", "--load", "100k", "--excitation", "3.3"})},
         {"check front end", with(check, {"--circuit", "bridge", "--r1", "10k", "--excitation", "3.3", "--auto-range",
                                          "--sample-cap", "10p", "--acquisition", "1u", "--amp-output", "100"})},
-        {"check current drive", with(check, {"--circuit", "bare", "--current", "20u", "--gain", "2", "--adc-ref", "2.5"})},
+        {"check current drive",
+         with(check, {"--circuit", "bare", "--current", "20u", "--gain", "2", "--adc-ref", "2.5"})},
         {"size", with(size, {"--circuit", "divider-low"})},
-        {"size compare", with(size, {"--compare", "--excitation", "3.3", "--dissipation", "1.5",
-                                     "--max-self-heating", "0.2", "--max-power", "1m", "--min-span", "0.5"})},
+        {"size compare", with(size, {"--compare", "--excitation", "3.3", "--dissipation", "1.5", "--max-self-heating",
+                                     "0.2", "--max-power", "1m", "--min-span", "0.5"})},
         {"size tradeoff", with(size, {"--circuit", "divider-low", "--tradeoff"})},
         {"size by total error", with(size, {"--circuit", "divider-low", "--objective", "total-error", "--adc-bits",
                                             "12", "--confidence", "95", "--trials", "500"})},
-        {"size by resolution", with(size, {"--circuit", "divider-low", "--objective", "resolution", "--adc-bits", "12"})},
+        {"size by resolution",
+         with(size, {"--circuit", "divider-low", "--objective", "resolution", "--adc-bits", "12"})},
         {"budget Monte Carlo", with(budget, {"--adc-bits", "12", "--trials", "500"})},
-        {"budget every cause", with(budget, {"--trials", "0", "--excitation", "3.3", "--dissipation", "1.5", "--adc-bits",
-                                             "12", "--adc-ref", "3.0", "--ref-tol", "0.5", "--ref-tc", "50",
-                                             "--resistor-tc", "25", "--board-temp", "0:50", "--lead", "1",
-                                             "--lead-tol", "10", "--cable-temp", "0:40", "--adc-offset", "2",
-                                             "--adc-gain", "0.1", "--adc-inl", "1", "--adc-error", "1", "--drift", "0.5"})},
+        {"budget every cause",
+         with(budget, {"--trials",     "0",    "--excitation", "3.3", "--dissipation", "1.5", "--adc-bits",    "12",
+                       "--adc-ref",    "3.0",  "--ref-tol",    "0.5", "--ref-tc",      "50",  "--resistor-tc", "25",
+                       "--board-temp", "0:50", "--lead",       "1",   "--lead-tol",    "10",  "--cable-temp",  "0:40",
+                       "--adc-offset", "2",    "--adc-gain",   "0.1", "--adc-inl",     "1",   "--adc-error",   "1",
+                       "--drift",      "0.5"})},
         {"budget interchangeability and model error",
-         with(budget, {"--trials", "500", "--dt-tol", "0.2", "--dt-range", "0:70", "--part-sh",
-                       "1.1e-3,2.4e-4,7e-8"})},
+         with(budget, {"--trials", "500", "--dt-tol", "0.2", "--dt-range", "0:70", "--part-sh", "1.1e-3,2.4e-4,7e-8"})},
         {"table", with(table, {"--circuit", "divider-low", "--rs", "10k", "--adc-bits", "12", "--entries", "17"})},
         {"table least-squares polynomial",
          with(table, {"--circuit", "divider-low", "--rs", "10k", "--adc-bits", "12", "--degree", "3"}), false},
         {"table minimax polynomial",
-         with(table, {"--circuit", "divider-low", "--rs", "10k", "--adc-bits", "12", "--degree", "3", "--fit", "minimax"}),
+         with(table,
+              {"--circuit", "divider-low", "--rs", "10k", "--adc-bits", "12", "--degree", "3", "--fit", "minimax"}),
          false},
         {"table bridge", with(table, {"--circuit", "bridge", "--r1", "10k", "--auto-range", "--max-error", "0.05"})},
-        {"table current drive", with(table, {"--circuit", "bare", "--current", "50u", "--adc-ref", "2.5", "--max-error", "0.2"})},
+        {"table current drive",
+         with(table, {"--circuit", "bare", "--current", "50u", "--adc-ref", "2.5", "--max-error", "0.2"})},
         {"table faults, error spacing", with(table, {"--circuit", "divider-high", "--rs", "10k", "--max-error", "0.1",
-                                                      "--spacing", "error", "--fault-margin", "2C"})},
+                                                     "--spacing", "error", "--fault-margin", "2C"})},
         {"design", with(with({"design"}, kThermistor), design), false},
         {"design with a parts file", with({"design", "--candidates", parts}, design), false},
     };
