@@ -652,15 +652,15 @@ TEST_CASE("an R-T file whose temperature column reads as kelvin or as degF is re
         "C, or head the column t_k";
     // Read as °C, the °F column gives a plausible B (2642 K) but misses the points 10 times more than
     // read as °F (5335 mK against 543 mK).
-    CHECK(f["celsius"]["max_residual_mk"].get<double>() > 5.0 * f["fahrenheit"]["max_residual_mk"].get<double>());
+    CHECK(f["celsius"]["max_residual_k"].get<double>() > 5.0 * f["fahrenheit"]["max_residual_k"].get<double>());
     const std::string fahrenheit_why =
         "the temperatures read as \xC2\xB0"
         "F, not \xC2\xB0"
         "C: a beta model misses the points by up to " +
-        fixed0(f["celsius"]["max_residual_mk"].get<double>()) +
+        fixed0(1e3 * f["celsius"]["max_residual_k"].get<double>()) +
         " mK as \xC2\xB0"
         "C and " +
-        fixed0(f["fahrenheit"]["max_residual_mk"].get<double>()) +
+        fixed0(1e3 * f["fahrenheit"]["max_residual_k"].get<double>()) +
         " mK as \xC2\xB0"
         "F; convert them to \xC2\xB0"
         "C";

@@ -128,8 +128,8 @@ TEST_CASE("every field cause together: the worst case is the corner enumeration 
         const json& p = out["points"][i];
         const json& r = ref["points"][i];
         CAPTURE(p["t_c"].get<double>());
-        CHECK(p["worst_low_c"].get<double>() == doctest::Approx(r["low_k"].get<double>()).epsilon(1e-9));
-        CHECK(p["worst_high_c"].get<double>() == doctest::Approx(r["high_k"].get<double>()).epsilon(1e-9));
+        CHECK(p["worst_low_k"].get<double>() == doctest::Approx(r["low_k"].get<double>()).epsilon(1e-9));
+        CHECK(p["worst_high_k"].get<double>() == doctest::Approx(r["high_k"].get<double>()).epsilon(1e-9));
     }
 }
 
@@ -152,14 +152,14 @@ TEST_CASE("every field cause together: the Monte Carlo agrees with an independen
         const json& p = out["points"][i];
         const json& mc = p["mc"];
         const json& r = ref["points"][i];
-        const double step = p["resolution_c_per_lsb"].get<double>();
+        const double step = p["resolution_k_per_lsb"].get<double>();
         CAPTURE(p["t_c"].get<double>());
         const double k = 4.0 * std::sqrt(2.0);
-        CHECK(std::abs(mc["mean_c"].get<double>() - r["mean"].get<double>()) < k * r["mean_se"].get<double>());
-        CHECK(std::abs(mc["std_c"].get<double>() - r["std"].get<double>()) < k * r["std_se"].get<double>());
+        CHECK(std::abs(mc["mean_k"].get<double>() - r["mean"].get<double>()) < k * r["mean_se"].get<double>());
+        CHECK(std::abs(mc["std_k"].get<double>() - r["std"].get<double>()) < k * r["std_se"].get<double>());
         for (const char* key : {"p0_135", "p2_5", "p97_5", "p99_865", "p99_7"}) {
             CAPTURE(key);
-            const double d = std::abs(mc[std::string(key) + "_c"].get<double>() - r[key].get<double>());
+            const double d = std::abs(mc[std::string(key) + "_k"].get<double>() - r[key].get<double>());
             CHECK(d < k * r[std::string(key) + "_se"].get<double>() + step);
         }
     }
@@ -176,11 +176,11 @@ TEST_CASE("lead wires alone on a bare thermistor: the error is dR over dR/dT") {
         const double t = tol["points"][i]["t_c"].get<double>() + 273.15;
         const double slope = kB / (t * t) * beta_r(t);  // |dR/dT|
         CAPTURE(t);
-        CHECK(tol["points"][i]["components"]["lead_c"].get<double>() == doctest::Approx(1.0 / slope).epsilon(2e-3));
-        CHECK(warm["points"][i]["components"]["lead_c"].get<double>() ==
+        CHECK(tol["points"][i]["components"]["lead_k"].get<double>() == doctest::Approx(1.0 / slope).epsilon(2e-3));
+        CHECK(warm["points"][i]["components"]["lead_k"].get<double>() ==
               doctest::Approx(10.0 * 0.00393 * 50.0 / slope).epsilon(2e-3));
         // Warmer copper reads colder: the signed worst case is negative.
-        CHECK(warm["points"][i]["worst_low_c"].get<double>() < 0.0);
+        CHECK(warm["points"][i]["worst_low_k"].get<double>() < 0.0);
     }
 }
 
@@ -197,9 +197,9 @@ TEST_CASE("a resistor's coefficient with the board at the sensed temperature: cÂ
         const double expected = 1e-4 * std::abs(t - 298.15) * t * t / kB;
         CAPTURE(t);
         if (expected == 0.0) {
-            CHECK(p["components"]["resistor_drift_c"].get<double>() < 1e-12);
+            CHECK(p["components"]["resistor_drift_k"].get<double>() < 1e-12);
         } else {
-            CHECK(p["components"]["resistor_drift_c"].get<double>() == doctest::Approx(expected).epsilon(1e-2));
+            CHECK(p["components"]["resistor_drift_k"].get<double>() == doctest::Approx(expected).epsilon(1e-2));
         }
     }
 }
@@ -222,8 +222,8 @@ TEST_CASE("the reference: it cancels when ratiometric, and against a fixed refer
         const double t = a["points"][i]["t_c"].get<double>() + 273.15;
         const double r = beta_r(t);
         CAPTURE(t);
-        CHECK(a["points"][i]["components"]["reference_c"].get<double>() == 0.0);
-        CHECK(b["points"][i]["components"]["reference_c"].get<double>() ==
+        CHECK(a["points"][i]["components"]["reference_k"].get<double>() == 0.0);
+        CHECK(b["points"][i]["components"]["reference_k"].get<double>() ==
               doctest::Approx(0.005 * (r + 10e3) / (10e3 * kB / (t * t))).epsilon(0.01));
     }
 }
@@ -238,8 +238,8 @@ TEST_CASE("interchangeability Â±dT reads the shift itself, and drift is ln(1 + d
     for (const json& p : j["points"]) {
         const double t = p["t_c"].get<double>() + 273.15;
         CAPTURE(t);
-        CHECK(p["components"]["thermistor_dt_c"].get<double>() == doctest::Approx(0.2).epsilon(1e-9));
-        CHECK(p["components"]["drift_c"].get<double>() == doctest::Approx(0.005 * t * t / kB).epsilon(5e-3));
+        CHECK(p["components"]["thermistor_dt_k"].get<double>() == doctest::Approx(0.2).epsilon(1e-9));
+        CHECK(p["components"]["drift_k"].get<double>() == doctest::Approx(0.005 * t * t / kB).epsilon(5e-3));
     }
 }
 
@@ -257,8 +257,8 @@ TEST_CASE("converter gain and offset alone: their change of reading over the out
         const double v = r / (r + 10e3);
         const double slope = 10e3 * r * (kB / (t * t)) / ((r + 10e3) * (r + 10e3));
         CAPTURE(t);
-        CHECK(p["components"]["adc_offset_c"].get<double>() == doctest::Approx(2.0 / 4096.0 / slope).epsilon(5e-3));
-        CHECK(p["components"]["adc_gain_c"].get<double>() == doctest::Approx(0.001 * v / slope).epsilon(5e-3));
+        CHECK(p["components"]["adc_offset_k"].get<double>() == doctest::Approx(2.0 / 4096.0 / slope).epsilon(5e-3));
+        CHECK(p["components"]["adc_gain_k"].get<double>() == doctest::Approx(0.001 * v / slope).epsilon(5e-3));
     }
 }
 
@@ -272,7 +272,7 @@ TEST_CASE("the lead resistance is part of the circuit: check shows its shift, th
     const json j = json::parse(r.out);
     const double t_hi = 333.15;
     const double first_order = -5.0 / (kB / (t_hi * t_hi) * beta_r(t_hi));
-    CHECK(j["summary"]["lead_shift_c"]["min"].get<double>() == doctest::Approx(first_order).epsilon(3e-3));
+    CHECK(j["summary"]["lead_shift_k"]["min"].get<double>() == doctest::Approx(first_order).epsilon(3e-3));
     CHECK(j["circuit"]["lead_ohm"] == 5.0);
     // The firmware's inverse of the divider gives back R_T with the lead subtracted (v = (R + L)/(rs + R + L)).
     rtline::Circuit c;
@@ -317,8 +317,8 @@ TEST_CASE("the model error: a part on its Steinhart-Hart curve read through a be
         const double r = std::exp(0.5 * (lo + hi));
         const double read = 1.0 / (1.0 / 298.15 + std::log(r / 10e3) / kB);
         CAPTURE(t);
-        CHECK(p["nominal_error_c"].get<double>() == doctest::Approx(read - t).epsilon(1e-6));
-        CHECK(p["components"]["model_error_c"].get<double>() == doctest::Approx(std::abs(read - t)).epsilon(1e-6));
+        CHECK(p["nominal_error_k"].get<double>() == doctest::Approx(read - t).epsilon(1e-6));
+        CHECK(p["components"]["model_error_k"].get<double>() == doctest::Approx(std::abs(read - t)).epsilon(1e-6));
     }
 }
 
@@ -338,9 +338,9 @@ TEST_CASE("a truncated normal never exceeds the worst case; the untruncated one 
     CHECK(t["assumptions"]["truncated_at_tolerance"] == true);
     bool beyond = false;
     for (std::size_t i = 0; i < t["points"].size(); ++i) {
-        CHECK(t["points"][i]["mc"]["max_abs_c"].get<double>() <= t["points"][i]["worst_case_c"].get<double>() + 1e-12);
+        CHECK(t["points"][i]["mc"]["max_abs_k"].get<double>() <= t["points"][i]["worst_case_k"].get<double>() + 1e-12);
         beyond =
-            beyond || u["points"][i]["mc"]["max_abs_c"].get<double>() > u["points"][i]["worst_case_c"].get<double>();
+            beyond || u["points"][i]["mc"]["max_abs_k"].get<double>() > u["points"][i]["worst_case_k"].get<double>();
     }
     CHECK(beyond);
 }
@@ -356,9 +356,9 @@ TEST_CASE("the budget's converter transfer: full-scale makes one LSB 1/(2^N - 1)
     };
     const json r = run("rounding");
     const json f = run("full-scale");
-    CHECK(r["assumptions"]["adc"]["lsb"].get<double>() == doctest::Approx(1.0 / 256.0).epsilon(1e-15));
-    CHECK(f["assumptions"]["adc"]["lsb"].get<double>() == doctest::Approx(1.0 / 255.0).epsilon(1e-15));
+    CHECK(r["assumptions"]["adc"]["lsb_size"].get<double>() == doctest::Approx(1.0 / 256.0).epsilon(1e-15));
+    CHECK(f["assumptions"]["adc"]["lsb_size"].get<double>() == doctest::Approx(1.0 / 255.0).epsilon(1e-15));
     CHECK(f["assumptions"]["adc"]["transfer"] == "full-scale");
-    CHECK(f["points"][1]["resolution_c_per_lsb"].get<double>() ==
-          doctest::Approx(r["points"][1]["resolution_c_per_lsb"].get<double>() * 256.0 / 255.0).epsilon(1e-12));
+    CHECK(f["points"][1]["resolution_k_per_lsb"].get<double>() ==
+          doctest::Approx(r["points"][1]["resolution_k_per_lsb"].get<double>() * 256.0 / 255.0).epsilon(1e-12));
 }

@@ -198,7 +198,7 @@ TEST_CASE("self-heating agrees with an exact root of T_b = T + P(R(T_b))/delta (
             // The body temperature is solved by Newton to rounding, brentq to 1e-14 K: they agree to
             // 1e-9 K, the precision docs/budget.md states.
             const double expected = r[std::string(reading) + "_error_k"].get<double>();
-            CHECK(std::abs(p["nominal_error_c"].get<double>() - expected) < 1e-9);
+            CHECK(std::abs(p["nominal_error_k"].get<double>() - expected) < 1e-9);
         }
     }
 }
@@ -231,8 +231,8 @@ TEST_CASE("self-heating near the largest rise, R25 at its tolerance: the worst c
         const double b = ends[1]["points"][i]["off_model_error_k"].get<double>();
         CHECK(ends[0]["points"][i]["rise_k"].get<double>() > 0.5);
         // 1e-9 K: the precision docs/budget.md states for the body temperature.
-        CHECK(std::abs(p["worst_low_c"].get<double>() - std::min(a, b)) < 1e-9);
-        CHECK(std::abs(p["worst_high_c"].get<double>() - std::max(a, b)) < 1e-9);
+        CHECK(std::abs(p["worst_low_k"].get<double>() - std::min(a, b)) < 1e-9);
+        CHECK(std::abs(p["worst_high_k"].get<double>() - std::max(a, b)) < 1e-9);
     }
 }
 
@@ -256,13 +256,13 @@ TEST_CASE("the line reading with zero tolerances equals rtline check's endpoint-
         const json budget = run_json(b);
         REQUIRE(budget["points"].size() == check["points"].size());
         for (std::size_t i = 0; i < check["points"].size(); ++i) {
-            const double e = check["points"][i]["error_c"].get<double>();
+            const double e = check["points"][i]["error_k"].get<double>();
             const json& p = budget["points"][i];
             CAPTURE(p["t_c"].get<double>());
-            CHECK(std::abs(p["worst_case_c"].get<double>() - std::abs(e)) < 1e-9);
-            CHECK(std::abs(p["components"]["nonlinearity_c"].get<double>() - std::abs(e)) < 1e-9);
-            CHECK(std::abs(p["mc"]["mean_c"].get<double>() - e) < 1e-9);
-            CHECK(p["mc"]["std_c"].get<double>() == 0.0);
+            CHECK(std::abs(p["worst_case_k"].get<double>() - std::abs(e)) < 1e-9);
+            CHECK(std::abs(p["components"]["nonlinearity_k"].get<double>() - std::abs(e)) < 1e-9);
+            CHECK(std::abs(p["mc"]["mean_k"].get<double>() - e) < 1e-9);
+            CHECK(p["mc"]["std_k"].get<double>() == 0.0);
         }
     }
 }
@@ -395,29 +395,29 @@ TEST_CASE("the JSON carries the issue's keys, the assumptions, and null where a 
     CHECK(j["assumptions"]["reading"] == "model");
     CHECK(j["assumptions"]["tolerances_pct"]["r25"] == 1.0);
     CHECK(j["assumptions"]["tolerances_pct"]["excitation"].is_null());
-    for (const char* key : {"worst_case_c", "p99_7_c", "at_t_c"}) CHECK(j["summary"][key].is_number());
+    for (const char* key : {"worst_case_k", "p99_7_k", "at_t_c"}) CHECK(j["summary"][key].is_number());
     const json& p = j["points"][0];
-    for (const char* key : {"t_c", "worst_case_c", "worst_low_c", "worst_high_c", "resolution_c_per_lsb"}) {
+    for (const char* key : {"t_c", "worst_case_k", "worst_low_k", "worst_high_k", "resolution_k_per_lsb"}) {
         CHECK(p.contains(key));
     }
     for (const char* key :
-         {"mean_c", "std_c", "p95_c", "p99_7_c", "max_abs_c", "p0_135_c", "p2_5_c", "p97_5_c", "p99_865_c"}) {
+         {"mean_k", "std_k", "p95_k", "p99_7_k", "max_abs_k", "p0_135_k", "p2_5_k", "p97_5_k", "p99_865_k"}) {
         CHECK(p["mc"][key].is_number());
     }
-    for (const char* key : {"r25_c", "beta_c", "resistors_c"}) CHECK(p["components"][key].is_number());
+    for (const char* key : {"r25_k", "beta_k", "resistors_k"}) CHECK(p["components"][key].is_number());
     for (const char* key :
-         {"nonlinearity_c", "model_error_c", "thermistor_dt_c", "drift_c", "resistor_drift_c", "lead_c", "excitation_c",
-          "reference_c", "adc_offset_c", "adc_gain_c", "adc_inl_c", "quantization_c", "self_heating_c"}) {
+         {"nonlinearity_k", "model_error_k", "thermistor_dt_k", "drift_k", "resistor_drift_k", "lead_k", "excitation_k",
+          "reference_k", "adc_offset_k", "adc_gain_k", "adc_inl_k", "quantization_k", "self_heating_k"}) {
         CHECK(p["components"][key].is_null());
     }
     CHECK(j["assumptions"]["truncated_at_tolerance"] == false);
     CHECK(j["assumptions"]["board_temperature"] == "sensed");
     CHECK(j["assumptions"]["lead"].is_null());
-    CHECK(p["resolution_c_per_lsb"].is_null());
+    CHECK(p["resolution_k_per_lsb"].is_null());
 
     const json none = run_json(with(design(), {"--trials", "0"}));
     CHECK(none["points"][0]["mc"].is_null());
-    CHECK(none["summary"]["p99_7_c"].is_null());
+    CHECK(none["summary"]["p99_7_k"].is_null());
 }
 
 TEST_CASE("the text output has a table per temperature with units, then the summary") {

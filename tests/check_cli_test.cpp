@@ -57,20 +57,20 @@ TEST_CASE("check --format json carries exactly the documented keys (docs/json.md
     const json d = run_json(check({"--span", "0:40", "--step", "10", "--circuit", "divider-low", "--rs", "10k",
                                    "--excitation", "3.3", "--dissipation", "2", "--format", "json"}));
     CHECK(d["tool"] == "rtline");
-    CHECK(d["schema"] == 1);
+    CHECK(d["schema"] == 2);
     CHECK(d["command"] == "check");
     CHECK(d["circuit"]["topology"] == "divider-low");
     CHECK(keys(d["circuit"]["resistors_ohm"]) == std::set<std::string>{"rs"});
     CHECK(d["circuit"]["resistors_ohm"]["rs"] == 10000.0);
     CHECK(d["line"] == "endpoint");
-    CHECK(keys(d["summary"]) == std::set<std::string>{"max_nonlinearity_pct_fsd", "at_t_c", "max_error_c",
+    CHECK(keys(d["summary"]) == std::set<std::string>{"max_nonlinearity_pct_fsd", "at_t_c", "max_error_k",
                                                       "output_span", "sensitivity_per_k", "max_power_w",
                                                       "max_self_heating_k"});
     CHECK(keys(d["summary"]["sensitivity_per_k"]) == std::set<std::string>{"min", "max"});
     REQUIRE(d["points"].size() == 5);  // 0, 10, 20, 30, 40 °C
     for (const json& p : d["points"]) {
         for (const char* k :
-             {"t_c", "r_t_ohm", "output", "ideal", "deviation", "nonlinearity_pct_fsd", "error_c", "power_w"}) {
+             {"t_c", "r_t_ohm", "output", "ideal", "deviation", "nonlinearity_pct_fsd", "error_k", "power_w"}) {
             CAPTURE(k);
             CHECK(p[k].is_number());
         }
@@ -132,7 +132,8 @@ TEST_CASE("check --format csv has a header row and one row per point") {
     const auto rows = lines_of(r.out);
     REQUIRE(rows.size() == 1 + 10);  // −10, −5, …, 35 °C
     const std::vector<std::string> header = fields(rows[0]);
-    for (const char* k : {"t_c", "r_t_ohm", "output", "ideal", "deviation", "nonlinearity_pct_fsd", "error_c"}) {
+    for (const char* k : {"t_c", "r_t_ohm", "output_v_per_v", "ideal_v_per_v", "deviation_v_per_v", "nonlinearity_pct_fsd",
+                          "error_k"}) {
         CAPTURE(k);
         CHECK(std::find(header.begin(), header.end(), k) != header.end());
     }

@@ -87,7 +87,7 @@ TEST_CASE("check --format csv appends the front end's columns") {
                                      "--excitation", "5", "--gain", "10", "--offset", "2.5", "--format", "csv"}));
     REQUIRE(r.code == 0);
     const std::string header = r.out.substr(0, r.out.find('\n'));
-    CHECK(header.find(",line,source_ohm,source_a_ohm,source_b_ohm,converter_input,settling_error_lsb") !=
+    CHECK(header.find(",line,source_ohm,source_a_ohm,source_b_ohm,converter_input_v,settling_error_lsb") !=
           std::string::npos);
     // At the null (0 °C) the bridge gives 0 V, so the converter sees the offset alone.
     CHECK(r.out.find(",2.5,\n") != std::string::npos);

@@ -86,7 +86,7 @@ TEST_CASE("design chooses the tighter part over the more linear one, as a numpy 
                 continue;
             found = true;
             INFO(o.dump());
-            CHECK(o["error_c"].get<double>() == doctest::Approx(r["worst_case_c"].get<double>()).epsilon(1e-9));
+            CHECK(o["error_k"].get<double>() == doctest::Approx(r["worst_case_k"].get<double>()).epsilon(1e-9));
             CHECK(o["nonlinearity_pct_fsd"].get<double>() ==
                   doctest::Approx(r["nonlinearity_pct_fsd"].get<double>()).epsilon(1e-9));
         }
@@ -129,18 +129,18 @@ TEST_CASE("design.json read back by size, budget and table gives the design's fi
     const json b = json::parse(budget.out);
     const json t = json::parse(table.out);
     const json s = json::parse(size.out);
-    CHECK(b["summary"]["worst_case_c"] == d["budget"]["worst_case_c"]);
-    CHECK(b["summary"]["p99_7_c"] == d["budget"]["p99_7_c"]);
+    CHECK(b["summary"]["worst_case_k"] == d["budget"]["worst_case_k"]);
+    CHECK(b["summary"]["p99_7_k"] == d["budget"]["p99_7_k"]);
     REQUIRE(b["points"].size() == d["budget"]["points"].size());
     for (std::size_t i = 0; i < b["points"].size(); ++i) {
-        CHECK(b["points"][i]["worst_low_c"] == d["budget"]["points"][i]["worst_low_c"]);
-        CHECK(b["points"][i]["mc"]["p99_7_c"] == d["budget"]["points"][i]["mc"]["p99_7_c"]);
+        CHECK(b["points"][i]["worst_low_k"] == d["budget"]["points"][i]["worst_low_k"]);
+        CHECK(b["points"][i]["mc"]["p99_7_k"] == d["budget"]["points"][i]["mc"]["p99_7_k"]);
     }
     CHECK(t["entries"] == d["table"]["entries"]);
-    CHECK(t["shipped"]["max_error_c"] == d["table"]["shipped_error_c"]);
+    CHECK(t["shipped"]["max_error_k"] == d["table"]["shipped_error_k"]);
     CHECK(t["reading"]["code_lo"] == d["table"]["code_lo"]);
     CHECK(s["candidates"][0]["resistors_ohm"] == d["circuit"]["resistors_ohm"]);
-    CHECK(s["candidates"][0]["total_error_c"] == d["analog"]["error_c"]);
+    CHECK(s["candidates"][0]["total_error_k"] == d["analog"]["error_k"]);
 }
 
 TEST_CASE(
@@ -187,8 +187,8 @@ TEST_CASE(
     }
     CHECK(n == ref["t_c"].size());
     // The shipped error design reports is the header's, against an inverse computed another way.
-    CHECK(worst == doctest::Approx(d["table"]["shipped_error_c"].get<double>()).epsilon(1e-6));
-    CHECK(worst <= d["table"]["target_c"].get<double>());
+    CHECK(worst == doctest::Approx(d["table"]["shipped_error_k"].get<double>()).epsilon(1e-6));
+    CHECK(worst <= d["table"]["target_k"].get<double>());
 }
 
 TEST_CASE("report.md renders as tables that hold the design's JSON, row by row") {
@@ -204,9 +204,9 @@ TEST_CASE("report.md renders as tables that hold the design's JSON, row by row")
     const json& ranked = table_under(md, "Why this design");
     std::vector<json> err, at, wc;
     for (const json& o : d["ranked"]) {
-        err.push_back(o["error_c"]);
+        err.push_back(o["error_k"]);
         at.push_back(o["at_t_c"]);
-        wc.push_back(o["worst_case_c"]);
+        wc.push_back(o["worst_case_k"]);
     }
     check_column(ranked,
                  "error (\xC2\xB0"
@@ -227,9 +227,9 @@ TEST_CASE("report.md renders as tables that hold the design's JSON, row by row")
     std::vector<json> t, lo, hi, p997;
     for (const json& p : d["budget"]["points"]) {
         t.push_back(p["t_c"]);
-        lo.push_back(p["worst_low_c"]);
-        hi.push_back(p["worst_high_c"]);
-        p997.push_back(p["mc"]["p99_7_c"]);
+        lo.push_back(p["worst_low_k"]);
+        hi.push_back(p["worst_high_k"]);
+        p997.push_back(p["mc"]["p99_7_k"]);
     }
     check_column(signed_errors,
                  "T (\xC2\xB0"
@@ -249,7 +249,7 @@ TEST_CASE("report.md renders as tables that hold the design's JSON, row by row")
                  p997);
     const json& split = table_under(md, "Each cause alone");
     std::vector<json> b_value;
-    for (const json& p : d["budget"]["points"]) b_value.push_back(p["components"]["beta_c"]);
+    for (const json& p : d["budget"]["points"]) b_value.push_back(p["components"]["beta_k"]);
     check_column(split,
                  "B-value (\xC2\xB0"
                  "C)",
@@ -311,7 +311,7 @@ TEST_CASE("size --objective resolution: the largest degC per code, by the divide
             const double slope = rs / ((rs + r) * (rs + r)) * 3950.0 * r / (t * t);
             worst = std::max(worst, (1.0 / 4096.0) / slope);
         }
-        const double got = c["resolution_c_per_code"].get<double>();
+        const double got = c["resolution_k_per_code"].get<double>();
         CHECK(got == doctest::Approx(worst).epsilon(1e-6));
         CHECK(got >= previous);  // ranked best first
         previous = got;
@@ -334,8 +334,8 @@ TEST_CASE("size --objective total-error ranks by the worst case the numpy brute 
     const json ref = python_ref("design_brute.py", in);
     REQUIRE(ref["results"].size() == d["candidates"].size());
     for (std::size_t i = 0; i < d["candidates"].size(); ++i) {
-        CHECK(d["candidates"][i]["total_error_c"].get<double>() ==
-              doctest::Approx(ref["results"][i]["worst_case_c"].get<double>()).epsilon(1e-9));
+        CHECK(d["candidates"][i]["total_error_k"].get<double>() ==
+              doctest::Approx(ref["results"][i]["worst_case_k"].get<double>()).epsilon(1e-9));
     }
     CHECK(d["objective"]["name"] == "total-error");
 }
@@ -383,7 +383,7 @@ TEST_CASE("a design on a supply in volts budgets the self-heating and states eac
     CHECK(d["resistor_power_w"]["rs"].get<double>() == doctest::Approx(p_max).epsilon(1e-12));
     // The self-heating is a cause of its own at every point, and reads warm (the signed high end).
     for (const json& p : d["budget"]["points"]) {
-        CHECK(p["components"]["self_heating_c"].get<double>() > 0.0);
+        CHECK(p["components"]["self_heating_k"].get<double>() > 0.0);
     }
     // Read back as a spec, the budget finds the same figure with the drive the design chose.
     const TempPath doc(".json");
@@ -391,6 +391,6 @@ TEST_CASE("a design on a supply in volts budgets the self-heating and states eac
     const auto budget = run_rtline({"budget", "--spec", doc.str(), "--trials", "0", "--format", "json"});
     INFO(budget.err);
     REQUIRE(budget.code == 0);
-    CHECK(json::parse(budget.out)["summary"]["worst_case_c"].get<double>() ==
-          doctest::Approx(d["budget"]["worst_case_c"].get<double>()).epsilon(1e-12));
+    CHECK(json::parse(budget.out)["summary"]["worst_case_k"].get<double>() ==
+          doctest::Approx(d["budget"]["worst_case_k"].get<double>()).epsilon(1e-12));
 }

@@ -104,7 +104,7 @@ TEST_CASE("check --format markdown: the points table holds the JSON's points, ro
     check_column(t, "ideal (V)", pluck(pts, {"ideal"}));
     check_column(t, "deviation (V)", pluck(pts, {"deviation"}));
     check_column(t, "nonlinearity (%FSD)", pluck(pts, {"nonlinearity_pct_fsd"}));
-    check_column(t, "error (" + deg + ")", pluck(pts, {"error_c"}));
+    check_column(t, "error (" + deg + ")", pluck(pts, {"error_k"}));
     check_column(t, "power (mW)", pluck(pts, {"power_w"}, 1e3));
     check_column(t, "self-heating (K)", pluck(pts, {"self_heating_k"}));
     // The summary list opens with the JSON's figure.
@@ -141,7 +141,7 @@ TEST_CASE("size --format markdown: the candidates, their resistors and figures, 
     check_column(t,
                  "error (\xC2\xB0"
                  "C)",
-                 pluck(cs, {"max_error_c"}));
+                 pluck(cs, {"max_error_k"}));
     check_column(t, "span (V/V)", pluck(cs, {"output_span"}));
     check_column(t, "min sens (V/V/K)", pluck(cs, {"sensitivity_per_k", "min"}));
     check_column(t, "max sens (V/V/K)", pluck(cs, {"sensitivity_per_k", "max"}));
@@ -179,23 +179,23 @@ TEST_CASE("budget --format markdown: the error and split tables hold the JSON's 
     const json& pts = p.doc["points"];
     const json& e = table_under(p.md, "Error per temperature");
     check_column(e, "T" + deg, pluck(pts, {"t_c"}));
-    check_column(e, "worst low" + deg, pluck(pts, {"worst_low_c"}));
-    check_column(e, "worst high" + deg, pluck(pts, {"worst_high_c"}));
-    check_column(e, "MC mean" + deg, pluck(pts, {"mc", "mean_c"}));
-    check_column(e, "MC std" + deg, pluck(pts, {"mc", "std_c"}));
-    check_column(e, "0.135 %" + deg, pluck(pts, {"mc", "p0_135_c"}));
-    check_column(e, "2.5 %" + deg, pluck(pts, {"mc", "p2_5_c"}));
-    check_column(e, "97.5 %" + deg, pluck(pts, {"mc", "p97_5_c"}));
-    check_column(e, "99.865 %" + deg, pluck(pts, {"mc", "p99_865_c"}));
+    check_column(e, "worst low" + deg, pluck(pts, {"worst_low_k"}));
+    check_column(e, "worst high" + deg, pluck(pts, {"worst_high_k"}));
+    check_column(e, "MC mean" + deg, pluck(pts, {"mc", "mean_k"}));
+    check_column(e, "MC std" + deg, pluck(pts, {"mc", "std_k"}));
+    check_column(e, "0.135 %" + deg, pluck(pts, {"mc", "p0_135_k"}));
+    check_column(e, "2.5 %" + deg, pluck(pts, {"mc", "p2_5_k"}));
+    check_column(e, "97.5 %" + deg, pluck(pts, {"mc", "p97_5_k"}));
+    check_column(e, "99.865 %" + deg, pluck(pts, {"mc", "p99_865_k"}));
     // These two headers carry a '|' each, escaped in the Markdown.
-    check_column(e, "|e| 99.7 %" + deg, pluck(pts, {"mc", "p99_7_c"}));
-    check_column(e, "MC max |e|" + deg, pluck(pts, {"mc", "max_abs_c"}));
+    check_column(e, "|e| 99.7 %" + deg, pluck(pts, {"mc", "p99_7_k"}));
+    check_column(e, "MC max |e|" + deg, pluck(pts, {"mc", "max_abs_k"}));
 
     const json& s = table_under(p.md, "Each cause alone (largest |change of error| over its tolerance)");
     std::size_t causes = 0;
     for (std::size_t c = 0; c < rtline::kCauses; ++c) {
         const auto cause = static_cast<rtline::Cause>(c);
-        const std::string key = std::string(rtline::cause_key(cause)) + "_c";
+        const std::string key = std::string(rtline::cause_key(cause)) + "_k";
         if (pts[0]["components"][key].is_null()) continue;
         check_column(s, std::string(rtline::cause_label(cause)) + deg, pluck(pts, {"components", key}));
         ++causes;
@@ -204,7 +204,7 @@ TEST_CASE("budget --format markdown: the error and split tables hold the JSON's 
     check_column(s,
                  "resolution (\xC2\xB0"
                  "C/LSB)",
-                 pluck(pts, {"resolution_c_per_lsb"}));
+                 pluck(pts, {"resolution_k_per_lsb"}));
     CHECK(s["header"].size() == causes + 2);
     CHECK(has_caution(p.md));
 }

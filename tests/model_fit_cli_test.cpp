@@ -89,7 +89,7 @@ TEST_CASE("rtline model --format json opens with tool, version, schema and comma
     CHECK(keys == first);  // docs/json.md: JSON documents open with these four keys
     CHECK(doc["tool"] == "rtline");
     CHECK(doc["version"].is_string());
-    CHECK(doc["schema"] == 1);
+    CHECK(doc["schema"] == 2);
     CHECK(doc["command"] == "model");
 }
 
@@ -220,7 +220,7 @@ TEST_CASE("rtline fit prints Steinhart-Hart coefficients, residuals and the larg
     rtline::test::write_file(file.str(), rt_csv(every(-40, 125, 5)));
     const json doc = run_json({"fit", "--points", file.str(), "--format", "json"});
     CHECK(doc["tool"] == "rtline");
-    CHECK(doc["schema"] == 1);
+    CHECK(doc["schema"] == 2);
     CHECK(doc["command"] == "fit");
     CHECK(doc["model"]["kind"] == "steinhart-hart");
     // Points generated from kPack: the least squares recovers it (fit_test has the tolerance argument).
@@ -231,9 +231,9 @@ TEST_CASE("rtline fit prints Steinhart-Hart coefficients, residuals and the larg
     for (const json& r : doc["residuals"]) {
         CHECK(r.contains("t_c"));
         CHECK(r.contains("r_ohm"));
-        CHECK(std::abs(r["residual_mk"].get<double>()) < 1e-3);  // below 1 µK
+        CHECK(std::abs(r["residual_k"].get<double>()) < 1e-6);  // below 1 µK
     }
-    CHECK(doc["max_residual_mk"].get<double>() < 1e-3);
+    CHECK(doc["max_residual_k"].get<double>() < 1e-6);
 }
 
 TEST_CASE("rtline fit on scattered points matches numpy.linalg.lstsq and reports its largest residual") {
@@ -250,16 +250,16 @@ TEST_CASE("rtline fit on scattered points matches numpy.linalg.lstsq and reports
     CHECK(doc["model"]["c"].get<double>() == doctest::Approx(ref["c"].get<double>()).epsilon(1e-9));
     double largest = 0.0;
     for (const json& r : doc["residuals"]) {
-        // residual = T(model at R) − T, the model's forward equation (Steinhart & Hart 1968), in mK.
+        // residual = T(model at R) − T, the model's forward equation (Steinhart & Hart 1968), in kelvin.
         const double l = std::log(r["r_ohm"].get<double>());
         const double t_model =
             1.0 / (ref["a"].get<double>() + ref["b"].get<double>() * l + ref["c"].get<double>() * l * l * l);
-        CHECK(r["residual_mk"].get<double>() ==
-              doctest::Approx(1e3 * (t_model - (r["t_c"].get<double>() + 273.15))).epsilon(1e-5));
-        largest = std::max(largest, std::abs(r["residual_mk"].get<double>()));
+        CHECK(r["residual_k"].get<double>() ==
+              doctest::Approx(t_model - (r["t_c"].get<double>() + 273.15)).epsilon(1e-5));
+        largest = std::max(largest, std::abs(r["residual_k"].get<double>()));
     }
-    CHECK(doc["max_residual_mk"].get<double>() == largest);
-    CHECK(largest > 1.0);  // 0.2 % in R is tens of mK: the scatter shows
+    CHECK(doc["max_residual_k"].get<double>() == largest);
+    CHECK(largest > 1e-3);  // 0.2 % in R is tens of mK: the scatter shows
 }
 
 TEST_CASE("rtline fit --model beta prints R0 at T0 and the B-value") {
@@ -281,7 +281,7 @@ TEST_CASE("rtline fit --model beta prints R0 at T0 and the B-value") {
     CHECK(ref["rank"] == 2);
     CHECK(m["b_k"].get<double>() == doctest::Approx(ref["b_k"].get<double>()).epsilon(1e-9));
     CHECK(m["r0_ohm"].get<double>() == doctest::Approx(ref["r0_ohm"].get<double>()).epsilon(1e-9));
-    CHECK(doc["max_residual_mk"].get<double>() > 0.0);
+    CHECK(doc["max_residual_k"].get<double>() > 0.0);
 }
 
 TEST_CASE("rtline fit as text names the model and the largest residual") {
@@ -306,7 +306,7 @@ TEST_CASE("rtline fit still fits when the other model cannot be fitted for compa
     const json doc = json::parse(r.out);
     CHECK(doc["model"]["kind"] == "steinhart-hart");
     CHECK_FALSE(doc.contains("alternative"));
-    CHECK(doc["max_residual_mk"].get<double>() < 1e-3);
+    CHECK(doc["max_residual_k"].get<double>() < 1e-6);
 }
 
 TEST_CASE("-o writes the document to the file and nothing to stdout") {

@@ -89,7 +89,7 @@ int lines(const std::string& s) { return static_cast<int>(std::count(s.begin(), 
 TEST_CASE("size --format json carries the continuous optimum, the closed forms and the ranked candidates") {
     const json doc = run_json(with(kGreenhouse, {"--circuit", "divider-low", "--excitation", "5", "--top", "3"}));
     CHECK(doc["tool"] == "rtline");
-    CHECK(doc["schema"] == 1);
+    CHECK(doc["schema"] == 2);
     CHECK(doc["command"] == "size");
     REQUIRE(doc.contains("version"));
     // "continuous": {"resistors_ohm", "max_nonlinearity_pct_fsd"} (docs/json.md, docs/size.md)
@@ -112,7 +112,7 @@ TEST_CASE("size --format json carries the continuous optimum, the closed forms a
     REQUIRE(cands.size() == 3);
     double previous = 0;
     for (const json& c : cands) {
-        for (const char* key : {"resistors_ohm", "max_nonlinearity_pct_fsd", "max_error_c", "output_span",
+        for (const char* key : {"resistors_ohm", "max_nonlinearity_pct_fsd", "max_error_k", "output_span",
                                 "sensitivity_per_k", "max_power_w"}) {
             CHECK(c.contains(key));
         }
@@ -120,7 +120,7 @@ TEST_CASE("size --format json carries the continuous optimum, the closed forms a
         CAPTURE(rs);
         const Divider d = divider_low(rs, 5);
         CHECK(c["max_nonlinearity_pct_fsd"].get<double>() == doctest::Approx(d.nl).epsilon(1e-9));
-        CHECK(c["max_error_c"].get<double>() == doctest::Approx(d.error_c).epsilon(1e-9));
+        CHECK(c["max_error_k"].get<double>() == doctest::Approx(d.error_c).epsilon(1e-9));
         CHECK(c["output_span"].get<double>() == doctest::Approx(d.span).epsilon(1e-9));
         CHECK(c["sensitivity_per_k"]["min"].get<double>() == doctest::Approx(d.sens_min).epsilon(1e-6));
         CHECK(c["sensitivity_per_k"]["max"].get<double>() == doctest::Approx(d.sens_max).epsilon(1e-6));

@@ -75,8 +75,8 @@ TEST_CASE("check --svg: output and the line, nonlinearity and error, one vertex 
     for (std::size_t i = 0; i < n; i += 9) {
         const Json& p = d["points"][i];
         CHECK_NEAR(left.value(nl[i][1]), p["nonlinearity_pct_fsd"].get<double>(), nl_max * kReadBack);
-        CHECK_NEAR(right.value(nl[i][1]), p["error_c"].get<double>(),
-                   d["summary"]["max_error_c"].get<double>() * kReadBack);
+        CHECK_NEAR(right.value(nl[i][1]), p["error_k"].get<double>(),
+                   d["summary"]["max_error_k"].get<double>() * kReadBack);
     }
     const Json& worst = markers(bottom, "largest |nonlinearity|");
     REQUIRE(worst["points"].size() == 1);
@@ -340,8 +340,8 @@ TEST_CASE(
         for (const auto& p : v) m = std::max(m, std::abs(ym.value(p[1])));
         return m;
     };
-    const double table_max = d["shipped"]["max_error_c"].get<double>();
-    const double poly_max = d["polynomial"]["max_error_c"].get<double>();
+    const double table_max = d["shipped"]["max_error_k"].get<double>();
+    const double poly_max = d["polynomial"]["max_error_k"].get<double>();
     const double range = 2.2 * std::max(table_max, poly_max);  // the y axis spans about ±max, padded by 5 %
     CHECK_NEAR(largest(table), table_max, range * kReadBack);
     CHECK_NEAR(largest(poly), poly_max, range * kReadBack);
@@ -389,7 +389,7 @@ TEST_CASE("table --svg at 16 bits thins the curve but keeps its largest error") 
     CHECK(table.size() < svg::kMaxVertices);  // tens of thousands of codes, at most two vertices per pixel column
     double m = 0.0;
     for (const auto& p : table) m = std::max(m, std::abs(ym.value(p[1])));
-    const double max_c = d["shipped"]["max_error_c"].get<double>();
+    const double max_c = d["shipped"]["max_error_k"].get<double>();
     CHECK_NEAR(m, max_c, 2.2 * max_c * kReadBack);
     CHECK(read_file(pic.str()).find("points drawn as") != std::string::npos);
 }
@@ -437,11 +437,11 @@ TEST_CASE("budget --svg: the signed worst-case and 99.865 % curves reach the rep
         for (const auto& p : vertices(series(plot, name))) m = std::max(m, ym.value(p[1]));
         return m;
     };
-    const double wc = d["summary"]["worst_case_c"].get<double>();
+    const double wc = d["summary"]["worst_case_k"].get<double>();
     const double range = 2.2 * wc;  // the y axis spans about ±worst case, padded by 5 %
     double p99865 = -INFINITY;
-    for (const Json& p : d["points"]) p99865 = std::max(p99865, p["mc"]["p99_865_c"].get<double>());
-    CHECK_NEAR(largest("worst case"), d["summary"]["worst_high_c"].get<double>(), range * kReadBack);
+    for (const Json& p : d["points"]) p99865 = std::max(p99865, p["mc"]["p99_865_k"].get<double>());
+    CHECK_NEAR(largest("worst case"), d["summary"]["worst_high_k"].get<double>(), range * kReadBack);
     CHECK_NEAR(largest("99.865 %"), p99865, range * kReadBack);
     const auto wc_line = vertices(series(plot, "worst case"));
     REQUIRE(wc_line.size() == d["points"].size());  // one vertex per temperature of the span

@@ -187,13 +187,13 @@ TEST_CASE("the emitted C, compiled and run over every code, ships what rtline re
                         CHECK(r.state == 0);  // every code of the span reads as a temperature
                     }
                 }
-                CHECK(worst == doctest::Approx(doc["shipped"]["max_error_c"].get<double>()).epsilon(1e-9));
+                CHECK(worst == doctest::Approx(doc["shipped"]["max_error_k"].get<double>()).epsilon(1e-9));
                 if (doc["max_error_target_source"] == "--max-error") {
-                    CHECK(worst <= doc["max_error_target_c"].get<double>());
+                    CHECK(worst <= doc["max_error_target_k"].get<double>());
                 }
                 if (k.poly) {
-                    CHECK(worst_poly == doctest::Approx(doc["polynomial"]["max_error_c"].get<double>()).epsilon(1e-9));
-                    CHECK(worst_poly <= doc["max_error_target_c"].get<double>());
+                    CHECK(worst_poly == doctest::Approx(doc["polynomial"]["max_error_k"].get<double>()).epsilon(1e-9));
+                    CHECK(worst_poly <= doc["max_error_target_k"].get<double>());
                 }
                 CHECK(readings.front().counts == doc["table"].front()["t_fixed"].get<long>());
             }
@@ -257,7 +257,7 @@ TEST_CASE("over a sweep of targets a tighter target never ships a larger error")
                 with(d.flags, {"--spacing", spacing, "--max-error", std::to_string(target), "--format", "json"}));
             if (r.code == 1) break;  // no table of up to 1024 entries
             REQUIRE(r.code == 0);
-            const double shipped = Json::parse(r.out)["shipped"]["max_error_c"].get<double>();
+            const double shipped = Json::parse(r.out)["shipped"]["max_error_k"].get<double>();
             CAPTURE(spacing);
             CAPTURE(target);
             CHECK(shipped <= target);
@@ -288,7 +288,7 @@ TEST_CASE("--entries and --degree with --max-error meet the target or exit 1 say
     CHECK(poly.code == 1);
     CHECK(poly.err.find("the degree-2 polynomial errs by") != std::string::npos);
     const Json ok = run_json(with(d.flags, {"--entries", "200", "--max-error", "0.5"}));
-    CHECK(ok["shipped"]["max_error_c"].get<double>() <= 0.5);
+    CHECK(ok["shipped"]["max_error_k"].get<double>() <= 0.5);
 }
 
 TEST_CASE("a wide ADC's header holds its codes as uint32_t and a hot span's temperatures as int32_t") {
@@ -304,7 +304,7 @@ TEST_CASE("a wide ADC's header holds its codes as uint32_t and a hot span's temp
         const long inside = std::min(std::max(r.code, lo), hi);
         const double exact = ref["t_c"][static_cast<std::size_t>(inside - lo)].get<double>();
         CHECK(std::abs(static_cast<double>(r.counts) * 0.01 - exact) <=
-              doc["shipped"]["max_error_c"].get<double>() + 1e-9);
+              doc["shipped"]["max_error_k"].get<double>() + 1e-9);
     }
     const TempPath h(".h");
     REQUIRE(run_rtline(with(wide.flags, {"--emit", "c", "-o", h.str()})).code == 0);
@@ -341,7 +341,7 @@ TEST_CASE("the reported table error is the largest over every code, as numpy.int
         in["table"] = doc["table"];
         const Json ref = python_ref("adc_inverse.py", in);
         CAPTURE(spacing);
-        CHECK(doc["interpolation_error"]["max_error_c"].get<double>() ==
+        CHECK(doc["interpolation_error"]["max_error_k"].get<double>() ==
               doctest::Approx(ref["table_max_error_c"].get<double>()).epsilon(1e-9));
         CHECK(doc["interpolation_error"]["at_code"].get<long>() == ref["table_at_code"].get<long>());
     }
@@ -351,11 +351,11 @@ TEST_CASE("the JSON document states the reading convention, ADC width, spacing a
     const Json doc = run_json(with(divider("divider-high", "10k", 10e3, 10, 0.0, 50.0).flags,
                                    {"--spacing", "error", "--unit", "0.1", "--degree", "2", "--fit", "minimax"}));
     CHECK(doc["tool"] == "rtline");
-    CHECK(doc["schema"] == 1);
+    CHECK(doc["schema"] == 2);
     CHECK(doc["command"] == "table");
     CHECK(doc["adc_bits"] == 10);
     CHECK(doc["spacing"] == "error");
-    CHECK(doc["unit_c"].get<double>() == 0.1);
+    CHECK(doc["unit_k"].get<double>() == 0.1);
     CHECK(doc["adc_transfer"] == "rounding");  // the default
     CHECK(doc["reading"]["convention"].get<std::string>().find("rounding: code k is the ratio k/1024") !=
           std::string::npos);
@@ -363,7 +363,7 @@ TEST_CASE("the JSON document states the reading convention, ADC width, spacing a
     CHECK(doc["table"].size() == doc["entries"].get<std::size_t>());
     CHECK(doc["searched"] == Json::array({"entries"}));  // the default size comes from the default target
     CHECK(doc["max_error_target_source"] == "default");
-    CHECK(doc["shipped"]["max_error_c"].get<double>() <= doc["max_error_target_c"].get<double>());
+    CHECK(doc["shipped"]["max_error_k"].get<double>() <= doc["max_error_target_k"].get<double>());
     for (const Json& row : doc["table"]) {
         CHECK(row.size() == 3);
         CHECK(row["t_fixed"].get<long>() == std::lround(row["t_c"].get<double>() * 10.0));
@@ -392,15 +392,15 @@ TEST_CASE("--max-error finds the smallest table: one entry fewer ships more than
         const Json doc = run_json(with(d.flags, {"--spacing", spacing, "--max-error", "0.05"}));
         const int entries = doc["entries"].get<int>();
         CAPTURE(spacing);
-        CHECK(doc["shipped"]["max_error_c"].get<double>() <= 0.05);
+        CHECK(doc["shipped"]["max_error_k"].get<double>() <= 0.05);
         const Json fewer = run_json(with(d.flags, {"--spacing", spacing, "--entries", std::to_string(entries - 1)}));
-        CHECK(fewer["shipped"]["max_error_c"].get<double>() > 0.05);
+        CHECK(fewer["shipped"]["max_error_k"].get<double>() > 0.05);
     }
     const Json poly = run_json(with(d.flags, {"--fit", "minimax", "--max-error", "0.05"}));
     const int degree = poly["polynomial"]["degree"].get<int>();
-    CHECK(poly["polynomial"]["max_error_c"].get<double>() <= 0.05);
+    CHECK(poly["polynomial"]["max_error_k"].get<double>() <= 0.05);
     const Json lower = run_json(with(d.flags, {"--degree", std::to_string(degree - 1), "--fit", "minimax"}));
-    CHECK(lower["polynomial"]["max_error_c"].get<double>() > 0.05);
+    CHECK(lower["polynomial"]["max_error_k"].get<double>() > 0.05);
 }
 
 TEST_CASE("an error nothing can meet exits 1 with a message and nothing on stdout") {
@@ -585,8 +585,8 @@ TEST_CASE("bridges through their amplifier and current-driven thermistors reach 
                 worst = std::max(worst, std::abs(static_cast<double>(c.counts) * k.unit_c - exact));
                 CHECK(c.state == 0);
             }
-            CHECK(worst == doctest::Approx(doc["shipped"]["max_error_c"].get<double>()).epsilon(1e-9));
-            CHECK(worst <= doc["max_error_target_c"].get<double>());
+            CHECK(worst == doctest::Approx(doc["shipped"]["max_error_k"].get<double>()).epsilon(1e-9));
+            CHECK(worst <= doc["max_error_target_k"].get<double>());
             const long open = r["open_code"].get<long>();
             const long shorted = r["short_code"].get<long>();
             CHECK(doc["faults"]["open_code"].get<long>() == open);

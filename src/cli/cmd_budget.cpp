@@ -82,7 +82,7 @@ std::string parts_description(const BudgetSpec& s, bool volts) {
 
 Json components_json(const BudgetComponents& k) {
     Json j = Json::object();
-    for (std::size_t c = 0; c < kCauses; ++c) j[std::string(cause_key(static_cast<Cause>(c))) + "_c"] = number(k.k[c]);
+    for (std::size_t c = 0; c < kCauses; ++c) j[std::string(cause_key(static_cast<Cause>(c))) + "_k"] = number(k.k[c]);
     return j;
 }
 
@@ -116,12 +116,13 @@ Json budget_json(const Budget& b, const BudgetSpec& s, const Thermistor& model, 
     a["board_temperature"] =
         s.board.sensed ? Json("sensed")
                        : Json({{"lo_c", kelvin_to_celsius(s.board.lo_k)}, {"hi_c", kelvin_to_celsius(s.board.hi_k)}});
-    a["thermistor_dt_k"] = t.thermistor_dt_k > 0.0 ? Json({{"tolerance_k", t.thermistor_dt_k},
+    a["thermistor_dt"] = t.thermistor_dt_k > 0.0 ? Json({{"tolerance_k", t.thermistor_dt_k},
                                                            {"lo_c", kelvin_to_celsius(s.dt_lo_k)},
                                                            {"hi_c", kelvin_to_celsius(s.dt_hi_k)}})
                                                    : Json(nullptr);
     if (circuit.lead_ohm > 0.0) {
-        a["lead"] = {{"loop_ohm_at_20_c", circuit.lead_ohm},
+        a["lead"] = {{"loop_ohm", circuit.lead_ohm},
+                     {"stated_at_c", kelvin_to_celsius(kCopperReferenceK)},
                      {"compensated", s.lead_compensated},
                      {"copper_alpha_per_k", kCopperAlphaPerK},
                      {"cable_lo_c", kelvin_to_celsius(s.cable_lo_k)},
@@ -138,39 +139,39 @@ Json budget_json(const Budget& b, const BudgetSpec& s, const Thermistor& model, 
                     {"gain_pct", 100.0 * s.adc.gain},
                     {"inl_lsb", s.adc.inl_lsb},
                     {"full_scale", s.adc.full_scale},
-                    {"lsb", b.lsb}};
+                    {"lsb_size", b.lsb}};
     } else {
         a["adc"] = nullptr;
     }
     a["dissipation_mw_per_k"] = s.dissipation_w_per_k > 0.0 ? Json(1e3 * s.dissipation_w_per_k) : Json(nullptr);
     doc["assumptions"] = a;
     if (s.reading == Reading::line) {
-        doc["line"] = {{"slope_per_k", b.line.slope}, {"intercept_at_0_c", b.line.at(kZeroCelsiusK)}};
+        doc["line"] = {{"slope_per_k", b.line.slope}, {"intercept", b.line.at(kZeroCelsiusK)}};
     }
     const bool mc = s.trials > 0;
-    doc["summary"] = {{"worst_case_c", b.summary.worst_case_k},
+    doc["summary"] = {{"worst_case_k", b.summary.worst_case_k},
                       {"at_t_c", kelvin_to_celsius(b.summary.at_t_k)},
-                      {"worst_low_c", b.summary.worst_low_k},
-                      {"worst_high_c", b.summary.worst_high_k},
-                      {"p99_7_c", number(b.summary.p99_7_k)},
+                      {"worst_low_k", b.summary.worst_low_k},
+                      {"worst_high_k", b.summary.worst_high_k},
+                      {"p99_7_k", number(b.summary.p99_7_k)},
                       {"p99_7_at_t_c", mc ? Json(kelvin_to_celsius(b.summary.p99_7_at_t_k)) : Json(nullptr)}};
     Json pts = Json::array();
     for (const BudgetPoint& p : b.points) {
         Json j;
         j["t_c"] = kelvin_to_celsius(p.t_k);
-        j["worst_case_c"] = p.worst_case_k;
-        j["worst_low_c"] = p.worst_low_k;
-        j["worst_high_c"] = p.worst_high_k;
-        j["nominal_error_c"] = p.nominal_error_k;
+        j["worst_case_k"] = p.worst_case_k;
+        j["worst_low_k"] = p.worst_low_k;
+        j["worst_high_k"] = p.worst_high_k;
+        j["nominal_error_k"] = p.nominal_error_k;
         if (mc) {
-            j["mc"] = {{"mean_c", p.mc.mean_k},   {"std_c", number(p.mc.std_k)}, {"p95_c", p.mc.p95_k},
-                       {"p99_7_c", p.mc.p99_7_k}, {"max_abs_c", p.mc.max_abs_k}, {"p0_135_c", p.mc.p0_135_k},
-                       {"p2_5_c", p.mc.p2_5_k},   {"p97_5_c", p.mc.p97_5_k},     {"p99_865_c", p.mc.p99_865_k}};
+            j["mc"] = {{"mean_k", p.mc.mean_k},   {"std_k", number(p.mc.std_k)}, {"p95_k", p.mc.p95_k},
+                       {"p99_7_k", p.mc.p99_7_k}, {"max_abs_k", p.mc.max_abs_k}, {"p0_135_k", p.mc.p0_135_k},
+                       {"p2_5_k", p.mc.p2_5_k},   {"p97_5_k", p.mc.p97_5_k},     {"p99_865_k", p.mc.p99_865_k}};
         } else {
             j["mc"] = nullptr;
         }
         j["components"] = components_json(p.components);
-        j["resolution_c_per_lsb"] = number(p.resolution_k_per_lsb);
+        j["resolution_k_per_lsb"] = number(p.resolution_k_per_lsb);
         pts.push_back(j);
     }
     doc["points"] = pts;
@@ -179,12 +180,12 @@ Json budget_json(const Budget& b, const BudgetSpec& s, const Thermistor& model, 
 
 std::string budget_csv(const Budget& b) {
     std::vector<Column> cols = {
-        {"", "t_c"},         {"", "worst_case_c"}, {"", "worst_low_c"}, {"", "worst_high_c"}, {"", "nominal_error_c"},
-        {"", "mc_mean_c"},   {"", "mc_std_c"},     {"", "mc_p95_c"},    {"", "mc_p99_7_c"},   {"", "mc_max_abs_c"},
-        {"", "mc_p0_135_c"}, {"", "mc_p2_5_c"},    {"", "mc_p97_5_c"},  {"", "mc_p99_865_c"}};
+        {"", "t_c"},         {"", "worst_case_k"}, {"", "worst_low_k"}, {"", "worst_high_k"}, {"", "nominal_error_k"},
+        {"", "mc_mean_k"},   {"", "mc_std_k"},     {"", "mc_p95_k"},    {"", "mc_p99_7_k"},   {"", "mc_max_abs_k"},
+        {"", "mc_p0_135_k"}, {"", "mc_p2_5_k"},    {"", "mc_p97_5_k"},  {"", "mc_p99_865_k"}};
     for (std::size_t c = 0; c < kCauses; ++c)
-        cols.push_back({"", std::string(cause_key(static_cast<Cause>(c))) + "_c"});
-    cols.push_back({"", "resolution_c_per_lsb"});
+        cols.push_back({"", std::string(cause_key(static_cast<Cause>(c))) + "_k"});
+    cols.push_back({"", "resolution_k_per_lsb"});
     Table t(cols);
     for (const BudgetPoint& p : b.points) {
         std::vector<Cell> row = {kelvin_to_celsius(p.t_k),

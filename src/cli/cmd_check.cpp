@@ -43,7 +43,7 @@ std::string line_description(LineKind k) {
 Json summary_json(const AnalysisSummary& s, bool driven) {
     Json j = {{"max_nonlinearity_pct_fsd", s.max_nonlinearity_pct_fsd},
               {"at_t_c", kelvin_to_celsius(s.at_t_k)},
-              {"max_error_c", s.max_error_k},
+              {"max_error_k", s.max_error_k},
               {"output_span", s.output_span},
               {"sensitivity_per_k", {{"min", s.sensitivity_min_per_k}, {"max", s.sensitivity_max_per_k}}}};
     if (driven) {
@@ -127,12 +127,12 @@ void run_check(const CheckCommand& o) {
         doc["span"] = {{"lo_c", kelvin_to_celsius(span.lo_k)}, {"hi_c", kelvin_to_celsius(span.hi_k)}};
         doc["circuit"] = circuit_json(circuit);
         doc["line"] = std::string(line_name(line));
-        doc["line_coefficients"] = {{"slope_per_k", a.line.slope}, {"intercept_at_0_c", a.line.at(kZeroCelsiusK)}};
+        doc["line_coefficients"] = {{"slope_per_k", a.line.slope}, {"intercept", a.line.at(kZeroCelsiusK)}};
         if (dissipation_w_per_k > 0.0) doc["dissipation_mw_per_k"] = 1e3 * dissipation_w_per_k;
         doc["summary"] = summary_json(a.summary, driven);
         if (circuit.lead_ohm > 0.0) {
             const auto [lo, hi] = lead_shift_range(circuit, thermistor, grid);
-            doc["summary"]["lead_shift_c"] = {{"min", lo}, {"max", hi}};
+            doc["summary"]["lead_shift_k"] = {{"min", lo}, {"max", hi}};
         }
         Json pts = Json::array();
         for (const PointResult& p : a.points) {
@@ -142,7 +142,7 @@ void run_check(const CheckCommand& o) {
                        {"ideal", p.ideal},
                        {"deviation", p.deviation},
                        {"nonlinearity_pct_fsd", p.nonlinearity_pct_fsd},
-                       {"error_c", p.error_k},
+                       {"error_k", p.error_k},
                        {"sensitivity_per_k", p.sensitivity_per_k}};
             if (driven) {
                 pt["power_w"] = number(p.power_w);
@@ -159,13 +159,13 @@ void run_check(const CheckCommand& o) {
                                      "C)",
                                      "t_c", 2},
                                     {"R_T (ohm)", "r_t_ohm", -1, 6},
-                                    {"output (" + unit + ")", "output", -1, 6},
-                                    {"ideal (" + unit + ")", "ideal", -1, 6},
-                                    {"deviation (" + unit + ")", "deviation", -1, 4},
+                                    {"output (" + unit + ")", "output" + unit_suffix(unit), -1, 6},
+                                    {"ideal (" + unit + ")", "ideal" + unit_suffix(unit), -1, 6},
+                                    {"deviation (" + unit + ")", "deviation" + unit_suffix(unit), -1, 4},
                                     {"nonlinearity (%FSD)", "nonlinearity_pct_fsd", 3},
                                     {"error (\xC2\xB0"
                                      "C)",
-                                     "error_c", 3}};
+                                     "error_k", 3}};
         if (driven) {
             columns.push_back({csv ? "power (W)" : "power (mW)", "power_w", -1, 4});
             columns.push_back({"self-heating (K)", "self_heating_k", 4});

@@ -24,7 +24,7 @@ struct FitCommand {
 Json residuals_json(const std::vector<Residual>& rs) {
     Json arr = Json::array();
     for (const Residual& r : rs) {
-        arr.push_back({{"t_c", kelvin_to_celsius(r.t_k)}, {"r_ohm", r.r_ohm}, {"residual_mk", 1e3 * r.residual_k}});
+        arr.push_back({{"t_c", kelvin_to_celsius(r.t_k)}, {"r_ohm", r.r_ohm}, {"residual_k", r.residual_k}});
     }
     return arr;
 }
@@ -44,7 +44,7 @@ template <class MaxResidual>
 std::pair<Json, std::string> other_fit(const char* kind, const char* name, MaxResidual max_residual_k) {
     try {
         const double max_k = max_residual_k();
-        return {Json{{"kind", kind}, {"max_residual_mk", 1e3 * max_k}},
+        return {Json{{"kind", kind}, {"max_residual_k", max_k}},
                 std::string("a ") + name + " fit to the same points: largest |residual| " +
                     format_fixed(1e3 * max_k, 2) + " mK\n"};
     } catch (const InputError& e) {
@@ -108,7 +108,7 @@ void run_fit(const FitCommand& o) {
         Json doc = document("fit");
         doc["model"] = model;
         doc["residuals"] = residuals_json(residuals);
-        doc["max_residual_mk"] = 1e3 * max_residual_k;
+        doc["max_residual_k"] = max_residual_k;
         if (!alternative.is_null()) doc["alternative"] = alternative;
         bytes = dump(doc);
     } else {
@@ -116,9 +116,13 @@ void run_fit(const FitCommand& o) {
                       "C)",
                       "t_c", 2},
                      {"R (ohm)", "r_ohm", -1, 7},
-                     {"residual (mK)", "residual_mk", 3}});
-        for (const Residual& r : residuals) table.add_row({kelvin_to_celsius(r.t_k), r.r_ohm, 1e3 * r.residual_k});
-        if (format == Format::csv) {
+                     {"residual (mK)", "residual_k", 3}});
+        // Text reads residuals in mK; CSV keeps kelvin, the one unit of a temperature difference in data.
+        const bool csv = format == Format::csv;
+        for (const Residual& r : residuals) {
+            table.add_row({kelvin_to_celsius(r.t_k), r.r_ohm, csv ? r.residual_k : 1e3 * r.residual_k});
+        }
+        if (csv) {
             bytes = table.csv();
         } else {
             const Residual& w = worst(residuals);

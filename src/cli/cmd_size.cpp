@@ -175,14 +175,14 @@ bool driven(const Candidate& c) { return c.circuit.excitation.drive != Drive::ra
 
 // The JSON key of an objective's figure per candidate.
 std::string objective_key(Objective o) {
-    return o == Objective::resolution ? "resolution_c_per_code" : "total_error_c";
+    return o == Objective::resolution ? "resolution_k_per_code" : "total_error_k";
 }
 
 Json candidate_json(const Candidate& c) {
     Json j = {{"topology", std::string(topology_name(c.circuit.topology))},
               {"resistors_ohm", resistors_json(c.circuit)},
               {"max_nonlinearity_pct_fsd", c.max_nonlinearity_pct_fsd},
-              {"max_error_c", c.max_error_k},
+              {"max_error_k", c.max_error_k},
               {"output_span", c.output_span},
               {"sensitivity_per_k", {{"min", c.sensitivity_min_per_k}, {"max", c.sensitivity_max_per_k}}}};
     if (driven(c)) {
@@ -207,10 +207,10 @@ Table candidate_table(const std::vector<Candidate>& cs, const std::string& unit,
     cols.push_back(
         {"error (\xC2\xB0"
          "C)",
-         "max_error_c", 3});
-    cols.push_back({"span (" + unit + ")", "output_span", -1, 4});
-    cols.push_back({"min sens (" + unit + "/K)", "sensitivity_min_per_k", -1, 4});
-    cols.push_back({"max sens (" + unit + "/K)", "sensitivity_max_per_k", -1, 4});
+         "max_error_k", 3});
+    cols.push_back({"span (" + unit + ")", "output_span" + unit_suffix(unit), -1, 4});
+    cols.push_back({"min sens (" + unit + "/K)", "sensitivity_min" + unit_suffix(unit) + "_per_k", -1, 4});
+    cols.push_back({"max sens (" + unit + "/K)", "sensitivity_max" + unit_suffix(unit) + "_per_k", -1, 4});
     const bool power = !cs.empty() && driven(cs.front());
     if (power) cols.push_back({csv ? "power (W)" : "power (mW)", "max_power_w", -1, 4});
     if (power && self_heating) cols.push_back({"self-heating (K)", "max_self_heating_k", 4});
@@ -288,7 +288,7 @@ Json header_json(const Setup& s, const std::string& command) {
     Json c = Json::object();
     if (std::isfinite(k.max_power_w)) c["max_power_w"] = k.max_power_w;
     if (std::isfinite(k.max_self_heating_k)) c["max_self_heating_k"] = k.max_self_heating_k;
-    if (k.min_span > 0.0) c["min_span"] = k.min_span;
+    if (k.min_span > 0.0) c["min_output_span"] = k.min_span;
     if (k.min_sensitivity > 0.0) c["min_sensitivity_per_k"] = k.min_sensitivity;
     doc["constraints"] = c;
     if (s.spec.dissipation_w_per_k > 0.0) doc["dissipation_mw_per_k"] = 1e3 * s.spec.dissipation_w_per_k;
@@ -345,7 +345,7 @@ std::string run_compare(const SizeCommand& o, Setup& s, Format format) {
                                  {"", "rp_ohm"},
                                  {"", "r1_ohm"},
                                  {"", "max_nonlinearity_pct_fsd"},
-                                 {"", "max_error_c"},
+                                 {"", "max_error_k"},
                                  {"", "output_span"},
                                  {"", "output_unit"}};
         if (power) cols.push_back({"", "max_power_w"});
@@ -373,7 +373,7 @@ std::string run_compare(const SizeCommand& o, Setup& s, Format format) {
                              {"nonlinearity (%FSD)", "max_nonlinearity_pct_fsd", 3},
                              {"error (\xC2\xB0"
                               "C)",
-                              "max_error_c", 3},
+                              "max_error_k", 3},
                              {"span", "output_span", -1, 4},
                              {"unit", "output_unit"}};
     if (power) cols.push_back({"power (mW)", "max_power_w", -1, 4});

@@ -115,7 +115,7 @@ Json polynomial_json(const Polynomial& p, const CodeMap& map) {
             {"code_lo", p.code_lo},
             {"code_hi", p.code_hi},
             {"coefficients", coefficients_c(p)},
-            {"max_error_c", p.max_error_k},
+            {"max_error_k", p.max_error_k},
             {"at_code", p.at_code},
             {"at_t_c", kelvin_to_celsius(map.temperature(p.at_code))}};
 }
@@ -186,11 +186,11 @@ std::string json_report(const Result& r) {
                       {"temperature_rises_with_code", r.map.rising()}};
     doc["spacing"] = std::string(spacing_name(r.table.spacing));
     if (r.table.spacing == Spacing::power_of_two) doc["shift"] = r.table.shift;
-    doc["unit_c"] = 1.0 / r.fixed.scale_per_c;
+    doc["unit_k"] = 1.0 / r.fixed.scale_per_c;
     doc["fixed_type"] = fixed_type(r.fixed);
     doc["arithmetic_bits"] = r.fixed.arithmetic_bits;
     doc["interpolation"] = "linear";
-    doc["max_error_target_c"] = r.target_k;
+    doc["max_error_target_k"] = r.target_k;
     doc["max_error_target_source"] = r.target_given ? "--max-error" : "default";
     Json searched = Json::array();
     if (r.table_searched) searched.push_back("entries");
@@ -203,10 +203,10 @@ std::string json_report(const Result& r) {
             {{"code", r.table.codes[i]}, {"t_c", kelvin_to_celsius(r.table.t_k[i])}, {"t_fixed", r.fixed.t[i]}});
     }
     doc["table"] = rows;
-    doc["shipped"] = {{"max_error_c", r.fixed.max_error_k},
+    doc["shipped"] = {{"max_error_k", r.fixed.max_error_k},
                       {"at_code", r.fixed.at_code},
                       {"at_t_c", kelvin_to_celsius(r.map.temperature(r.fixed.at_code))}};
-    doc["interpolation_error"] = {{"max_error_c", r.table.max_error_k},
+    doc["interpolation_error"] = {{"max_error_k", r.table.max_error_k},
                                   {"at_code", r.table.at_code},
                                   {"at_t_c", kelvin_to_celsius(r.map.temperature(r.table.at_code))}};
     doc["faults"] = fault_json(r);

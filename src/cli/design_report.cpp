@@ -137,9 +137,9 @@ Table ranked_table(const DesignRun& r) {
     cols.insert(cols.end(), {{"circuit", "topology"},
                              {"values", "values"},
                              {"series", "series"},
-                             {std::string("error (") + kDeg + ")", "error_c", 4},
-                             {std::string("at (") + kDeg + ")", "at_c", 1},
-                             {std::string("worst case (") + kDeg + ")", "worst_case_c", 4},
+                             {std::string("error (") + kDeg + ")", "error_k", 4},
+                             {std::string("at (") + kDeg + ")", "at_t_c", 1},
+                             {std::string("worst case (") + kDeg + ")", "worst_case_k", 4},
                              {"nonlinearity (%FSD)", "nonlinearity_pct_fsd", 3}});
     Table t(cols);
     const std::size_t n = std::min(d.ranked.size(), r.runners_up + 1);
@@ -177,13 +177,13 @@ Table signed_table(const DesignRun& r) {
     const Budget& b = r.design.budget;
     const bool mc = r.design.budget_spec.trials > 0;
     const std::string u = std::string(" (") + kDeg + ")";
-    std::vector<Column> cols{{"T" + u, "t_c", 1}, {"worst low" + u, "worst_low_c", 4}, {"worst high" + u, "worst_high_c", 4}};
+    std::vector<Column> cols{{"T" + u, "t_c", 1}, {"worst low" + u, "worst_low_k", 4}, {"worst high" + u, "worst_high_k", 4}};
     if (mc) {
-        cols.insert(cols.end(), {{"MC mean" + u, "mc_mean_c", 4},
-                                 {"0.135 %" + u, "mc_p0_135_c", 4},
-                                 {"99.865 %" + u, "mc_p99_865_c", 4},
-                                 {"|e| 95 %" + u, "mc_p95_c", 4},
-                                 {"|e| 99.7 %" + u, "mc_p99_7_c", 4}});
+        cols.insert(cols.end(), {{"MC mean" + u, "mc_mean_k", 4},
+                                 {"0.135 %" + u, "mc_p0_135_k", 4},
+                                 {"99.865 %" + u, "mc_p99_865_k", 4},
+                                 {"|e| 95 %" + u, "mc_p95_k", 4},
+                                 {"|e| 99.7 %" + u, "mc_p99_7_k", 4}});
     }
     Table t(cols);
     for (const BudgetPoint& p : b.points) {
@@ -202,11 +202,11 @@ Table split_table(const DesignRun& r) {
     std::vector<std::size_t> shown;
     for (std::size_t c = 0; c < kCauses; ++c) {
         if (!std::isnan(b.points.front().components.k[c])) {
-            cols.push_back({cause_words(static_cast<Cause>(c)) + u, std::string(cause_key(static_cast<Cause>(c))) + "_c", 4});
+            cols.push_back({cause_words(static_cast<Cause>(c)) + u, std::string(cause_key(static_cast<Cause>(c))) + "_k", 4});
             shown.push_back(c);
         }
     }
-    cols.push_back({std::string("resolution (") + kDeg + "/LSB)", "resolution_c_per_lsb", 5});
+    cols.push_back({std::string("resolution (") + kDeg + "/LSB)", "resolution_k_per_lsb", 5});
     Table t(cols);
     for (const BudgetPoint& p : b.points) {
         std::vector<Cell> row{kelvin_to_celsius(p.t_k)};
@@ -342,7 +342,7 @@ Json design_json(const DesignRun& r) {
     doc["span"] = {{"lo_c", kelvin_to_celsius(r.spec.span.lo_k)}, {"hi_c", kelvin_to_celsius(r.spec.span.hi_k)}};
     doc["circuit"] = circuit_json(c);
     doc["flags"] = readback_flags(r);
-    doc["requirements"] = {{"max_error_c", r.spec.max_error_k},
+    doc["requirements"] = {{"max_error_k", r.spec.max_error_k},
                            {"confidence", std::string(confidence_name(r.spec.confidence))},
                            {"step_k", r.spec.step_k},
                            {"adc_bits", r.spec.budget.adc.bits},
@@ -355,18 +355,18 @@ Json design_json(const DesignRun& r) {
     Json powers = Json::object();
     for (const ResistorPower& p : resistor_powers(c, d.grid)) powers[p.name] = number(p.max_w);
     doc["resistor_power_w"] = powers;
-    doc["analog"] = {{"error_c", best.analog_k},
+    doc["analog"] = {{"error_k", best.analog_k},
                      {"at_t_c", kelvin_to_celsius(best.analog_at_k)},
-                     {"worst_case_c", best.worst_case_k},
+                     {"worst_case_k", best.worst_case_k},
                      {"monte_carlo", best.monte_carlo},
                      {"nonlinearity_pct_fsd", best.candidate.max_nonlinearity_pct_fsd}};
     if (d.table) {
-        doc["table"] = {{"target_c", d.table_target_k},
+        doc["table"] = {{"target_k", d.table_target_k},
                         {"entries", d.table->table.codes.size()},
                         {"spacing", std::string(spacing_name(r.spec.spacing))},
-                        {"unit_c", 1.0 / r.spec.scale_per_c},
-                        {"shipped_error_c", d.table->fixed.max_error_k},
-                        {"interpolation_error_c", d.table->table.max_error_k},
+                        {"unit_k", 1.0 / r.spec.scale_per_c},
+                        {"shipped_error_k", d.table->fixed.max_error_k},
+                        {"interpolation_error_k", d.table->table.max_error_k},
                         {"code_lo", d.map->code_lo},
                         {"code_hi", d.map->code_hi}};
         Json rows = Json::array();
@@ -379,18 +379,18 @@ Json design_json(const DesignRun& r) {
     } else {
         doc["table"] = nullptr;
     }
-    doc["total_error_c"] = d.total_k;
-    doc["margin_c"] = r.spec.max_error_k - d.total_k;
+    doc["total_error_k"] = d.total_k;
+    doc["margin_k"] = r.spec.max_error_k - d.total_k;
     if (d.shortfall == Shortfall::none) {
         doc["shortfall"] = nullptr;
     } else {
         Json sf = {{"kind", d.shortfall == Shortfall::analog ? "analog" : "table"}, {"words", shortfall_words(r)}};
         if (d.shortfall == Shortfall::analog) {
             sf["cause"] = std::string(cause_key(d.cause));
-            sf["cause_c"] = d.cause_k;
+            sf["cause_k"] = d.cause_k;
             sf["at_t_c"] = kelvin_to_celsius(d.cause_at_k);
         } else {
-            sf["rounding_floor_c"] = d.rounding_floor_k;
+            sf["rounding_floor_k"] = d.rounding_floor_k;
         }
         doc["shortfall"] = sf;
     }
@@ -403,9 +403,9 @@ Json design_json(const DesignRun& r) {
                           {"topology", std::string(topology_name(o.candidate.circuit.topology))},
                           {"resistors_ohm", resistors_json(o.candidate.circuit)},
                           {"series", std::string(series_name(o.series))},
-                          {"error_c", o.analog_k},
+                          {"error_k", o.analog_k},
                           {"at_t_c", kelvin_to_celsius(o.analog_at_k)},
-                          {"worst_case_c", o.worst_case_k},
+                          {"worst_case_k", o.worst_case_k},
                           {"monte_carlo", o.monte_carlo},
                           {"nonlinearity_pct_fsd", o.candidate.max_nonlinearity_pct_fsd}});
     }
@@ -416,22 +416,22 @@ Json design_json(const DesignRun& r) {
     const bool mc = d.budget_spec.trials > 0;
     for (const BudgetPoint& p : d.budget.points) {
         Json j = {{"t_c", kelvin_to_celsius(p.t_k)},
-                  {"worst_low_c", p.worst_low_k},
-                  {"worst_high_c", p.worst_high_k},
-                  {"worst_case_c", p.worst_case_k},
-                  {"resolution_c_per_lsb", number(p.resolution_k_per_lsb)}};
+                  {"worst_low_k", p.worst_low_k},
+                  {"worst_high_k", p.worst_high_k},
+                  {"worst_case_k", p.worst_case_k},
+                  {"resolution_k_per_lsb", number(p.resolution_k_per_lsb)}};
         if (mc) {
-            j["mc"] = {{"mean_c", p.mc.mean_k}, {"p0_135_c", p.mc.p0_135_k}, {"p99_865_c", p.mc.p99_865_k},
-                       {"p95_c", p.mc.p95_k},   {"p99_7_c", p.mc.p99_7_k}};
+            j["mc"] = {{"mean_k", p.mc.mean_k}, {"p0_135_k", p.mc.p0_135_k}, {"p99_865_k", p.mc.p99_865_k},
+                       {"p95_k", p.mc.p95_k},   {"p99_7_k", p.mc.p99_7_k}};
         }
         Json comp = Json::object();
-        for (std::size_t k = 0; k < kCauses; ++k) comp[std::string(cause_key(static_cast<Cause>(k))) + "_c"] = number(p.components.k[k]);
+        for (std::size_t k = 0; k < kCauses; ++k) comp[std::string(cause_key(static_cast<Cause>(k))) + "_k"] = number(p.components.k[k]);
         j["components"] = comp;
         pts.push_back(j);
     }
-    doc["budget"] = {{"worst_case_c", d.budget.summary.worst_case_k},
+    doc["budget"] = {{"worst_case_k", d.budget.summary.worst_case_k},
                      {"at_t_c", kelvin_to_celsius(d.budget.summary.at_t_k)},
-                     {"p99_7_c", number(d.budget.summary.p99_7_k)},
+                     {"p99_7_k", number(d.budget.summary.p99_7_k)},
                      {"points", pts}};
     return doc;
 }

@@ -334,7 +334,7 @@ void add_front_end_columns(std::vector<Column>& columns, const Circuit& c) {
         columns.push_back({"", "source_a_ohm"});
         columns.push_back({"", "source_b_ohm"});
     }
-    columns.push_back({"", "converter_input"});
+    columns.push_back({"", "converter_input" + unit_suffix(output_unit(c))});
     columns.push_back({"", "settling_error_lsb"});
 }
 

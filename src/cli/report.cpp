@@ -140,11 +140,18 @@ std::string Table::markdown() const {
     return out;
 }
 
+std::string unit_suffix(const std::string& output_unit) {
+    if (output_unit == "V/V") return "_v_per_v";
+    if (output_unit == "V") return "_v";
+    if (output_unit == "ohm") return "_ohm";
+    throw std::logic_error("no key suffix for the output unit " + output_unit);
+}
+
 Json document(const std::string& command) {
     Json j;
     j["tool"] = "rtline";
     j["version"] = RTLINE_VERSION;
-    j["schema"] = 1;
+    j["schema"] = kSchema;
     j["command"] = command;
     return j;
 }

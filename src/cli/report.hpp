@@ -53,6 +53,13 @@ private:
 // Display width of UTF-8 text (the bytes that start a code point), for padding labels like "T (°C)".
 [[nodiscard]] std::size_t width(const std::string& s);
 
+// The JSON schema's version: 2 since keys carry their units throughout (docs/json.md lists the changes).
+inline constexpr int kSchema = 2;
+
+// The key suffix of an output unit ("V/V" -> "_v_per_v", "V" -> "_v", "ohm" -> "_ohm"): CSV has no
+// output_unit field, so its headers in the output unit carry it ("output_v_per_v").
+[[nodiscard]] std::string unit_suffix(const std::string& output_unit);
+
 // A JSON document's opening keys: tool, version, schema, command.
 [[nodiscard]] Json document(const std::string& command);
 // A number for JSON: NaN and infinities become null (JSON has neither).

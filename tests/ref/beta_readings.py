@@ -5,7 +5,7 @@ weighted by T² (so that it minimizes temperature residuals to first order); R25
 the residual at a point is T(model at R) - T.
 
 stdin:  {"t": [...typed temperature numbers...], "r_ohm": [...]}
-stdout: {"celsius"|"kelvin"|"fahrenheit": {"b_k", "r25_ohm", "max_residual_mk"}}
+stdout: {"celsius"|"kelvin"|"fahrenheit": {"b_k", "r25_ohm", "max_residual_k"}}
 """
 import json
 import sys
@@ -25,7 +25,7 @@ def fit(t_k):
     return {
         "b_k": float(1.0 / x1),
         "r25_ohm": float(np.exp((1.0 / 298.15 - x0) / x1)),
-        "max_residual_mk": float(1e3 * np.max(np.abs(t_model - t_k))),
+        "max_residual_k": float(np.max(np.abs(t_model - t_k))),
     }
 
 

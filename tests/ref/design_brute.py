@@ -16,7 +16,7 @@ Nonlinearity: the largest deviation of v from its endpoint line over the span, %
 
 stdin:  {"parts": [{"label", "r25_ohm", "b_k", "r25_tol", "b_tol"}], "values": [ohm, ...],
          "lo_c", "hi_c", "step_c", "resistor_tol", "adc_bits"}
-stdout: {"results": [{"label", "rs_ohm", "worst_case_c", "at_c", "nonlinearity_pct_fsd"}],
+stdout: {"results": [{"label", "rs_ohm", "worst_case_k", "at_t_c", "nonlinearity_pct_fsd"}],
          "best_by_error": {...}, "best_by_nonlinearity": {...}}
 """
 import itertools
@@ -47,10 +47,10 @@ def main():
             line = v0[0] + (v0[-1] - v0[0]) * (t - t[0]) / (t[-1] - t[0])
             nl = 100 * np.max(np.abs(v0 - line)) / abs(v0[-1] - v0[0])
             i = int(np.argmax(worst))
-            results.append({"label": p["label"], "rs_ohm": rs, "worst_case_c": float(worst[i]),
-                            "at_c": float(t[i] - 273.15), "nonlinearity_pct_fsd": float(nl)})
+            results.append({"label": p["label"], "rs_ohm": rs, "worst_case_k": float(worst[i]),
+                            "at_t_c": float(t[i] - 273.15), "nonlinearity_pct_fsd": float(nl)})
     json.dump({"results": results,
-               "best_by_error": min(results, key=lambda r: r["worst_case_c"]),
+               "best_by_error": min(results, key=lambda r: r["worst_case_k"]),
                "best_by_nonlinearity": min(results, key=lambda r: r["nonlinearity_pct_fsd"])}, sys.stdout)
 
 

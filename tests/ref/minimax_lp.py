@@ -4,7 +4,7 @@ minimize E over (c_0..c_D, E) subject to  -E <= sum_i c_i T_i(x_j) - t_j <= E  f
 with Chebyshev polynomials T_i (numpy.polynomial.chebyshev) as the basis for conditioning.
 
 stdin:  {"x": [...], "t_c": [...], "degrees": [D, ...]}
-stdout: {"max_error_c": [E for each degree]}
+stdout: {"max_error_k": [E for each degree]}
 """
 import json
 import sys
@@ -29,4 +29,4 @@ for deg in d["degrees"]:
     if not res.success:
         raise SystemExit("linprog failed: " + res.message)
     errors.append(float(np.abs(chebyshev.chebval(x, res.x[: deg + 1]) - t).max()))
-print(json.dumps({"max_error_c": errors}))
+print(json.dumps({"max_error_k": errors}))

@@ -2,7 +2,7 @@
 
 stdin:  {"x": [...], "t_c": [...], "degrees": [D, ...]}
 stdout: {"fits": [{"degree": D, "coefficients": [c0, ..., cD] (constant first),
-                   "max_error_c": max |polyval - t_c|}, ...]}
+                   "max_error_k": max |polyval - t_c|}, ...]}
 """
 import json
 import sys
@@ -16,5 +16,5 @@ fits = []
 for deg in d["degrees"]:
     c = np.polyfit(x, t, deg)  # highest power first
     err = np.abs(np.polyval(c, x) - t)
-    fits.append({"degree": deg, "coefficients": [float(v) for v in c[::-1]], "max_error_c": float(err.max())})
+    fits.append({"degree": deg, "coefficients": [float(v) for v in c[::-1]], "max_error_k": float(err.max())})
 print(json.dumps({"fits": fits}))
