@@ -341,6 +341,32 @@ TEST_CASE("a mistyped trial count, tolerance or converter figure in a budget is 
     });
 }
 
+TEST_CASE("a budget refuses the amplifier's errors without an amplifier, or in volts against no known volts") {
+    const std::vector<std::string> bridge = {"budget", "--r25", "10k", "--beta", "3950", "--span", "0:50",
+                                             "--step", "10", "--circuit", "bridge", "--r1", "10k", "--trials", "0"};
+    check_refused({
+        {"an input offset on a ratiometric reading without the excitation's volts",
+         with(bridge, {"--auto-range", "--amp-offset", "50u"}),
+         "--amp-offset '50u': is in volts, and a ratiometric reading is a fraction of the excitation; give the "
+         "excitation in volts with --excitation"},
+        {"a bias current likewise", with(bridge, {"--gain", "20", "--amp-bias", "1n"}),
+         "--amp-bias '1n': is in volts, and a ratiometric reading is a fraction of the excitation; give the "
+         "excitation in volts with --excitation"},
+        {"an amplifier's error without an amplifier", with(kBudget, {"--amp-offset-drift", "1u"}),
+         "--amp-offset-drift '1u': needs an amplifier: give --gain or --auto-range"},
+        {"a negative input offset", with(bridge, {"--auto-range", "--excitation", "5", "--amp-offset", "-1u"}),
+         "--amp-offset '-1u': must be 0 or more (a bound, +-V)"},
+        {"a gain error of 100 %", with(bridge, {"--auto-range", "--amp-gain-tol", "100"}),
+         "--amp-gain-tol '100': a tolerance must be at least 0 and below 100 (percent)"},
+        // The bridge nulls at 0 degC (r3 = R_T(0)): V_A - V_B falls from 0 as R_T falls, so a gain of 10
+        // takes the converter input below 0 everywhere past the null.
+        {"an amplifier that drives the converter input below its range",
+         with(bridge, {"--gain", "10", "--adc-bits", "12"}),
+         "--gain '10': through the amplifier the converter input reaches -5.06684 V/V, below the converter's "
+         "range; change --gain and --offset or use --auto-range"},
+    });
+}
+
 TEST_CASE("a model that cannot describe the span, or a circuit whose output does not change, is refused") {
     check_refused({
         // R(-265 °C) = 10k·exp(6000·(1/8.15 − 1/298.15)) = 10k·e^716.1 (by hand): beyond a double's

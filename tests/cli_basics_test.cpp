@@ -89,7 +89,8 @@ std::vector<std::string> run_with(const std::string& command, const std::string&
 TEST_CASE("the --help of table, budget and size names exactly the circuits each runs") {
     // Each circuit the help line names runs (exit 0) with the flags it names; the ones it leaves out
     // are refused (exit 2). Which ones: table reads every voltage output through its channel; budget
-    // reads each network's output directly; size has nothing to size in a bare thermistor.
+    // reads each network's output directly or through an amplifier (a bridge here through --auto-range);
+    // size has nothing to size in a bare thermistor.
     const std::vector<std::string> all = {"bare",          "divider-high", "divider-low", "shunt",
                                           "shunt-divider", "bridge",       "shunt-bridge"};
     auto parts = [](const std::string& t) -> std::vector<std::string> {
@@ -115,6 +116,7 @@ TEST_CASE("the --help of table, budget and size names exactly the circuits each 
             if (command == "budget") {
                 more.insert(more.end(), {"--step", "10", "--trials", "0"});
                 if (current) more.insert(more.end(), {"--current", "50u", "--adc-ref", "2.5", "--adc-bits", "12"});
+                if (t == "bridge" || t == "shunt-bridge") more.push_back("--auto-range");
             }
             if (command == "size") more.insert(more.end(), {"--step", "5"});
             // A name in the help line, not inside another name (divider-low inside shunt-divider).

@@ -12,6 +12,7 @@
 
 #include "rtline/circuit.hpp"
 #include "rtline/converter.hpp"
+#include "rtline/frontend.hpp"
 #include "rtline/grid.hpp"
 #include "rtline/linearity.hpp"
 #include "rtline/thermistor.hpp"
@@ -91,6 +92,15 @@ struct BudgetSpec {
     // current drive. A voltage drive read against a fixed reference sets this false.
     bool ratiometric = true;
     Converter adc;
+    // The amplifier between the network and the converter (none: the converter reads the network's
+    // output), in the reading's unit (reading_unit): converter input = gain·output + offset, the offset
+    // in V/V of the excitation when ratiometric. The firmware inverts it as nominal.
+    std::optional<Amplifier> amplifier;
+    // The amplifier's error bounds, each ± and each needing the amplifier: gain error (fraction), input
+    // offset (V, at reference_t_k), its drift (V/K, from reference_t_k to the board temperature), input
+    // bias and offset currents (A) through the network's source impedance. Every term but the gain
+    // error is in volts, so a ratiometric reading needs the excitation in volts to take them.
+    AmplifierErrors amplifier_errors;
     double dissipation_w_per_k = 0.0;  // thermistor dissipation constant, W/K; 0 = no self-heating
     BoardTemperature board;
     // The range the lead wires' temperature takes (copper's coefficient from kCopperReferenceK).
@@ -144,6 +154,11 @@ enum class Cause : std::size_t {
     resistor_drift,  // their temperature coefficient over the board temperature
     lead,            // lead wires: tolerance and copper's coefficient over the cable temperature
     excitation,      // the drive's tolerance (reading in volts)
+    amp_gain,            // the amplifier's gain error
+    amp_offset,          // its input offset voltage
+    amp_offset_drift,    // the input offset's drift over the board temperature
+    amp_bias,            // its input bias current through the network's source impedance
+    amp_offset_current,  // the difference of the inputs' bias currents, likewise
     reference,       // the converter's reference: tolerance and drift (cancels when ratiometric)
     adc_offset,
     adc_gain,

@@ -65,6 +65,11 @@ enum class Input : unsigned char {
     adc_gain,          // the converter's gain error
     adc_inl,           // the converter's integral nonlinearity
     adc_error,         // the converter's total error
+    amp_gain_tol,      // the amplifier's gain error
+    amp_offset,        // the amplifier's input offset voltage
+    amp_offset_drift,  // the amplifier's input offset drift
+    amp_bias,          // the amplifier's input bias current
+    amp_offset_current, // the amplifier's input offset current
     dissipation,       // the thermistor's dissipation constant
     trials,            // the Monte Carlo trial count
     threads,           // the thread count

@@ -55,6 +55,13 @@ double parse_nonnegative(const std::string& text, const std::string& flag, const
     return v;
 }
 
+// A quantity with an SI prefix and an optional unit (e.g. "50u", "50uV"), at least 0.
+double parse_bound(const std::string& text, const std::string& flag, const std::string& unit) {
+    const double v = parse_quantity(text, flag, unit);
+    if (!(v >= 0.0)) throw InputError(flag, text, "must be 0 or more (a bound, +-" + unit + ")");
+    return v;
+}
+
 // A temperature range LO:HI or a single temperature, °C, as kelvin.
 std::pair<double, double> parse_range(const std::string& text, const std::string& flag) {
     if (text.find(':') == std::string::npos) {
@@ -156,6 +163,14 @@ BudgetSpec build_budget_spec(const BudgetFlags& o, const Circuit& circuit) {
             throw InputError("--dissipation", o.dissipation, "the dissipation constant must be positive (mW/K)");
         }
     }
+    AmplifierErrors& amp = s.amplifier_errors;
+    if (!o.amp_gain_tol.empty()) amp.gain_error = parse_percent(o.amp_gain_tol, "--amp-gain-tol");
+    if (!o.amp_offset.empty()) amp.offset_v = parse_bound(o.amp_offset, "--amp-offset", "V");
+    if (!o.amp_offset_drift.empty()) amp.offset_drift_v_per_k = parse_bound(o.amp_offset_drift, "--amp-offset-drift", "V/K");
+    if (!o.amp_bias.empty()) amp.bias_current_a = parse_bound(o.amp_bias, "--amp-bias", "A");
+    if (!o.amp_offset_current.empty()) {
+        amp.offset_current_a = parse_bound(o.amp_offset_current, "--amp-offset-current", "A");
+    }
     s.trials = parse_count(o.trials, "--trials", 0, static_cast<double>(kMaxTrials),
                            "the number of trials must be a whole number from 0 to " + std::to_string(kMaxTrials));
     s.seed = o.seed.empty() ? kDefaultSeed : parse_seed(o.seed);
@@ -230,6 +245,22 @@ void add_budget_flags(CLI::App& sub, BudgetFlags& o, const BudgetFlagSet& which)
     if (which.dissipation_and_threads) {
         sub.add_option("--dissipation", o.dissipation, "Thermistor dissipation constant, mW/K (self-heating)")
             ->group(rd);
+    }
+    if (which.amplifier) {
+        const char* amp = "Amplifier errors";
+        sub.add_option("--amp-gain-tol", o.amp_gain_tol, "Amplifier gain error, +-% (needs an amplifier)")->group(amp);
+        sub.add_option("--amp-offset", o.amp_offset, "Amplifier input offset voltage at 25 degC, +-V (e.g. 50u)")
+            ->group(amp);
+        sub.add_option("--amp-offset-drift", o.amp_offset_drift,
+                       "Amplifier input offset drift, +-V/K from 25 degC to the --board-temp (e.g. 1u)")
+            ->group(amp);
+        sub.add_option("--amp-bias", o.amp_bias,
+                       "Amplifier input bias current, +-A into each input, through the network's source impedance "
+                       "(e.g. 10n)")
+            ->group(amp);
+        sub.add_option("--amp-offset-current", o.amp_offset_current,
+                       "Amplifier input offset current (the inputs' bias currents' difference), +-A")
+            ->group(amp);
     }
     const char* mc = "Monte Carlo";
     sub.add_option("--trials", o.trials, "Monte Carlo trials (default 100000; 0 = worst case only)")->group(mc);

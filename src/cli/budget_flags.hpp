@@ -38,6 +38,11 @@ struct BudgetFlags {
     std::string adc_error;    // LSB
     std::string adc_ref;      // "excitation" or a voltage; default: the excitation voltage as a fixed reference
     std::string dissipation;  // mW/K
+    std::string amp_gain_tol;        // %
+    std::string amp_offset;          // V, e.g. 50u
+    std::string amp_offset_drift;    // V/K, e.g. 1u
+    std::string amp_bias;            // A, e.g. 10n
+    std::string amp_offset_current;  // A
     std::string trials = "100000";
     std::string seed;
     std::string threads;
@@ -49,11 +54,13 @@ struct BudgetFlagSet {
     bool reading = true;                  // --reading (design always inverts the model)
     bool part_curve = true;               // --part-sh and --part-points
     bool leads = true;                    // --lead-tol, --cable-temp, --lead-compensation
+    bool amplifier = false;               // the amplifier's errors: --amp-gain-tol ... (budget alone)
 };
 void add_budget_flags(CLI::App& sub, BudgetFlags& o, const BudgetFlagSet& which = {});
 
 // The budget the flags describe for `circuit` (its drive decides the reading unit and the default
-// excitation tolerance). Throws InputError naming the flag.
+// excitation tolerance), the amplifier's errors included (the amplifier itself is the caller's to
+// set: --auto-range needs the grid). Throws InputError naming the flag.
 [[nodiscard]] BudgetSpec build_budget_spec(const BudgetFlags& o, const Circuit& circuit);
 
 // Parsers the budget's flags use, for commands that take the same kind of value.

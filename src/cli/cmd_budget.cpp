@@ -8,6 +8,7 @@
 #include "budget_flags.hpp"
 #include "commands.hpp"
 #include "common.hpp"
+#include "frontend_report.hpp"
 #include "markdown.hpp"
 #include "pictures.hpp"
 #include "rtline/budget.hpp"
@@ -21,7 +22,8 @@ struct BudgetOptions {
     ModelOptions model;
     SpanOptions span;
     CircuitOptions circuit;
-    BudgetFlags parts;  // tolerances, environment, converter, Monte Carlo
+    BudgetFlags parts;  // tolerances, environment, converter, Monte Carlo, the amplifier's errors
+    FrontEndOptions front;  // the amplifier: --gain, --offset, --auto-range, --headroom (as table's)
     OutputOptions out;
     std::string svg;  // --svg FILE
 };
@@ -29,6 +31,24 @@ struct BudgetOptions {
 const char* const kDegC =
     "\xC2\xB0"
     "C";
+
+// The amplifier's error terms in words; empty when it has none.
+std::string amplifier_errors_text(const AmplifierErrors& e) {
+    std::vector<std::string> terms;
+    if (e.gain_error > 0.0) terms.push_back("gain \xC2\xB1" + format_number(100.0 * e.gain_error) + " %");
+    if (e.offset_v > 0.0) terms.push_back("input offset \xC2\xB1" + format_number(e.offset_v) + " V");
+    if (e.offset_drift_v_per_k > 0.0) {
+        terms.push_back("offset drift \xC2\xB1" + format_number(e.offset_drift_v_per_k) + " V/K from " +
+                        format_number(kelvin_to_celsius(e.reference_t_k)) + " \xC2\xB0" + "C to the board");
+    }
+    if (e.bias_current_a > 0.0) terms.push_back("bias current \xC2\xB1" + format_number(e.bias_current_a) + " A");
+    if (e.offset_current_a > 0.0) {
+        terms.push_back("offset current \xC2\xB1" + format_number(e.offset_current_a) + " A");
+    }
+    std::string t;
+    for (const std::string& term : terms) t += (t.empty() ? "" : ", ") + term;
+    return t;
+}
 
 std::string reading_description(const BudgetSpec& s, const Circuit& circuit, const std::string& unit) {
     std::string t = s.reading == Reading::model
@@ -143,6 +163,21 @@ Json budget_json(const Budget& b, const BudgetSpec& s, const Thermistor& model, 
     } else {
         a["adc"] = nullptr;
     }
+    if (s.amplifier) {
+        const AmplifierErrors& e = s.amplifier_errors;
+        Json amp = {{"gain_v_per_v", s.amplifier->gain},
+                    {"gain_tol_pct", 100.0 * e.gain_error},
+                    {"input_offset_v", e.offset_v},
+                    {"offset_drift_v_per_k", e.offset_drift_v_per_k},
+                    {"offset_from_c", kelvin_to_celsius(e.reference_t_k)},
+                    {"bias_current_a", e.bias_current_a},
+                    {"offset_current_a", e.offset_current_a}};
+        // The output offset is in the reading's unit: a fraction of the excitation when ratiometric.
+        amp[unit == "V" ? "offset_v" : "offset_v_per_v"] = s.amplifier->offset;
+        a["amplifier"] = amp;
+    } else {
+        a["amplifier"] = nullptr;
+    }
     a["dissipation_mw_per_k"] = s.dissipation_w_per_k > 0.0 ? Json(1e3 * s.dissipation_w_per_k) : Json(nullptr);
     doc["assumptions"] = a;
     if (s.reading == Reading::line) {
@@ -229,6 +264,14 @@ Facts budget_header(const Budget& b, const BudgetSpec& s, const Thermistor& mode
     if (s.part) f.push_back({"part", describe_model(*s.part) + " (its real curve: the model error)"});
     f.push_back({"circuit", describe_circuit(circuit)});
     f.push_back({"reading", reading_description(s, circuit, unit)});
+    if (s.amplifier) {
+        std::string amp = std::string(is_bridge(circuit.topology) ? "differential across A and B, " : "") + "gain " +
+                          format_number(s.amplifier->gain, 6) + " V/V, offset " + format_number(s.amplifier->offset, 6) +
+                          " " + unit + "; the firmware inverts it as nominal";
+        const std::string errors = amplifier_errors_text(s.amplifier_errors);
+        f.push_back({"amplifier", amp});
+        if (!errors.empty()) f.push_back({"", errors + " (" + distribution_text(s.distribution) + ")"});
+    }
     f.push_back({"parts", parts_description(s, unit == "V") + "; R25 at " +
                               format_number(kelvin_to_celsius(tolerance_reference_k(s.part ? *s.part : model))) + " " +
                               kDegC});
@@ -363,6 +406,40 @@ std::string budget_markdown(const Budget& b, const BudgetSpec& s, const Thermist
     return md.str();
 }
 
+// The amplifier the front-end flags describe (none without --gain or --auto-range), in the reading's
+// unit: per volt of the excitation when ratiometric. --auto-range maps the span's ends onto the
+// converter's full scale less the headroom; a current drive needs --adc-ref volts for it.
+std::optional<Amplifier> budget_amplifier(const BudgetOptions& o, const Circuit& circuit, const BudgetSpec& spec,
+                                          const Span& span, const Thermistor& thermistor) {
+    Circuit reading = circuit;
+    if (circuit.excitation.drive == Drive::voltage && spec.ratiometric) reading.excitation = Excitation{};
+    const double fs = circuit.excitation.drive == Drive::current && o.parts.adc_ref.empty() ? std::nan("")
+                                                                                            : spec.adc.full_scale;
+    // The output is monotone in R_T: the span's ends are the extremes --auto-range maps.
+    const Grid ends{{span.lo_k, span.hi_k}, {thermistor.resistance(span.lo_k), thermistor.resistance(span.hi_k)}};
+    return choose_amplifier(o.front, reading, ends, fs).amplifier;
+}
+
+// compute_budget, its refusals of the amplifier's figures quoting the text as typed (the core quotes
+// its own numbers: 5e-05 for 50u).
+Budget budget_as_typed(const BudgetOptions& o, const Grid& grid, const Thermistor& thermistor, const Circuit& circuit,
+                       const BudgetSpec& spec) {
+    try {
+        return compute_budget(grid, thermistor, circuit, spec);
+    } catch (const InputError& e) {
+        const std::pair<Input, const std::string*> typed[] = {{Input::amp_gain_tol, &o.parts.amp_gain_tol},
+                                                              {Input::amp_offset, &o.parts.amp_offset},
+                                                              {Input::amp_offset_drift, &o.parts.amp_offset_drift},
+                                                              {Input::amp_bias, &o.parts.amp_bias},
+                                                              {Input::amp_offset_current, &o.parts.amp_offset_current},
+                                                              {Input::gain, &o.front.gain}};
+        for (const auto& [input, text] : typed) {
+            if (e.input() == input && !text->empty()) throw e.with_value(*text);
+        }
+        throw;
+    }
+}
+
 void run_budget(const BudgetOptions& o) {
     const Format format = parse_format(o.out.format, true);
     const Thermistor thermistor = build_model(o.model);
@@ -375,9 +452,10 @@ void run_budget(const BudgetOptions& o) {
                              std::to_string(kMaxBudgetPoints));
     }
     const Circuit circuit = build_circuit(o.circuit, thermistor, span);
-    const BudgetSpec spec = build_budget_spec(o.parts, circuit);
+    BudgetSpec spec = build_budget_spec(o.parts, circuit);
+    spec.amplifier = budget_amplifier(o, circuit, spec, span, thermistor);
     if (!o.svg.empty()) check_svg_path(o.svg, o.out.output);
-    const Budget b = compute_budget(grid, thermistor, circuit, spec);
+    const Budget b = budget_as_typed(o, grid, thermistor, circuit, spec);
     const std::string unit = reading_unit(circuit, spec);
 
     std::string bytes;
@@ -406,9 +484,12 @@ void setup_budget(CLI::App& app) {
     add_circuit_options(*sub, opt->circuit);
     sub->get_option("--circuit")
         ->description(
-            "divider-high, divider-low, shunt-divider, bridge or shunt-bridge; bare or shunt with "
-            "--current");
-    add_budget_flags(*sub, opt->parts);
+            "divider-high, divider-low, shunt-divider, bridge or shunt-bridge (directly, or through --gain/--offset "
+            "or --auto-range); bare or shunt with --current");
+    add_amplifier_flags(*sub, opt->front);
+    BudgetFlagSet which;
+    which.amplifier = true;
+    add_budget_flags(*sub, opt->parts, which);
     add_output_options(*sub, opt->out, true);
     add_svg_option(*sub, opt->svg);
     sub->footer(
@@ -417,6 +498,8 @@ void setup_budget(CLI::App& app) {
                     "  rtline budget --r25 10k --beta 3950 --span -20:60 --step 10 --circuit divider-low --rs 10k "
                     "--excitation 3.3 --adc-ref excitation --adc-bits 12 --adc-error 2 --dissipation 1.5 "
                     "--reading line\n"
+                    "  rtline budget --r25 10k --beta 3950 --span 0:50 --step 10 --circuit bridge --r1 10k "
+                    "--excitation 3.3 --adc-ref excitation --adc-bits 12 --auto-range --amp-offset 50u --amp-bias 1n\n"
                     "Errors are the temperature the firmware reads minus the true one. The worst case spans "
                     "every tolerance at once; each cause alone shows which part to buy better.\n\n") +
         kSafetyNote);

@@ -76,7 +76,7 @@ bool FrontEndOptions::given() const {
            !adc_bits.empty() || !adc_ref.empty() || !sample_cap.empty() || !acquisition.empty();
 }
 
-void add_amplifier_options(CLI::App& app, FrontEndOptions& o) {
+void add_amplifier_flags(CLI::App& app, FrontEndOptions& o) {
     const char* amp = "Front end";
     app.add_option("--gain", o.gain, "Amplifier gain, V/V (differential across a bridge's A and B)")->group(amp);
     app.add_option("--offset", o.offset, "Amplifier output offset, V (V/V of the excitation when ratiometric)")
@@ -85,6 +85,10 @@ void add_amplifier_options(CLI::App& app, FrontEndOptions& o) {
         ->group(amp);
     app.add_option("--headroom", o.headroom, "With --auto-range: % of the range left free at each end (default 5)")
         ->group(amp);
+}
+
+void add_amplifier_options(CLI::App& app, FrontEndOptions& o) {
+    add_amplifier_flags(app, o);
     app.add_option("--adc-ref", o.adc_ref,
                    "Converter reference: excitation (default; ratiometric) or volts (needed with --current)")
         ->group("Converter");
@@ -102,8 +106,12 @@ void add_front_end_options(CLI::App& app, FrontEndOptions& o) {
 }
 
 AmplifierChoice choose_amplifier(const FrontEndOptions& o, const Circuit& c, const Grid& grid) {
+    return choose_amplifier(o, c, grid, full_scale(o, c));
+}
+
+AmplifierChoice choose_amplifier(const FrontEndOptions& o, const Circuit& c, const Grid& grid, double fs) {
     AmplifierChoice r;
-    r.full_scale = full_scale(o, c);
+    r.full_scale = fs;
     if (!o.gain.empty() && o.auto_range) {
         throw InputError("--gain", o.gain, "give either --gain (with --offset) or --auto-range, not both");
     }

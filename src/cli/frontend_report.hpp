@@ -30,6 +30,8 @@ struct FrontEndOptions {
 void add_front_end_options(CLI::App& app, FrontEndOptions& o);
 // The amplifier's flags and --adc-ref alone (table: its own --adc-bits, no settling).
 void add_amplifier_options(CLI::App& app, FrontEndOptions& o);
+// The amplifier's flags alone: --gain, --offset, --auto-range, --headroom (budget: its own --adc-ref).
+void add_amplifier_flags(CLI::App& app, FrontEndOptions& o);
 
 // The amplifier the flags describe (none without --gain or --auto-range) and the converter's full
 // scale in the circuit's output unit (1 when ratiometric, the excitation for a voltage drive,
@@ -41,6 +43,10 @@ struct AmplifierChoice {
     double full_scale = 0.0;
 };
 [[nodiscard]] AmplifierChoice choose_amplifier(const FrontEndOptions& o, const Circuit& circuit, const Grid& grid);
+// The same against a full scale the caller knows (the budget's converter), in output_unit(circuit); NaN
+// when unknown, which --auto-range refuses.
+[[nodiscard]] AmplifierChoice choose_amplifier(const FrontEndOptions& o, const Circuit& circuit, const Grid& grid,
+                                               double full_scale);
 // The amplifier in words: "gain 12.5 V/V, offset -0.3 V/V (chosen: the span onto 5 to 95 % of 1 V/V)".
 [[nodiscard]] std::string describe_amplifier(const AmplifierChoice& a, const Circuit& circuit);
 

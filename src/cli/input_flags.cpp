@@ -52,6 +52,11 @@ std::string flag_name(Input input) {
         case Input::adc_gain: return "--adc-gain";
         case Input::adc_inl: return "--adc-inl";
         case Input::adc_error: return "--adc-error";
+        case Input::amp_gain_tol: return "--amp-gain-tol";
+        case Input::amp_offset: return "--amp-offset";
+        case Input::amp_offset_drift: return "--amp-offset-drift";
+        case Input::amp_bias: return "--amp-bias";
+        case Input::amp_offset_current: return "--amp-offset-current";
         case Input::dissipation: return "--dissipation";
         case Input::trials: return "--trials";
         case Input::threads: return "--threads";

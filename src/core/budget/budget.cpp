@@ -48,6 +48,11 @@ constexpr std::array<CauseName, kCauses> kCauseNames = {{{"nonlinearity", "nonli
                                                          {"resistor_drift", "resistor TC"},
                                                          {"lead", "leads"},
                                                          {"excitation", "excitation"},
+                                                         {"amp_gain", "amp gain"},
+                                                         {"amp_offset", "amp offset"},
+                                                         {"amp_offset_drift", "amp offset drift"},
+                                                         {"amp_bias", "amp bias"},
+                                                         {"amp_offset_current", "amp offset current"},
                                                          {"reference", "reference"},
                                                          {"adc_offset", "ADC offset"},
                                                          {"adc_gain", "ADC gain"},
@@ -96,6 +101,41 @@ void check_tolerance(double t, Input flag) {
 void check_coefficient(double c, Input flag) {
     if (!std::isfinite(c) || c < 0.0 || c > 1e-3) {
         throw InputError(flag, describe(1e6 * c), "a temperature coefficient must be 0 to 1000 ppm/K");
+    }
+}
+
+// A bound of at least 0 in `unit`, finite.
+void check_bound(double v, Input flag, const char* unit) {
+    if (!std::isfinite(v) || v < 0.0) throw InputError(flag, describe(v), std::string("give 0 or more ") + unit);
+}
+
+void validate_amplifier(const BudgetSpec& s, const Circuit& c) {
+    const AmplifierErrors& e = s.amplifier_errors;
+    check_tolerance(e.gain_error, Input::amp_gain_tol);
+    check_bound(e.offset_v, Input::amp_offset, "V");
+    check_bound(e.offset_drift_v_per_k, Input::amp_offset_drift, "V/K");
+    check_bound(e.bias_current_a, Input::amp_bias, "A");
+    check_bound(e.offset_current_a, Input::amp_offset_current, "A");
+    const std::array<std::pair<double, Input>, 5> terms = {{{e.gain_error, Input::amp_gain_tol},
+                                                            {e.offset_v, Input::amp_offset},
+                                                            {e.offset_drift_v_per_k, Input::amp_offset_drift},
+                                                            {e.bias_current_a, Input::amp_bias},
+                                                            {e.offset_current_a, Input::amp_offset_current}}};
+    for (const auto& term : terms) {
+        if (term.first > 0.0 && !s.amplifier) {
+            throw InputError(term.second, describe(term.first), "needs an amplifier: give {gain} or {output_range}");
+        }
+    }
+    if (s.amplifier) validate_front_end(c, s.amplifier);
+    // The voltage terms become a fraction of the reference only against a voltage that is known.
+    if (c.excitation.drive == Drive::ratiometric) {
+        for (std::size_t k = 1; k < terms.size(); ++k) {
+            if (terms[k].first > 0.0) {
+                throw InputError(terms[k].second, describe(terms[k].first),
+                                 "is in volts, and a ratiometric reading is a fraction of the excitation; give the "
+                                 "excitation in volts with {excitation}");
+            }
+        }
     }
 }
 
@@ -192,6 +232,7 @@ void validate(const BudgetSpec& s, const Circuit& c) {
                          "self-heating needs the real drive; give {excitation} V (with {reference} excitation for a "
                          "ratiometric reading) or {current} A");
     }
+    validate_amplifier(s, c);
     if (s.trials > kMaxTrials) {
         throw InputError(Input::trials, std::to_string(s.trials), "at most " + std::to_string(kMaxTrials) + " trials");
     }
@@ -238,7 +279,7 @@ struct Extremes {
 // improves: this finds the interior extremes of an error that is not monotonic in a parameter.
 class BoxSearch {
 public:
-    BoxSearch(const Channel& ch, std::size_t i, std::vector<Dim> dims, Adc mode, bool solve, Slots base = Slots{})
+    BoxSearch(const budget_detail::Channel& ch, std::size_t i, std::vector<Dim> dims, Adc mode, bool solve, Slots base = Slots{})
         : ch_(ch), i_(i), dims_(std::move(dims)), mode_(mode), solve_(solve), base_(base) {
         // A range of one value (a cable at one temperature other than copper's 20 °C) is fixed there.
         for (const Dim& d : dims_) {
@@ -329,7 +370,7 @@ private:
         return best;
     }
 
-    const Channel& ch_;
+    const budget_detail::Channel& ch_;
     std::size_t i_;
     std::vector<Dim> dims_;
     Adc mode_;
@@ -341,15 +382,15 @@ private:
 // nominal parts, the line reading at the span's ends).
 double clean(double e_k) { return std::abs(e_k) < 1e-12 ? 0.0 : e_k; }
 
-// The largest |board temperature − kCoefficientReferenceK| at sensed temperature t_k.
-double board_excursion_k(const BoardTemperature& b, double t_k) {
-    if (b.sensed) return std::abs(t_k - kCoefficientReferenceK);
-    return std::max(std::abs(b.lo_k - kCoefficientReferenceK), std::abs(b.hi_k - kCoefficientReferenceK));
+// The largest |board temperature − from_k| at sensed temperature t_k.
+double board_excursion_k(const BoardTemperature& b, double t_k, double from_k = kCoefficientReferenceK) {
+    if (b.sensed) return std::abs(t_k - from_k);
+    return std::max(std::abs(b.lo_k - from_k), std::abs(b.hi_k - from_k));
 }
 
 // Worst case, nominal error, the split by cause and the resolution at point i. `plain` is the channel
 // with the part following the model (the same as `ch` without a model error).
-BudgetPoint point_bounds(const Channel& ch, const Channel& plain, const BudgetSpec& spec, std::size_t i) {
+BudgetPoint point_bounds(const budget_detail::Channel& ch, const budget_detail::Channel& plain, const BudgetSpec& spec, std::size_t i) {
     const Tolerances& tol = spec.tolerance;
     const bool adc = ch.lsb() > 0.0;
     const double lsb = ch.lsb();
@@ -375,6 +416,14 @@ BudgetPoint point_bounds(const Channel& ch, const Channel& plain, const BudgetSp
                            sym(kShift, tol.thermistor_dt_k), sym(kExcitation, ch.volts() ? tol.excitation : 0.0),
                            product(kReference, tol.reference, ref_tc)});
     if (ch.has_lead()) all.push_back(lead_dim);
+    // The amplifier's input offset and its drift both add to the input: one dimension of their summed
+    // bound (as a resistor's tolerance and coefficient make one factor).
+    const AmplifierErrors& amp = spec.amplifier_errors;
+    const double amp_drift_v = amp.offset_drift_v_per_k * board_excursion_k(spec.board, ch.t(i), amp.reference_t_k);
+    if (ch.amplified()) {
+        all.insert(all.end(), {sym(kAmpGain, amp.gain_error), sym(kAmpOffset, amp.offset_v + amp_drift_v),
+                               sym(kAmpBias, amp.bias_current_a), sym(kAmpOffsetCurrent, amp.offset_current_a)});
+    }
     if (adc) all.insert(all.end(), {sym(kGain, spec.adc.gain), sym(kAdc, converter_lsb * lsb)});
 
     BudgetPoint p;
@@ -411,6 +460,15 @@ BudgetPoint point_bounds(const Channel& ch, const Channel& plain, const BudgetSp
         c[Cause::lead] = alone({lead_dim}, Adc::none, false, from);
     }
     if (ch.volts()) c[Cause::excitation] = alone({sym(kExcitation, tol.excitation)}, Adc::none);
+    if (ch.amplified()) {
+        if (amp.gain_error > 0.0) c[Cause::amp_gain] = alone({sym(kAmpGain, amp.gain_error)}, Adc::none);
+        if (amp.offset_v > 0.0) c[Cause::amp_offset] = alone({sym(kAmpOffset, amp.offset_v)}, Adc::none);
+        if (amp.offset_drift_v_per_k > 0.0) c[Cause::amp_offset_drift] = alone({sym(kAmpOffset, amp_drift_v)}, Adc::none);
+        if (amp.bias_current_a > 0.0) c[Cause::amp_bias] = alone({sym(kAmpBias, amp.bias_current_a)}, Adc::none);
+        if (amp.offset_current_a > 0.0) {
+            c[Cause::amp_offset_current] = alone({sym(kAmpOffsetCurrent, amp.offset_current_a)}, Adc::none);
+        }
+    }
     if (tol.reference > 0.0 || tol.reference_tc_per_k > 0.0) {
         // With self-heating on: the ratiometric reading's cancellation leaves only the power's change.
         const double from = clean(ch.error(ch.nominal(), i, Adc::none, 0.0, ch.heats()));
@@ -448,11 +506,17 @@ Budget compute_budget(const Grid& grid, const Thermistor& model, const Circuit& 
                              " reaches beyond it; give the range the part is specified over");
     }
     if (spec.part) spec.part->check_span(span, Input::part);
-    const Channel ch(grid, model, circuit, spec);
+    const budget_detail::Channel ch(grid, model, circuit, spec);
     BudgetSpec plain_spec = spec;
     plain_spec.part.reset();
     plain_spec.trials = 0;  // no Monte Carlo runs on it
-    const Channel plain(grid, model, circuit, plain_spec);
+    const budget_detail::Channel plain(grid, model, circuit, plain_spec);
+    if (spec.adc.bits > 0 && spec.amplifier && ch.smallest_reading() < 0.0) {
+        throw InputError(Input::gain, describe(spec.amplifier->gain),
+                         "through the amplifier the converter input reaches " + describe(ch.smallest_reading()) + " " +
+                             reading_unit(circuit, spec) +
+                             ", below the converter's range; change {gain} and {offset} or use {output_range}");
+    }
     if (spec.adc.bits > 0 && ch.largest_reading() > spec.adc.full_scale) {
         throw InputError(Input::reference, describe(spec.adc.full_scale) + (spec.ratiometric ? "" : " V"),
                          "the output reaches " + describe(ch.largest_reading()) + " " + reading_unit(circuit, spec) +

@@ -87,7 +87,9 @@ private:
 // The parameters a trial varies and the converter slot. Each part slot is its final factor minus 1
 // (a resistor's tolerance and temperature coefficient together, the reference's likewise, the lead
 // wires' tolerance and copper's coefficient); kShift is the interchangeability shift in kelvin; kAdc
-// an offset in the reading's unit (worst case) or in LSB (Monte Carlo).
+// an offset in the reading's unit (worst case) or in LSB (Monte Carlo). The amplifier's: kAmpGain its
+// gain error (fraction), kAmpOffset its input offset in volts with the drift to the board temperature
+// included, kAmpBias and kAmpOffsetCurrent its input currents in amperes.
 enum Slot : std::size_t {
     kR25 = 0,
     kBeta = 1,
@@ -99,7 +101,11 @@ enum Slot : std::size_t {
     kLead = 10,
     kReference = 11,
     kGain = 12,
-    kSlots = 13
+    kAmpGain = 13,
+    kAmpOffset = 14,
+    kAmpBias = 15,
+    kAmpOffsetCurrent = 16,
+    kSlots = 17
 };
 constexpr std::size_t kMaxResistors = kExcitation - kResistor0;
 using Slots = std::array<double, kSlots>;
@@ -272,6 +278,12 @@ public:
         volts_ = reads_volts(circuit, spec);
         ratiometric_ = !volts_;
         lead_ohm_ = circuit.lead_ohm;
+        amp_ = spec.amplifier;
+        // Volts per unit of the reading: the excitation when the reading is per volt of it (a voltage
+        // drive read ratiometrically), else 1 (a reading in volts, or no voltage known: then validate()
+        // has refused the amplifier's voltage errors).
+        vscale_ = ratiometric_ && circuit.excitation.drive == Drive::voltage ? circuit.excitation.value : 1.0;
+        bias_ = spec.amplifier_errors.bias_current_a > 0.0 || spec.amplifier_errors.offset_current_a > 0.0;
         for (const std::string& name : resistor_names(circuit.topology)) fields_.push_back(field_of(name));
         heat_ = spec.dissipation_w_per_k > 0.0;
         solve_ = heat_ || spec.tolerance.thermistor_dt_k > 0.0;
@@ -307,7 +319,7 @@ public:
         inverse_ = part_closed && model_closed ? Inverse::closed : Inverse::table;
         if (spec.reading == Reading::line && part_closed) inverse_ = Inverse::line;
         line_general_ = spec.reading == Reading::line && !part_closed;
-        if (inverse_ == Inverse::closed && scales(circuit, volts_)) inverse_ = Inverse::scaled;
+        if (inverse_ == Inverse::closed && !amp_ && scales(circuit, volts_)) inverse_ = Inverse::scaled;
 
         // The firmware's circuit: nominal parts, and the leads only when it subtracts them.
         firmware_ = reading_;
@@ -327,11 +339,17 @@ public:
         }
         Analysis a = analyze(grid, model, firmware_, LineKind::endpoint, 0.0);
         line_ = a.line;
+        // Through the amplifier the converter reads gain·output + offset: the line and the sensitivity
+        // of the network's output scale by the gain (an endpoint line maps onto the endpoint line).
+        const double amp_gain = amp_ ? amp_->gain : 1.0;
+        if (amp_) line_ = Line{amp_gain * line_.slope, amp_gain * line_.intercept + amp_->offset};
         inv_slope_ = 1.0 / line_.slope;
         sensitivity_.resize(n);
-        for (std::size_t i = 0; i < n; ++i) sensitivity_[i] = a.points[i].sensitivity_per_k;
+        for (std::size_t i = 0; i < n; ++i) sensitivity_[i] = std::abs(amp_gain) * a.points[i].sensitivity_per_k;
+        smallest_reading_ = INFINITY;
         for (std::size_t i = 0; i < n; ++i) {
             largest_reading_ = std::max(largest_reading_, std::abs(nominal_.reading.at(r_[i])));
+            smallest_reading_ = std::min(smallest_reading_, nominal_.reading.at(r_[i]));
         }
         // The table of the firmware's temperature by code, for a closed-form inverse: the codes of the
         // nominal readings with a quarter of that range and 64 codes to spare at each end (codes
@@ -362,6 +380,8 @@ public:
     [[nodiscard]] const Line& line() const { return line_; }
     [[nodiscard]] double sensitivity(std::size_t i) const { return sensitivity_[i]; }
     [[nodiscard]] double largest_reading() const { return largest_reading_; }
+    [[nodiscard]] double smallest_reading() const { return smallest_reading_; }  // signed
+    [[nodiscard]] bool amplified() const { return amp_.has_value(); }
     [[nodiscard]] const Trial& nominal() const { return nominal_; }
     [[nodiscard]] Inverse inverse() const { return inverse_; }
 
@@ -611,13 +631,34 @@ private:
     // the drive and reference of `s`. In volts the code is the reading over the reference, so the
     // firmware sees y·(1 + excitation)/(1 + reference); ratiometric, the excitation is the reference:
     // y·(1 + reference)/(1 + reference), computed as such so that the cancellation is a figure.
+    //
+    // Through an amplifier the converter reads its output: gain·(1 + gain error)·in + offset + the
+    // shifts of its input offset and of its bias currents through the network's source impedance at
+    // that R_T (amplifier_shift), in volts, with `in` the network's output in volts and the offset,
+    // when ratiometric, a fraction of the excitation (derived from it, it moves with it). The reading
+    // stays bilinear in R_T: the output and the source impedance of a node share the network's
+    // determinant as their denominator, so the three-point fit holds it exactly.
     [[nodiscard]] Trial maps(const Circuit& rc, const Circuit& pc, const Slots& s) const {
         const double ref = 1.0 + s[kReference];
         const double drive = volts_ ? 1.0 + s[kExcitation] : ref;
         std::array<double, 3> y{};
         std::array<double, 3> v{};
         for (std::size_t k = 0; k < 3; ++k) {
-            y[k] = operate(rc, fit_x_[k]).output * drive / ref;
+            const double out = operate(rc, fit_x_[k]).output;
+            if (amp_) {
+                AmplifierErrors e;
+                e.gain_error = s[kAmpGain];
+                e.offset_v = s[kAmpOffset];
+                e.bias_current_a = s[kAmpBias];
+                e.offset_current_a = s[kAmpOffsetCurrent];
+                const double in_v = out * drive * vscale_;
+                const SourceImpedance z = bias_ ? source_impedance(rc, fit_x_[k]) : SourceImpedance{};
+                const AmplifierShift shift = amplifier_shift(*amp_, e, in_v, z, e.reference_t_k);
+                const double offset_v = amp_->offset * (ratiometric_ ? vscale_ * drive : 1.0);
+                y[k] = (amp_->gain * in_v + offset_v + shift.total()) / (vscale_ * ref);
+            } else {
+                y[k] = out * drive / ref;
+            }
             if (heat_) v[k] = operate(pc, fit_x_[k]).thermistor_v * drive;
         }
         Trial tr;
@@ -673,6 +714,9 @@ private:
     std::vector<double Circuit::*> fields_;  // the topology's resistors
     bool volts_ = false;
     bool ratiometric_ = true;
+    std::optional<Amplifier> amp_;  // between the network and the converter; none: it reads the network
+    double vscale_ = 1.0;           // volts per unit of the reading
+    bool bias_ = false;             // the amplifier's input currents count
     bool heat_ = false;
     bool solve_ = false;
     bool line_general_ = false;
@@ -697,6 +741,7 @@ private:
     Line line_;
     double inv_slope_ = 0.0;
     double largest_reading_ = 0.0;
+    double smallest_reading_ = 0.0;
 };
 
 // Throws the InputError for a reading carried past the end of the output's range at t_k.

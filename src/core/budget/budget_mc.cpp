@@ -43,6 +43,11 @@ enum Field : std::size_t {
     kFLead,
     kFRef,
     kFRefTc,
+    kFAmpGain,
+    kFAmpOffset,
+    kFAmpDrift,
+    kFAmpBias,
+    kFAmpOffsetCurrent,
     kFields
 };
 struct Draw {
@@ -81,6 +86,18 @@ public:
         if (ch.has_lead()) add(kFLead, tol.lead);
         add(kFRef, tol.reference);
         add(kFRefTc, tol.reference_tc_per_k);
+        // The amplifier's error terms, drawn as the parts' tolerances are (each bound as 3σ or the
+        // uniform half-width); its drift is a coefficient, times the board's offset from where the
+        // input offset is stated.
+        const AmplifierErrors& amp = spec.amplifier_errors;
+        if (spec.amplifier) {
+            add(kFAmpGain, amp.gain_error);
+            add(kFAmpOffset, amp.offset_v);
+            add(kFAmpDrift, amp.offset_drift_v_per_k);
+            add(kFAmpBias, amp.bias_current_a);
+            add(kFAmpOffsetCurrent, amp.offset_current_a);
+        }
+        amp_reference_k_ = amp.reference_t_k;
         resistors_ = ch.resistors();
         lead_ = ch.has_lead();
         if (ch.lsb() > 0.0) {
@@ -89,7 +106,8 @@ public:
                 if (h > 0.0) adc_.push_back(h);
             }
         }
-        coefficients_ = tol.resistor_tc_per_k > 0.0 || tol.reference_tc_per_k > 0.0;
+        coefficients_ = tol.resistor_tc_per_k > 0.0 || tol.reference_tc_per_k > 0.0 ||
+                        (spec.amplifier && amp.offset_drift_v_per_k > 0.0);
     }
 
     // True when the parts differ from one temperature of the span to the next (the board at the
@@ -139,6 +157,10 @@ public:
         s[kReference] = (1.0 + d.f[kFRef]) * (1.0 + d.f[kFRefTc] * dtb) - 1.0;
         s[kGain] = d.gain;
         s[kAdc] = d.adc;
+        s[kAmpGain] = d.f[kFAmpGain];
+        s[kAmpOffset] = d.f[kFAmpOffset] + d.f[kFAmpDrift] * (board_k - amp_reference_k_);
+        s[kAmpBias] = d.f[kFAmpBias];
+        s[kAmpOffsetCurrent] = d.f[kFAmpOffsetCurrent];
         return s;
     }
 
@@ -157,6 +179,7 @@ private:
     double gain_ = 0.0;
     std::vector<double> adc_;
     bool coefficients_ = false;
+    double amp_reference_k_ = kCoefficientReferenceK;  // where the amplifier's input offset is stated
 };
 
 std::uint64_t block_state(std::uint64_t seed, std::uint64_t block) { return mix64(mix64(seed) + block); }
