@@ -17,8 +17,9 @@ const char* const kDeg =
     "\xC2\xB0"
     "C";
 const std::string kPm = "\xC2\xB1";
-// A resistor's power rating the margin is taken against: 1/16 W, the usual rating of 0603 and 0402 chip
-// resistors (common practice).
+// A resistor's power rating the margin is taken against: 1/16 W, the usual rating of an 0402 chip
+// resistor and the lowest of the common sizes (common practice, from memory; 0603 parts are usually
+// 1/10 W, so the margin is on the safe side for them).
 constexpr double kResistorRatingW = 0.0625;
 
 std::string deg(double k, int decimals = 3) { return format_fixed(k, decimals) + " " + kDeg; }
@@ -270,7 +271,7 @@ Facts assumption_facts(const DesignRun& r) {
                          " go to the coarser series, then to fewer resistors"},
             {"table", "sized to the target less the analog figure (the table's shipped error adds in full)"},
             {"power rating", "margins against " + format_number(1e3 * kResistorRatingW) +
-                                 " mW, the usual rating of 0603 and 0402 chip resistors"}};
+                                 " mW (1/16 W), the usual rating of an 0402 chip resistor, the smallest common size"}};
 }
 
 Facts result_facts(const DesignRun& r) {
