@@ -31,12 +31,34 @@ inline std::size_t column(const json& table, const std::string& header) {
     return 0;
 }
 
+// A resistance in the RKM code of IEC 60062 ("8k2" is 8.2 kΩ, "100" is 100 Ω): the letter stands for
+// the decimal point and the multiplier.
+inline double rkm(const std::string& text) {
+    const std::string letters = "RkMG";
+    const double scales[] = {1.0, 1e3, 1e6, 1e9};
+    for (std::size_t i = 0; i < letters.size(); ++i) {
+        const std::size_t at = text.find(letters[i]);
+        if (at == std::string::npos) continue;
+        std::string number = text;
+        number[at] = '.';
+        return std::strtod(number.c_str(), nullptr) * scales[i];
+    }
+    return std::strtod(text.c_str(), nullptr);
+}
+
 // True when `cell`, a number printed rounded ("0.0132", "4498", "1.2e-05", "-" for none), stands
 // for `value` (null for none): within half a unit of its last printed digit.
 inline bool stands_for(const std::string& cell, const json& value) {
     if (cell == "-") return value.is_null();
     if (value.is_null()) return false;
     const double v = value.get<double>();
+    // A resistance in the letter code ("33k621": 33.621 kΩ): half a unit of its last figure.
+    const std::size_t letter = cell.find_first_of("RkMG");
+    if (letter != std::string::npos) {
+        const double scale = cell[letter] == 'k' ? 1e3 : cell[letter] == 'M' ? 1e6 : cell[letter] == 'G' ? 1e9 : 1.0;
+        const int figures_after = static_cast<int>(cell.size() - letter - 1);
+        return std::abs(rkm(cell) - v) <= 0.5 * scale * std::pow(10.0, -figures_after) * (1.0 + 1e-9);
+    }
     char* end = nullptr;
     const double x = std::strtod(cell.c_str(), &end);
     if (end == cell.c_str() || *end != '\0') return false;
@@ -59,21 +81,6 @@ inline void check_column(const json& table, const std::string& header, const std
         INFO(header << ", row " << i << ": '" << cell << "' against " << expected[i].dump());
         CHECK(stands_for(cell, expected[i]));
     }
-}
-
-// A resistance in the RKM code of IEC 60062 ("8k2" is 8.2 kΩ, "100" is 100 Ω): the letter stands for
-// the decimal point and the multiplier.
-inline double rkm(const std::string& text) {
-    const std::string letters = "RkMG";
-    const double scales[] = {1.0, 1e3, 1e6, 1e9};
-    for (std::size_t i = 0; i < letters.size(); ++i) {
-        const std::size_t at = text.find(letters[i]);
-        if (at == std::string::npos) continue;
-        std::string number = text;
-        number[at] = '.';
-        return std::strtod(number.c_str(), nullptr) * scales[i];
-    }
-    return std::strtod(text.c_str(), nullptr);
 }
 
 // "rs = 8k2, rp = 47k" as name -> ohm.

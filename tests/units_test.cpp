@@ -236,6 +236,26 @@ TEST_CASE("parse_quantity applies an SI prefix and strips the unit symbol") {
     }
 }
 
+TEST_CASE("a prefixed value reads as the double nearest the decimal typed, without floating-point dust") {
+    // The C++ compiler reads a decimal literal such as 1e-05 as the nearest double (C++20 [lex.fcon]);
+    // 10 * 1e-6 is 9.999999999999999e-06 and 2.2 * 1e-9 is 2.2000000000000003e-09 (python3), the dust
+    // this avoids.
+    CHECK(10 * 1e-6 != 1e-05);
+    CHECK(2.2 * 1e-9 != 2.2e-09);
+    CHECK(parse_quantity("10u", "--current", "A") == 1e-05);
+    CHECK(parse_quantity("0.1u", "--x", "") == 1e-07);
+    CHECK(parse_quantity("2.2n", "--x", "") == 2.2e-09);
+    CHECK(parse_quantity("10p", "--sample-cap", "F") == 1e-11);
+    CHECK(parse_quantity("3m", "--x", "") == 0.003);
+    CHECK(parse_quantity("10M", "--x", "") == 1e7);
+    CHECK(parse_resistance("10.1M", "--rs") == 10100000.0);
+    CHECK(parse_resistance("4k7", "--rs") == 4700.0);
+    CHECK(parse_resistance("1M5", "--rs") == 1500000.0);
+    CHECK(parse_resistance("0.33k", "--rs") == 330.0);
+    // A value with an exponent of its own is scaled after reading: 1e1u is 10 µA within a rounding.
+    CHECK(parse_quantity("1e1u", "--x", "") == doctest::Approx(1e-05).epsilon(1e-15));
+}
+
 TEST_CASE("parse_quantity rejects a wrong unit symbol and text that is not a number") {
     const char* rejected[] = {"3.3A", "abc", "", "u", "5mA", "1e400"};
     for (const char* text : rejected) {

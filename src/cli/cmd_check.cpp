@@ -158,7 +158,7 @@ void run_check(const CheckCommand& o) {
         std::vector<Column> columns{{"T (\xC2\xB0"
                                      "C)",
                                      "t_c", 2},
-                                    {"R_T (ohm)", "r_t_ohm", -1, 6},
+                                    {"R_T (ohm)", "r_t_ohm", -1, 5, true},
                                     {"output (" + unit + ")", "output" + unit_suffix(unit), -1, 6},
                                     {"ideal (" + unit + ")", "ideal" + unit_suffix(unit), -1, 6},
                                     {"deviation (" + unit + ")", "deviation" + unit_suffix(unit), -1, 4},

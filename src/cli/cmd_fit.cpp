@@ -115,7 +115,7 @@ void run_fit(const FitCommand& o) {
         Table table({{"T (\xC2\xB0"
                       "C)",
                       "t_c", 2},
-                     {"R (ohm)", "r_ohm", -1, 7},
+                     {"R (ohm)", "r_ohm", -1, 7, true},
                      {"residual (mK)", "residual_k", 3}});
         // Text reads residuals in mK; CSV keeps kelvin, the one unit of a temperature difference in data.
         const bool csv = format == Format::csv;

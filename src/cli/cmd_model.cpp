@@ -39,7 +39,7 @@ void run_model(const ModelCommand& o) {
         Table table({{"T (\xC2\xB0"
                       "C)",
                       "t_c", 2},
-                     {"R (ohm)", "r_ohm", -1, 6},
+                     {"R (ohm)", "r_ohm", -1, 5, true},
                      {"alpha (%/K)", "alpha_per_k", 3},
                      {"local B (K)", "local_b_k", 1}});
         for (std::size_t i = 0; i < grid.size(); ++i) {

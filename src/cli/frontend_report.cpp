@@ -233,11 +233,11 @@ std::string front_end_text(const FrontEndReport& r, const Circuit& c) {
     }
     std::vector<Column> cols{{std::string("T (") + kDeg + ")", "t_c", 2}};
     if (bridge) {
-        cols.push_back({"source A-B (ohm)", "", -1, 6});
-        cols.push_back({"source A (ohm)", "", -1, 6});
-        cols.push_back({"source B (ohm)", "", -1, 6});
+        cols.push_back({"source A-B (ohm)", "", -1, 5, true});
+        cols.push_back({"source A (ohm)", "", -1, 5, true});
+        cols.push_back({"source B (ohm)", "", -1, 5, true});
     } else {
-        cols.push_back({"source (ohm)", "", -1, 6});
+        cols.push_back({"source (ohm)", "", -1, 5, true});
     }
     cols.push_back({"converter input (" + unit + ")", "", -1, 6});
     if (r.sampling) cols.push_back({"settling error (LSB)", "", -1, 3});

@@ -1,9 +1,11 @@
 #include "report.hpp"
 
+#include <algorithm>
 #include <cerrno>
 #include <cmath>
 #include <csignal>
 #include <cstdio>
+#include <cstdlib>
 #include <cstring>
 #include <filesystem>
 #include <fstream>
@@ -29,11 +31,24 @@ Format parse_format(const std::string& text, bool markdown) {
 
 namespace {
 
+// A resistance column prints in the letter code at any size (a value that is no resistance, zero or
+// negative, as a number).
+bool resistance_column(const Column& c) { return c.resistance; }
+
 std::string text_cell(const Column& c, const Cell& cell) {
     if (const auto* s = std::get_if<std::string>(&cell)) return *s;
     const double v = std::get<double>(cell);
     if (!std::isfinite(v)) return "-";
-    return c.decimals >= 0 ? format_fixed(v, c.decimals) : format_number(v, c.digits);
+    if (resistance_column(c)) return v > 0.0 ? format_resistance(v, c.digits) : format_significant(v, c.digits);
+    return c.decimals >= 0 ? format_decimals(v, c.decimals) : format_significant(v, c.digits);
+}
+
+// Where a number's decimal point is (or would be): aligned columns line these up.
+std::size_t point_of(const std::string& s) {
+    const std::size_t dot = s.find('.');
+    if (dot != std::string::npos) return dot;
+    const std::size_t e = s.find('e');
+    return e != std::string::npos ? e : s.size();
 }
 
 std::string csv_cell(const Cell& cell) {
@@ -52,6 +67,26 @@ std::string csv_cell(const Cell& cell) {
 
 }  // namespace
 
+std::string format_significant(double v, int digits) {
+    if (!std::isfinite(v)) return "-";
+    if (v == 0.0) return "0";
+    digits = std::max(digits, 1);
+    char buffer[64];
+    std::snprintf(buffer, sizeof buffer, "%.*e", digits - 1, v);
+    // The exponent after rounding: 9.9996 to four figures is 1.000e+01, printed 10.00.
+    const int exponent = std::atoi(std::strchr(buffer, 'e') + 1);
+    if (exponent < -4 || exponent >= digits) return buffer;
+    std::snprintf(buffer, sizeof buffer, "%.*f", std::max(0, digits - 1 - exponent), v);
+    return buffer;
+}
+
+std::string format_decimals(double v, int decimals) {
+    if (!std::isfinite(v)) return "-";
+    // A value the decimals would round to zero keeps as many significant figures instead.
+    if (v != 0.0 && std::abs(v) < 0.5 * std::pow(10.0, -decimals)) return format_significant(v, std::max(decimals, 2));
+    return format_fixed(v, decimals);
+}
+
 std::size_t width(const std::string& s) {
     std::size_t w = 0;
     for (const unsigned char ch : s) {
@@ -62,15 +97,35 @@ std::size_t width(const std::string& s) {
 
 std::string Table::text() const {
     std::vector<std::vector<std::string>> cells;
-    std::vector<std::size_t> widths(columns_.size(), 0);
-    for (std::size_t c = 0; c < columns_.size(); ++c) widths[c] = width(columns_[c].text_header);
     for (const auto& row : rows_) {
         std::vector<std::string> line;
-        for (std::size_t c = 0; c < columns_.size(); ++c) {
-            line.push_back(text_cell(columns_[c], row[c]));
-            widths[c] = std::max(widths[c], width(line.back()));
-        }
+        for (std::size_t c = 0; c < columns_.size(); ++c) line.push_back(text_cell(columns_[c], row[c]));
         cells.push_back(std::move(line));
+    }
+    // Numbers (not resistances in the letter code, not text) line up at the decimal point: each is
+    // padded to the column's widest integer part on the left and widest fraction on the right.
+    for (std::size_t c = 0; c < columns_.size(); ++c) {
+        if (resistance_column(columns_[c])) continue;
+        std::size_t left = 0;
+        std::size_t right = 0;
+        auto aligned = [&](std::size_t r) { return std::holds_alternative<double>(rows_[r][c]); };
+        for (std::size_t r = 0; r < cells.size(); ++r) {
+            if (!aligned(r)) continue;
+            const std::size_t p = point_of(cells[r][c]);
+            left = std::max(left, p);
+            right = std::max(right, cells[r][c].size() - p);
+        }
+        for (std::size_t r = 0; r < cells.size(); ++r) {
+            if (!aligned(r)) continue;
+            std::string& s = cells[r][c];
+            const std::size_t p = point_of(s);
+            s = std::string(left - p, ' ') + s + std::string(right - (s.size() - p), ' ');
+        }
+    }
+    std::vector<std::size_t> widths(columns_.size(), 0);
+    for (std::size_t c = 0; c < columns_.size(); ++c) widths[c] = width(columns_[c].text_header);
+    for (const auto& line : cells) {
+        for (std::size_t c = 0; c < columns_.size(); ++c) widths[c] = std::max(widths[c], width(line[c]));
     }
     std::string out;
     auto put = [&](const std::vector<std::string>& line) {
@@ -78,6 +133,8 @@ std::string Table::text() const {
             if (c > 0) out += "  ";
             out += std::string(widths[c] - width(line[c]), ' ') + line[c];
         }
+        // A fraction's padding in the last column would trail the line.
+        while (!out.empty() && out.back() == ' ') out.pop_back();
         out += '\n';
     };
     std::vector<std::string> header;

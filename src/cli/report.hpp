@@ -18,12 +18,15 @@ enum class Format { text, json, csv, markdown };
 [[nodiscard]] Format parse_format(const std::string& text, bool markdown = false);
 
 // A column: its header in text (with the unit) and in CSV (snake_case with a unit suffix), and how
-// its numbers print in text: `decimals` ≥ 0 fixed decimals, otherwise `digits` significant figures.
+// its numbers print in text: `decimals` ≥ 0 fixed decimals, otherwise `digits` significant figures
+// (format_decimals, format_significant); a `resistance` column prints in the IEC 60062 letter code
+// with `digits` figures at any size ("253M4", never 2.53391e+08).
 struct Column {
     std::string text_header;
     std::string csv_header;
     int decimals = -1;
     int digits = 6;
+    bool resistance = false;
 };
 
 using Cell = std::variant<double, std::string>;
@@ -33,7 +36,7 @@ public:
     explicit Table(std::vector<Column> columns) : columns_(std::move(columns)) {}
     void add_row(std::vector<Cell> row) { rows_.push_back(std::move(row)); }
     [[nodiscard]] bool empty() const { return rows_.empty(); }
-    // Right-aligned columns, two spaces apart; NaN prints as "-".
+    // Right-aligned columns, two spaces apart, numbers aligned at the decimal point; NaN prints as "-".
     [[nodiscard]] std::string text() const;
     // A header row and one row per entry, numbers with 10 significant figures; NaN is an empty field.
     [[nodiscard]] std::string csv() const;
@@ -49,6 +52,14 @@ private:
 // `s` made safe inside a Markdown table cell or running text: '|', '\\', '*', '_', '`', '<' and '>'
 // are backslash-escaped and line breaks become spaces.
 [[nodiscard]] std::string markdown_escape(const std::string& s);
+
+// The numbers of text tables and summaries. `format_significant`: `digits` significant figures,
+// trailing zeros kept so a column's figures count alike ("0.06230"), in exponent form below 1e-4 or
+// from 10^digits up ("3.613e-06"); zero is "0". `format_decimals`: `decimals` fixed decimals, except
+// that a value they would round to zero keeps significant figures instead ("0.00041", never "0.000").
+// Both print a non-finite value as "-".
+[[nodiscard]] std::string format_significant(double v, int digits);
+[[nodiscard]] std::string format_decimals(double v, int decimals);
 
 // Display width of UTF-8 text (the bytes that start a code point), for padding labels like "T (°C)".
 [[nodiscard]] std::size_t width(const std::string& s);

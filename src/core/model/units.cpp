@@ -50,6 +50,21 @@ void require_representable(double value, std::string_view field, std::string_vie
     }
 }
 
+// Reads `s` (a decimal number) times 10^exponent as the double nearest that decimal value: the prefix
+// goes into the text as an exponent, so "10u" is 1e-05 and "4k7" is 4700 exactly, where multiplying by
+// 1e-6 gives 9.999999999999999e-06. Text that has an exponent of its own is read, then multiplied.
+bool read_scaled(std::string_view s, int exponent, double& out) {
+    if (exponent == 0) return read_number(s, out);
+    if (s.find_first_of("eE") == std::string_view::npos) {
+        const std::string scaled = std::string(s) + "e" + std::to_string(exponent);
+        if (read_number(scaled, out)) return true;
+    }
+    // An exponent of its own, or a value past a double once scaled (require_representable says so).
+    if (!read_number(s, out)) return false;
+    out *= std::pow(10.0, exponent);
+    return true;
+}
+
 bool all_digits(std::string_view s) {
     for (const char c : s) {
         if (c < '0' || c > '9') return false;
@@ -68,6 +83,8 @@ double multiplier_of(char letter) {
         default: return 0.0;
     }
 }
+
+int exponent_of(double multiplier) { return static_cast<int>(std::lround(std::log10(multiplier))); }
 
 }  // namespace
 
@@ -114,20 +131,18 @@ double parse_resistance(std::string_view text, std::string_view field) {
         const std::string_view tail = s.substr(letter_pos + 1);
         if (tail.empty()) {
             // suffix form: 10k, 1.5M, 2R; a space before the prefix as SI writes it ("10 kΩ")
-            if (!read_number(trim(head), value)) {
+            if (!read_scaled(trim(head), exponent_of(mult), value)) {
                 throw InputError(f, t, "expected a resistance such as 470, 4k7, 10k or 1M5");
             }
-            value *= mult;
         } else {
             // letter as decimal marker: 4k7, 2R2, R47
             if (!all_digits(head) || !all_digits(tail)) {
                 throw InputError(f, t, "the letter code takes digits on both sides, as in 4k7 or 2R2");
             }
             const std::string joined = std::string(head.empty() ? "0" : head) + "." + std::string(tail);
-            if (!read_number(joined, value)) {
+            if (!read_scaled(joined, exponent_of(mult), value)) {
                 throw InputError(f, t, "expected a resistance such as 470, 4k7, 10k or 1M5");
             }
-            value *= mult;
         }
     }
     if (value <= 0.0) throw InputError(f, t, "a resistance must be positive");
@@ -155,13 +170,13 @@ double parse_quantity(std::string_view text, std::string_view field, std::string
         if (mult != 1.0) s.remove_suffix(1);
     }
     double value = 0.0;
-    if (!read_number(s, value)) {
+    if (!read_scaled(s, exponent_of(mult), value)) {
         std::string example = "a number with an optional SI prefix";
         if (!unit.empty()) example += ", e.g. 100u" + std::string(unit) + " or 0.5";
         throw InputError(std::string(field), std::string(text), "expected " + example);
     }
-    require_representable(value * mult, field, text);
-    return value * mult;
+    require_representable(value, field, text);
+    return value;
 }
 
 double parse_temperature(std::string_view text, std::string_view field) {

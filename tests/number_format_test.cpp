@@ -1,0 +1,86 @@
+// One number format for text tables and summaries (src/cli/report.cpp): a fixed count of significant
+// figures, small values never a bare 0.000, resistances in the IEC 60062 letter code at any size,
+// decimal points aligned within a column; and inputs echoed without floating-point dust. Every
+// expected string below is written out by hand from the rule it checks.
+#include <doctest/doctest.h>
+
+#include <nlohmann/json.hpp>
+#include <string>
+#include <vector>
+
+#include "report.hpp"
+#include "support.hpp"
+
+using rtline::cli::Column;
+using rtline::cli::format_decimals;
+using rtline::cli::format_significant;
+using rtline::cli::Table;
+
+namespace {
+// A table row cell by cell (GCC 12 warns, wrongly, on a braced list of variants here).
+std::vector<rtline::cli::Cell> row(double r, double x, double e) {
+    std::vector<rtline::cli::Cell> cells;
+    cells.emplace_back(r);
+    cells.emplace_back(x);
+    cells.emplace_back(e);
+    return cells;
+}
+}  // namespace
+
+TEST_CASE("format_significant keeps the same count of figures, trailing zeros included") {
+    CHECK(format_significant(0.0623, 4) == "0.06230");
+    CHECK(format_significant(2.81449968, 4) == "2.814");
+    CHECK(format_significant(33620.6037, 6) == "33620.6");
+    CHECK(format_significant(-0.00207183, 4) == "-0.002072");
+    // Rounding that carries into a new decade keeps the count: 9.9996 to four figures is 10.00.
+    CHECK(format_significant(9.9996, 4) == "10.00");
+    // Below 1e-4 and from 10^digits up: exponent form with the same figures.
+    CHECK(format_significant(3.61294e-6, 4) == "3.613e-06");
+    CHECK(format_significant(1234567.0, 4) == "1.235e+06");
+    CHECK(format_significant(0.0, 4) == "0");
+}
+
+TEST_CASE("format_decimals never shows a small value as a bare 0.000") {
+    CHECK(format_decimals(2.3456, 3) == "2.346");
+    CHECK(format_decimals(-1.2666, 3) == "-1.267");
+    // Exactly zero is zero; a value the decimals would hide keeps three significant figures.
+    CHECK(format_decimals(0.0, 3) == "0.000");
+    CHECK(format_decimals(0.000412, 3) == "0.000412");
+    CHECK(format_decimals(-0.000412, 3) == "-0.000412");
+    CHECK(format_decimals(4.2e-6, 3) == "4.20e-06");
+    CHECK(format_decimals(0.004, 2) == "0.0040");
+}
+
+TEST_CASE("a text table aligns a column's decimal points and writes resistances in the letter code") {
+    Table t({{"R (ohm)", "r_ohm", -1, 4, true}, {"x (V)", "x_v", -1, 4}, {"e (K)", "e_k", 3}});
+    t.add_row(row(2.53391e8, 0.0623, 2.3456));
+    t.add_row(row(33620.6, 12.5, 0.0));
+    t.add_row(row(4.7, 0.0, 0.000412));
+    auto last = row(0.0, 3.61294e-6, -10.5);
+    last[0] = std::string("none");
+    t.add_row(last);
+    // Letter code at any size (253M4, not 2.53391e+08); in x and e the points line up: each number is
+    // padded to the widest integer part on the left and the widest fraction on the right.
+    // x: integer parts up to 2 wide, fractions up to 8 ("3.613e-06" counts from its point), so 10 wide;
+    // e: up to 3 and 7, so 10 wide; R: the header's 7. Columns two spaces apart, no trailing blanks.
+    const std::string want =
+        "R (ohm)       x (V)       e (K)\n"
+        "  253M4   0.06230      2.346\n"
+        "  33k62  12.50         0.000\n"
+        "    4R7   0            0.000412\n"
+        "   none   3.613e-06  -10.500\n";
+    CHECK(t.text() == want);
+}
+
+TEST_CASE("inputs echo without floating-point dust: 10u is 1e-05 and 10M is 1e7 in the JSON") {
+    const auto r = rtline::test::run_rtline({"check", "--r25", "10k", "--beta", "3950", "--span", "0:40", "--step",
+                                             "10", "--circuit", "divider-low", "--rs", "10k", "--load", "10M",
+                                             "--excitation", "3.3", "--format", "json"});
+    REQUIRE(r.code == 0);
+    const auto doc = nlohmann::json::parse(r.out);
+    CHECK(doc["circuit"]["load_ohm"].dump() == "10000000.0");
+    const auto c = rtline::test::run_rtline({"check", "--r25", "10k", "--beta", "3950", "--span", "0:40", "--step",
+                                             "10", "--circuit", "bare", "--current", "10u", "--format", "json"});
+    REQUIRE(c.code == 0);
+    CHECK(nlohmann::json::parse(c.out)["circuit"]["drive"]["current_a"].dump() == "1e-05");
+}
