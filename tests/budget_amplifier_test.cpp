@@ -177,3 +177,24 @@ TEST_CASE("the firmware inverts the nominal amplifier: without its errors the pa
     CHECK(amp["offset_v_per_v"].get<double>() == 0.5);
     CHECK(a["assumptions"]["amplifier"].is_null());
 }
+
+TEST_CASE("a bias current on a current-driven thermistor read in volts: I_b·T²/(I·B), whatever the gain") {
+    // By hand: a current I through R_T reads V = I·R; the bias current I_b drawn from that node
+    // (source impedance R_T, the current source open) lowers it by I_b·R, i.e. R by the fraction
+    // I_b/I, and the beta model reads ΔT = T²/B·Δln R ≈ T²·I_b/(B·I) to first order (second order
+    // below 2e-4 relative here), checked at 1e-3. 10 nA on 50 µA.
+    for (const char* gain : {"2", "0.5"}) {
+        const json out = run_json({"budget", "--r25", "10k", "--beta", "3950", "--span", "0:60", "--step", "15",
+                                   "--circuit", "bare", "--current", "50u", "--adc-ref", "2.5", "--gain", gain,
+                                   "--amp-bias", "10n", "--r25-tol", "0", "--beta-tol", "0", "--trials", "0",
+                                   "--format", "json"});
+        for (const json& p : out["points"]) {
+            const double t = p["t_c"].get<double>() + 273.15;
+            CAPTURE(gain);
+            CAPTURE(t);
+            CHECK(p["components"]["amp_bias_c"].get<double>() ==
+                  doctest::Approx(10e-9 * t * t / (50e-6 * kB)).epsilon(1e-3));
+        }
+        CHECK(out["assumptions"]["amplifier"]["offset_v"].get<double>() == 0.0);  // volts: the key says so
+    }
+}
