@@ -109,9 +109,8 @@ AmplifierChoice choose_amplifier(const FrontEndOptions& o, const Circuit& c, con
     return choose_amplifier(o, c, grid, full_scale(o, c));
 }
 
-AmplifierChoice choose_amplifier(const FrontEndOptions& o, const Circuit& c, const Grid& grid, double fs) {
-    AmplifierChoice r;
-    r.full_scale = fs;
+AmplifierRule amplifier_rule(const FrontEndOptions& o) {
+    AmplifierRule r;
     if (!o.gain.empty() && o.auto_range) {
         throw InputError("--gain", o.gain, "give either --gain (with --offset) or --auto-range, not both");
     }
@@ -119,21 +118,34 @@ AmplifierChoice choose_amplifier(const FrontEndOptions& o, const Circuit& c, con
     if (!o.headroom.empty() && !o.auto_range)
         throw InputError("--headroom", o.headroom, "applies only with --auto-range");
     if (o.auto_range) {
-        if (std::isnan(r.full_scale)) {
-            throw InputError("--adc-ref", "",
-                             "--auto-range with a current drive needs the converter's reference in volts");
-        }
         std::string h = o.headroom.empty() ? std::string("5") : o.headroom;
         if (h.back() == '%') h.pop_back();
         r.headroom = 0.01 * parse_number(h, "--headroom");
-        validate_front_end(c, Amplifier{});
-        r.amplifier = fit_range(c, grid, r.full_scale, r.headroom).amplifier;
-        r.auto_ranged = true;
+        r.auto_range = true;
     } else if (!o.gain.empty()) {
         Amplifier amp;
         amp.gain = parse_number(o.gain, "--gain");
         if (!o.offset.empty()) amp.offset = parse_quantity(o.offset, "--offset", "V");
-        r.amplifier = amp;
+        r.fixed = amp;
+    }
+    return r;
+}
+
+AmplifierChoice choose_amplifier(const FrontEndOptions& o, const Circuit& c, const Grid& grid, double fs) {
+    AmplifierChoice r;
+    r.full_scale = fs;
+    const AmplifierRule rule = amplifier_rule(o);
+    if (rule.auto_range) {
+        if (std::isnan(r.full_scale)) {
+            throw InputError("--adc-ref", "",
+                             "--auto-range with a current drive needs the converter's reference in volts");
+        }
+        r.headroom = rule.headroom;
+        validate_front_end(c, Amplifier{});
+        r.amplifier = fit_range(c, grid, r.full_scale, r.headroom).amplifier;
+        r.auto_ranged = true;
+    } else {
+        r.amplifier = rule.fixed;
     }
     return r;
 }

@@ -42,6 +42,14 @@ struct AmplifierChoice {
     double headroom = 0.0;  // fraction at each end, with --auto-range
     double full_scale = 0.0;
 };
+// How the flags choose the amplifier before any circuit is known: a fixed one (--gain, --offset), or
+// --auto-range with its headroom (a fraction at each end), or none. Checks the flags' combinations.
+struct AmplifierRule {
+    std::optional<Amplifier> fixed;
+    bool auto_range = false;
+    double headroom = 0.0;
+};
+[[nodiscard]] AmplifierRule amplifier_rule(const FrontEndOptions& o);
 [[nodiscard]] AmplifierChoice choose_amplifier(const FrontEndOptions& o, const Circuit& circuit, const Grid& grid);
 // The same against a full scale the caller knows (the budget's converter), in output_unit(circuit); NaN
 // when unknown, which --auto-range refuses.
