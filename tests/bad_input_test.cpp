@@ -342,8 +342,9 @@ TEST_CASE("a mistyped trial count, tolerance or converter figure in a budget is 
 }
 
 TEST_CASE("a budget refuses the amplifier's errors without an amplifier, or in volts against no known volts") {
-    const std::vector<std::string> bridge = {"budget", "--r25", "10k", "--beta", "3950", "--span", "0:50",
-                                             "--step", "10", "--circuit", "bridge", "--r1", "10k", "--trials", "0"};
+    const std::vector<std::string> bridge = {"budget", "--r25", "10k",    "--beta",   "3950",
+                                             "--span", "0:50",  "--step", "10",       "--circuit",
+                                             "bridge", "--r1",  "10k",    "--trials", "0"};
     check_refused({
         {"an input offset on a ratiometric reading without the excitation's volts",
          with(bridge, {"--auto-range", "--amp-offset", "50u"}),

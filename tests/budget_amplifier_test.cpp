@@ -21,26 +21,29 @@ constexpr double kB = 3950.0;  // K; a common B25/85 (common practice, no source
 // 1.5 V/V with the output offset at half the excitation, so the converter input stays within 0.05 to
 // 0.91 of the reference over 0 to 60 degC; the board anywhere in 10 to 60 degC (our own scenario).
 // The amplifier's figures are of the order a general-purpose op-amp states (from memory, no part).
-const json kDesign = {{"r25_ohm", 10e3},  {"b_k", kB},         {"r1_ohm", 10e3},      {"r2_ohm", 10e3},
-                      {"r3_ohm", 10e3},   {"v_exc", 3.3},      {"gain", 1.5},         {"offset", 0.5},
-                      {"r25_tol", 0.01},  {"beta_tol", 0.01},  {"res_tol", 0.001},    {"gain_tol", 0.005},
-                      {"vos_v", 2e-3},    {"drift_v_per_k", 1e-5}, {"board_c", {10, 60}}, {"ib_a", 50e-9},
-                      {"ios_a", 20e-9},   {"t_c", {0, 15, 30, 45, 60}}};
+const json kDesign = {{"r25_ohm", 10e3},     {"b_k", kB},
+                      {"r1_ohm", 10e3},      {"r2_ohm", 10e3},
+                      {"r3_ohm", 10e3},      {"v_exc", 3.3},
+                      {"gain", 1.5},         {"offset", 0.5},
+                      {"r25_tol", 0.01},     {"beta_tol", 0.01},
+                      {"res_tol", 0.001},    {"gain_tol", 0.005},
+                      {"vos_v", 2e-3},       {"drift_v_per_k", 1e-5},
+                      {"board_c", {10, 60}}, {"ib_a", 50e-9},
+                      {"ios_a", 20e-9},      {"t_c", {0, 15, 30, 45, 60}}};
 
 std::vector<std::string> bridge_args(const std::vector<std::string>& more) {
-    std::vector<std::string> a = {"budget",         "--r25",       "10k",        "--beta",      "3950",
-                                  "--span",         "0:60",        "--step",     "15",          "--circuit",
-                                  "bridge",         "--r1",        "10k",        "--r2",        "10k",
-                                  "--r3",           "10k",         "--excitation", "3.3",       "--adc-ref",
-                                  "excitation",     "--gain",      "1.5",        "--offset",    "0.5",
-                                  "--resistor-tol", "0.1",         "--board-temp", "10:60",     "--format",
-                                  "json"};
+    std::vector<std::string> a = {
+        "budget", "--r25",          "10k",    "--beta",       "3950",       "--span",   "0:60", "--step",
+        "15",     "--circuit",      "bridge", "--r1",         "10k",        "--r2",     "10k",  "--r3",
+        "10k",    "--excitation",   "3.3",    "--adc-ref",    "excitation", "--gain",   "1.5",  "--offset",
+        "0.5",    "--resistor-tol", "0.1",    "--board-temp", "10:60",      "--format", "json"};
     a.insert(a.end(), more.begin(), more.end());
     return a;
 }
 
-const std::vector<std::string> kAmpErrors = {"--amp-gain-tol", "0.5", "--amp-offset", "2m", "--amp-offset-drift",
-                                             "10u", "--amp-bias", "50n", "--amp-offset-current", "20n"};
+const std::vector<std::string> kAmpErrors = {"--amp-gain-tol",       "0.5", "--amp-offset", "2m",
+                                             "--amp-offset-drift",   "10u", "--amp-bias",   "50n",
+                                             "--amp-offset-current", "20n"};
 
 std::vector<std::string> joined(std::vector<std::string> a, const std::vector<std::string>& b) {
     a.insert(a.end(), b.begin(), b.end());
@@ -138,8 +141,8 @@ TEST_CASE("the input offset alone: gain·V_os at the converter over the converte
     // error times the slope's relative change per kelvin (a few %/K here): below 1e-3 relative at
     // 200 µV, checked at 1e-3.
     for (const char* gain : {"1.5", "0.8"}) {
-        std::vector<std::string> a = bridge_args({"--trials", "0", "--amp-offset", "200u", "--r25-tol", "0",
-                                                  "--beta-tol", "0", "--resistor-tol", "0"});
+        std::vector<std::string> a = bridge_args(
+            {"--trials", "0", "--amp-offset", "200u", "--r25-tol", "0", "--beta-tol", "0", "--resistor-tol", "0"});
         REQUIRE(a[21] == "--gain");
         a[22] = gain;
         const json out = run_json(a);
@@ -160,9 +163,9 @@ TEST_CASE("the firmware inverts the nominal amplifier: without its errors the pa
     // Without a converter the reading through an amplifier the firmware inverts exactly is the
     // network's output again, so every part's share of the error is what it is read directly (by the
     // algebra of an exact inverse; checked to 1e-9 relative plus 1e-12 K).
-    std::vector<std::string> direct = {"budget", "--r25",  "10k",       "--beta", "3950", "--span", "0:60",
-                                       "--step", "15",     "--circuit", "bridge", "--r1", "10k",    "--r2",
-                                       "10k",    "--r3",   "10k",       "--trials", "0",  "--format", "json"};
+    std::vector<std::string> direct = {"budget", "--r25", "10k",       "--beta",   "3950", "--span",   "0:60",
+                                       "--step", "15",    "--circuit", "bridge",   "--r1", "10k",      "--r2",
+                                       "10k",    "--r3",  "10k",       "--trials", "0",    "--format", "json"};
     const json a = run_json(direct);
     const json b = run_json(joined(direct, {"--gain", "1.5", "--offset", "0.5"}));
     for (std::size_t i = 0; i < a["points"].size(); ++i) {
@@ -184,10 +187,10 @@ TEST_CASE("a bias current on a current-driven thermistor read in volts: I_b·T²
     // I_b/I, and the beta model reads ΔT = T²/B·Δln R ≈ T²·I_b/(B·I) to first order (second order
     // below 2e-4 relative here), checked at 1e-3. 10 nA on 50 µA.
     for (const char* gain : {"2", "0.5"}) {
-        const json out = run_json({"budget", "--r25", "10k", "--beta", "3950", "--span", "0:60", "--step", "15",
-                                   "--circuit", "bare", "--current", "50u", "--adc-ref", "2.5", "--gain", gain,
-                                   "--amp-bias", "10n", "--r25-tol", "0", "--beta-tol", "0", "--trials", "0",
-                                   "--format", "json"});
+        const json out = run_json(
+            {"budget", "--r25",      "10k", "--beta",    "3950", "--span",   "0:60", "--step",     "15",  "--circuit",
+             "bare",   "--current",  "50u", "--adc-ref", "2.5",  "--gain",   gain,   "--amp-bias", "10n", "--r25-tol",
+             "0",      "--beta-tol", "0",   "--trials",  "0",    "--format", "json"});
         for (const json& p : out["points"]) {
             const double t = p["t_c"].get<double>() + 273.15;
             CAPTURE(gain);

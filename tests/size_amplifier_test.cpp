@@ -33,9 +33,9 @@ TEST_CASE("size ranks by the resolution through an amplifier fitted to each cand
     // equation); --auto-range with the default 5 % headroom maps v(0 degC)..v(50 degC) onto 0.05..0.95,
     // so gain = 0.9/(v(0) − v(50)); one LSB of 12 bits is 1/4096. The resolution is the largest
     // LSB/(gain·|dv/dT|) over the grid (0 to 50 degC in 5 K steps). Checked to 1e-9 relative.
-    const json j = run_json({"size", "--r25", "10k", "--beta", "3950", "--span", "0:50", "--step", "5", "--circuit",
-                             "divider-low", "--objective", "resolution", "--adc-bits", "12", "--auto-range",
-                             "--format", "json"});
+    const json j =
+        run_json({"size", "--r25", "10k", "--beta", "3950", "--span", "0:50", "--step", "5", "--circuit", "divider-low",
+                  "--objective", "resolution", "--adc-bits", "12", "--auto-range", "--format", "json"});
     REQUIRE(j["candidates"].size() == 5);
     double previous = 0.0;
     for (const json& c : j["candidates"]) {
@@ -63,10 +63,11 @@ TEST_CASE("size's total error through an amplifier is rtline budget's for the sa
     // The bridge's best r1 by the worst case with the amplifier's input offset and bias current: the
     // figure size ranks by is the budget's largest worst case over the span for that r1 through
     // --auto-range, the same amplifier fitted to the same span (to the last digit printed).
-    const std::vector<std::string> common = {"--r25", "10k", "--beta", "3950", "--span", "0:50", "--step", "10",
-                                             "--excitation", "3.3", "--adc-ref", "excitation", "--adc-bits", "12",
-                                             "--auto-range", "--amp-offset", "1m", "--amp-bias", "20n", "--trials",
-                                             "0", "--format", "json"};
+    const std::vector<std::string> common = {
+        "--r25",        "10k",          "--beta", "3950",       "--span",     "0:50",       "--step",
+        "10",           "--excitation", "3.3",    "--adc-ref",  "excitation", "--adc-bits", "12",
+        "--auto-range", "--amp-offset", "1m",     "--amp-bias", "20n",        "--trials",   "0",
+        "--format",     "json"};
     std::vector<std::string> size = {"size", "--circuit", "bridge", "--objective", "total-error", "--shortlist", "6"};
     size.insert(size.end(), common.begin(), common.end());
     const json s = run_json(size);
@@ -75,7 +76,8 @@ TEST_CASE("size's total error through an amplifier is rtline budget's for the sa
     std::vector<std::string> budget = {"budget", "--circuit", "bridge", "--r1", std::to_string(r1)};
     budget.insert(budget.end(), common.begin(), common.end());
     const json b = run_json(budget);
-    CHECK(best["total_error_c"].get<double>() == doctest::Approx(b["summary"]["worst_case_c"].get<double>()).epsilon(1e-12));
+    CHECK(best["total_error_c"].get<double>() ==
+          doctest::Approx(b["summary"]["worst_case_c"].get<double>()).epsilon(1e-12));
     CHECK(best["amplifier"]["gain_v_per_v"].get<double>() ==
           doctest::Approx(b["assumptions"]["amplifier"]["gain_v_per_v"].get<double>()).epsilon(1e-12));
     CHECK(b["points"][0]["components"]["amp_offset_c"].get<double>() > 0.0);

@@ -22,7 +22,7 @@ struct BudgetOptions {
     ModelOptions model;
     SpanOptions span;
     CircuitOptions circuit;
-    BudgetFlags parts;  // tolerances, environment, converter, Monte Carlo, the amplifier's errors
+    BudgetFlags parts;      // tolerances, environment, converter, Monte Carlo, the amplifier's errors
     FrontEndOptions front;  // the amplifier: --gain, --offset, --auto-range, --headroom (as table's)
     OutputOptions out;
     std::string svg;  // --svg FILE
@@ -265,8 +265,8 @@ Facts budget_header(const Budget& b, const BudgetSpec& s, const Thermistor& mode
     f.push_back({"reading", reading_description(s, circuit, unit)});
     if (s.amplifier) {
         std::string amp = std::string(is_bridge(circuit.topology) ? "differential across A and B, " : "") + "gain " +
-                          format_number(s.amplifier->gain, 6) + " V/V, offset " + format_number(s.amplifier->offset, 6) +
-                          " " + unit + "; the firmware inverts it as nominal";
+                          format_number(s.amplifier->gain, 6) + " V/V, offset " +
+                          format_number(s.amplifier->offset, 6) + " " + unit + "; the firmware inverts it as nominal";
         const std::string errors = amplifier_errors_text(s.amplifier_errors);
         f.push_back({"amplifier", amp});
         if (!errors.empty()) f.push_back({"", errors + " (" + distribution_text(s.distribution) + ")"});
@@ -412,8 +412,8 @@ std::optional<Amplifier> budget_amplifier(const BudgetOptions& o, const Circuit&
                                           const Span& span, const Thermistor& thermistor) {
     Circuit reading = circuit;
     if (circuit.excitation.drive == Drive::voltage && spec.ratiometric) reading.excitation = Excitation{};
-    const double fs = circuit.excitation.drive == Drive::current && o.parts.adc_ref.empty() ? std::nan("")
-                                                                                            : spec.adc.full_scale;
+    const double fs =
+        circuit.excitation.drive == Drive::current && o.parts.adc_ref.empty() ? std::nan("") : spec.adc.full_scale;
     // The output is monotone in R_T: the span's ends are the extremes --auto-range maps.
     const Grid ends{{span.lo_k, span.hi_k}, {thermistor.resistance(span.lo_k), thermistor.resistance(span.hi_k)}};
     return choose_amplifier(o.front, reading, ends, fs).amplifier;
