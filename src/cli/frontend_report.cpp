@@ -13,15 +13,6 @@ const char* const kDeg =
     "\xC2\xB0"
     "C";
 
-// A value with an SI prefix and its unit, 4 figures: 8.191e-08 F -> "81.91 nF".
-std::string si(double v, const std::string& unit) {
-    static const char* const prefixes[] = {"p", "n", "\xC2\xB5", "m", "", "k", "M", "G"};
-    if (v == 0.0 || !std::isfinite(v)) return format_number(v, 4) + " " + unit;
-    int e = static_cast<int>(std::floor(std::log10(std::abs(v)) / 3.0));
-    e = std::max(-4, std::min(3, e));
-    return format_number(v / std::pow(1000.0, e), 4) + " " + prefixes[e + 4] + unit;
-}
-
 double parse_positive(const std::string& text, const std::string& flag, const std::string& unit) {
     const double v = parse_quantity(text, flag, unit);
     if (!(v > 0.0)) throw InputError(flag, text, "must be positive");
@@ -70,6 +61,14 @@ Largest worst_settling(const FrontEndReport& r) {
 }
 
 }  // namespace
+
+std::string si(double v, const std::string& unit) {
+    static const char* const prefixes[] = {"p", "n", "\xC2\xB5", "m", "", "k", "M", "G"};
+    if (v == 0.0 || !std::isfinite(v)) return format_number(v, 4) + " " + unit;
+    int e = static_cast<int>(std::floor(std::log10(std::abs(v)) / 3.0));
+    e = std::max(-4, std::min(3, e));
+    return format_number(v / std::pow(1000.0, e), 4) + " " + prefixes[e + 4] + unit;
+}
 
 bool FrontEndOptions::given() const {
     return !gain.empty() || !offset.empty() || auto_range || !headroom.empty() || !amp_output.empty() ||
