@@ -201,3 +201,34 @@ TEST_CASE("a bias current on a current-driven thermistor read in volts: I_b·T²
         CHECK(out["assumptions"]["amplifier"]["offset_v"].get<double>() == 0.0);  // volts: the key says so
     }
 }
+
+TEST_CASE("the offset drift with the board at the sensed temperature: zero at 25 degC, and its Monte Carlo spread") {
+    // By hand, as for the input offset: a drift D over T − 25 °C moves the input by D·(T − 25 °C), read
+    // as D·|T − 25 °C|·(r1 + R)²·T²/(E·r1·R·B) to first order (below 1e-3 relative here). Drawn normal
+    // with D as 3σ, the Monte Carlo's standard deviation is a third of it: a sample standard deviation
+    // of n normal draws has a relative standard error of 1/√(2(n − 1)) (a textbook result), 0.16 % at
+    // n = 200 000, checked at 4 of those plus the first-order 1e-3. No converter, the parts exact.
+    std::vector<std::string> a = {
+        "budget", "--r25",        "10k",    "--beta",     "3950",       "--span",         "5:45", "--step",
+        "10",     "--circuit",    "bridge", "--r1",       "10k",        "--r2",           "10k",  "--r3",
+        "10k",    "--excitation", "3.3",    "--adc-ref",  "excitation", "--gain",         "1.5",  "--offset",
+        "0.5",    "--r25-tol",    "0",      "--beta-tol", "0",          "--resistor-tol", "0",    "--amp-offset-drift",
+        "100u",   "--trials",     "200000", "--format",   "json"};
+    const json out = run_json(a);
+    const double n = 200000.0;
+    for (const json& p : out["points"]) {
+        const double t = p["t_c"].get<double>() + 273.15;
+        const double r = beta_r(t);
+        const double per_volt = (10e3 + r) * (10e3 + r) * t * t / (3.3 * 10e3 * r * kB);  // K per V at the input
+        const double expected = 100e-6 * std::abs(t - 298.15) * per_volt;
+        CAPTURE(t);
+        if (std::abs(t - 298.15) < 1e-9) {
+            CHECK(p["components"]["amp_offset_drift_c"].get<double>() < 1e-12);
+            CHECK(p["mc"]["std_c"].get<double>() < 1e-12);
+        } else {
+            CHECK(p["components"]["amp_offset_drift_c"].get<double>() == doctest::Approx(expected).epsilon(1e-3));
+            const double tolerance = 4.0 / std::sqrt(2.0 * (n - 1.0)) + 1e-3;
+            CHECK(p["mc"]["std_c"].get<double>() == doctest::Approx(expected / 3.0).epsilon(tolerance));
+        }
+    }
+}
