@@ -342,8 +342,9 @@ TEST_CASE("a mistyped trial count, tolerance or converter figure in a budget is 
 }
 
 TEST_CASE("a budget refuses the amplifier's errors without an amplifier, or in volts against no known volts") {
-    const std::vector<std::string> bridge = {"budget", "--r25", "10k", "--beta", "3950", "--span", "0:50",
-                                             "--step", "10", "--circuit", "bridge", "--r1", "10k", "--trials", "0"};
+    const std::vector<std::string> bridge = {"budget", "--r25", "10k",    "--beta",   "3950",
+                                             "--span", "0:50",  "--step", "10",       "--circuit",
+                                             "bridge", "--r1",  "10k",    "--trials", "0"};
     check_refused({
         {"an input offset on a ratiometric reading without the excitation's volts",
          with(bridge, {"--auto-range", "--amp-offset", "50u"}),
@@ -360,6 +361,9 @@ TEST_CASE("a budget refuses the amplifier's errors without an amplifier, or in v
          "--amp-gain-tol '100': a tolerance must be at least 0 and below 100 (percent)"},
         // The bridge nulls at 0 degC (r3 = R_T(0)): V_A - V_B falls from 0 as R_T falls, so a gain of 10
         // takes the converter input below 0 everywhere past the null.
+        {"an amplifier for size's nonlinearity, which it maps linearly", with(kSize, {"--gain", "4"}),
+         "--gain '4': an amplifier maps the output linearly, so the nonlinearity is the network's own; give "
+         "--objective resolution or total-error"},
         {"an amplifier that drives the converter input below its range",
          with(bridge, {"--gain", "10", "--adc-bits", "12"}),
          "--gain '10': through the amplifier the converter input reaches -5.06684 V/V, below the converter's "

@@ -144,22 +144,22 @@ struct McStats {
 // The causes of the split, in the order reports list them. A new cause is a new entry here, a name
 // in cause_key/cause_label, and its dimensions in the budget's point_bounds.
 enum class Cause : std::size_t {
-    nonlinearity,    // |nominal error| of the line reading; the model reading has none
-    model_error,     // the part follows Budget::part while the firmware inverts the model
-    r25,             // thermistor R25 tolerance
-    beta,            // thermistor B-value tolerance
-    thermistor_dt,   // interchangeability ±dT
-    drift,           // thermistor long-term drift
-    resistors,       // fixed resistors' tolerance
-    resistor_drift,  // their temperature coefficient over the board temperature
-    lead,            // lead wires: tolerance and copper's coefficient over the cable temperature
-    excitation,      // the drive's tolerance (reading in volts)
+    nonlinearity,        // |nominal error| of the line reading; the model reading has none
+    model_error,         // the part follows Budget::part while the firmware inverts the model
+    r25,                 // thermistor R25 tolerance
+    beta,                // thermistor B-value tolerance
+    thermistor_dt,       // interchangeability ±dT
+    drift,               // thermistor long-term drift
+    resistors,           // fixed resistors' tolerance
+    resistor_drift,      // their temperature coefficient over the board temperature
+    lead,                // lead wires: tolerance and copper's coefficient over the cable temperature
+    excitation,          // the drive's tolerance (reading in volts)
     amp_gain,            // the amplifier's gain error
     amp_offset,          // its input offset voltage
     amp_offset_drift,    // the input offset's drift over the board temperature
     amp_bias,            // its input bias current through the network's source impedance
     amp_offset_current,  // the difference of the inputs' bias currents, likewise
-    reference,       // the converter's reference: tolerance and drift (cancels when ratiometric)
+    reference,           // the converter's reference: tolerance and drift (cancels when ratiometric)
     adc_offset,
     adc_gain,
     adc_inl,

@@ -5,6 +5,7 @@
 #pragma once
 
 #include <cstddef>
+#include <optional>
 #include <string_view>
 #include <vector>
 
@@ -33,11 +34,24 @@ struct ObjectiveSpec {
     // How many of the nonlinearity search's best combinations the other objectives rank; a
     // one-resistor topology under the resolution objective ranks every series value instead.
     std::size_t shortlist = 24;
+    // An amplifier between each candidate and the converter (resolution and total-error): the fixed one
+    // in budget.amplifier, or, with auto_range, for each candidate the one that maps its output over
+    // the span onto the converter's range less `headroom` (a fraction) at each end (fit_range).
+    bool auto_range = false;
+    double headroom = 0.05;
 };
 
 // Checks the spec (a converter for resolution and total-error, Monte Carlo trials for a percentile);
-// throws InputError naming Input::adc_bits or Input::trials.
+// throws InputError naming Input::adc_bits or Input::trials; an amplifier for the nonlinearity (which
+// an amplifier maps linearly) names Input::gain or Input::output_range, a headroom outside 0 to under
+// 50 % Input::headroom.
 void validate(const ObjectiveSpec& spec);
+
+// The amplifier the objective reads candidate `c` through (none without one): the fixed one, or the
+// one fitted to c's output over the grid, in the reading's unit (per volt of the excitation when
+// ratiometric).
+[[nodiscard]] std::optional<Amplifier> objective_amplifier(const ObjectiveSpec& spec, const Grid& grid,
+                                                           const Circuit& c);
 
 // The largest temperature step one converter code stands for over the grid, K per code: one LSB over
 // |d output/dT| at each point (the circuit's output in the converter's unit). Requires adc.bits > 0.
@@ -51,7 +65,9 @@ struct TotalError {
 };
 [[nodiscard]] TotalError total_error(const Budget& b, Confidence c);
 
-// The objective of `c`: %FSD for nonlinearity, K for the others (smaller is better).
+// The objective of `c`: %FSD for nonlinearity, K for the others (smaller is better). Through an
+// amplifier the resolution is one LSB over |gain·d output/dT|, and the total error is the budget's
+// with the amplifier (and its errors, budget.amplifier_errors).
 [[nodiscard]] double objective_value(const ObjectiveSpec& obj, const SizingSpec& spec, const Grid& grid,
                                      const Thermistor& model, const Circuit& c);
 

@@ -35,9 +35,9 @@ struct BudgetFlags {
     std::string distribution = "normal";
     std::string reading = "model";
     std::string adc_bits;
-    std::string adc_error;    // LSB
-    std::string adc_ref;      // "excitation" or a voltage; default: the excitation voltage as a fixed reference
-    std::string dissipation;  // mW/K
+    std::string adc_error;           // LSB
+    std::string adc_ref;             // "excitation" or a voltage; default: the excitation voltage as a fixed reference
+    std::string dissipation;         // mW/K
     std::string amp_gain_tol;        // %
     std::string amp_offset;          // V, e.g. 50u
     std::string amp_offset_drift;    // V/K, e.g. 1u

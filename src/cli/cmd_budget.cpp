@@ -22,7 +22,7 @@ struct BudgetOptions {
     ModelOptions model;
     SpanOptions span;
     CircuitOptions circuit;
-    BudgetFlags parts;  // tolerances, environment, converter, Monte Carlo, the amplifier's errors
+    BudgetFlags parts;      // tolerances, environment, converter, Monte Carlo, the amplifier's errors
     FrontEndOptions front;  // the amplifier: --gain, --offset, --auto-range, --headroom (as table's)
     OutputOptions out;
     std::string svg;  // --svg FILE
@@ -36,14 +36,14 @@ const char* const kDegC =
 std::string amplifier_errors_text(const AmplifierErrors& e) {
     std::vector<std::string> terms;
     if (e.gain_error > 0.0) terms.push_back("gain \xC2\xB1" + format_number(100.0 * e.gain_error) + " %");
-    if (e.offset_v > 0.0) terms.push_back("input offset \xC2\xB1" + format_number(e.offset_v) + " V");
+    if (e.offset_v > 0.0) terms.push_back("input offset \xC2\xB1" + si(e.offset_v, "V"));
     if (e.offset_drift_v_per_k > 0.0) {
-        terms.push_back("offset drift \xC2\xB1" + format_number(e.offset_drift_v_per_k) + " V/K from " +
+        terms.push_back("offset drift \xC2\xB1" + si(e.offset_drift_v_per_k, "V/K") + " from " +
                         format_number(kelvin_to_celsius(e.reference_t_k)) + " \xC2\xB0" + "C to the board");
     }
-    if (e.bias_current_a > 0.0) terms.push_back("bias current \xC2\xB1" + format_number(e.bias_current_a) + " A");
+    if (e.bias_current_a > 0.0) terms.push_back("bias current \xC2\xB1" + si(e.bias_current_a, "A"));
     if (e.offset_current_a > 0.0) {
-        terms.push_back("offset current \xC2\xB1" + format_number(e.offset_current_a) + " A");
+        terms.push_back("offset current \xC2\xB1" + si(e.offset_current_a, "A"));
     }
     std::string t;
     for (const std::string& term : terms) t += (t.empty() ? "" : ", ") + term;
@@ -266,8 +266,8 @@ Facts budget_header(const Budget& b, const BudgetSpec& s, const Thermistor& mode
     f.push_back({"reading", reading_description(s, circuit, unit)});
     if (s.amplifier) {
         std::string amp = std::string(is_bridge(circuit.topology) ? "differential across A and B, " : "") + "gain " +
-                          format_number(s.amplifier->gain, 6) + " V/V, offset " + format_number(s.amplifier->offset, 6) +
-                          " " + unit + "; the firmware inverts it as nominal";
+                          format_number(s.amplifier->gain, 6) + " V/V, offset " +
+                          format_number(s.amplifier->offset, 6) + " " + unit + "; the firmware inverts it as nominal";
         const std::string errors = amplifier_errors_text(s.amplifier_errors);
         f.push_back({"amplifier", amp});
         if (!errors.empty()) f.push_back({"", errors + " (" + distribution_text(s.distribution) + ")"});
@@ -413,8 +413,8 @@ std::optional<Amplifier> budget_amplifier(const BudgetOptions& o, const Circuit&
                                           const Span& span, const Thermistor& thermistor) {
     Circuit reading = circuit;
     if (circuit.excitation.drive == Drive::voltage && spec.ratiometric) reading.excitation = Excitation{};
-    const double fs = circuit.excitation.drive == Drive::current && o.parts.adc_ref.empty() ? std::nan("")
-                                                                                            : spec.adc.full_scale;
+    const double fs =
+        circuit.excitation.drive == Drive::current && o.parts.adc_ref.empty() ? std::nan("") : spec.adc.full_scale;
     // The output is monotone in R_T: the span's ends are the extremes --auto-range maps.
     const Grid ends{{span.lo_k, span.hi_k}, {thermistor.resistance(span.lo_k), thermistor.resistance(span.hi_k)}};
     return choose_amplifier(o.front, reading, ends, fs).amplifier;

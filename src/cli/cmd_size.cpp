@@ -5,6 +5,7 @@
 #include <tuple>
 
 #include "budget_flags.hpp"
+#include "frontend_report.hpp"
 #include "commands.hpp"
 #include "common.hpp"
 #include "markdown.hpp"
@@ -41,6 +42,7 @@ struct SizeCommand {
     std::string confidence;                  // total-error: worst-case (default), 95 or 99.7
     std::string shortlist;                   // how many of the nonlinearity search's best the others rank
     BudgetFlags parts;                       // the converter and, for total-error, the budget's tolerances
+    FrontEndOptions front;                   // an amplifier for resolution and total-error (as budget's)
     OutputOptions out;
     std::string svg;  // --svg FILE
 };
@@ -124,6 +126,15 @@ Setup build_setup(const SizeCommand& o) {
         }
         obj.shortlist = parse_count(o.shortlist, "--shortlist", 1, 1000, "expected a whole number from 1 to 1000");
     }
+    const AmplifierRule amp = amplifier_rule(o.front);
+    obj.auto_range = amp.auto_range;
+    if (amp.auto_range) obj.headroom = amp.headroom;
+    if (obj.kind == Objective::nonlinearity && (amp.auto_range || amp.fixed)) {
+        throw InputError(amp.auto_range ? "--auto-range" : "--gain", amp.auto_range ? "" : o.front.gain,
+                         "an amplifier maps the output linearly, so the nonlinearity is the network's own; give "
+                         "--objective resolution or total-error");
+    }
+    obj.budget.amplifier = amp.fixed;  // kept by objective_budget
     return {std::move(model), span, std::move(grid), spec, obj};
 }
 
@@ -136,6 +147,12 @@ BudgetSpec objective_budget(const SizeCommand& o, const Circuit& base) {
     return build_budget_spec(parts, base);
 }
 
+// An amplifier in JSON, its output offset keyed by the reading's unit.
+Json amplifier_json(const std::optional<Amplifier>& a, const std::string& reading) {
+    if (!a) return nullptr;
+    return {{"gain_v_per_v", a->gain}, {reading == "V" ? "offset_v" : "offset_v_per_v", a->offset}};
+}
+
 // The objective in words, for the header.
 std::string objective_words(const Setup& s) {
     const ObjectiveSpec& obj = s.objective;
@@ -145,14 +162,23 @@ std::string objective_words(const Setup& s) {
     const std::string shortlist = free_resistors(s.spec.base.topology).size() == 1 && obj.kind == Objective::resolution
                                       ? "every value in range"
                                       : "the " + std::to_string(obj.shortlist) + " most linear combinations";
+    std::string through;
+    if (obj.auto_range) {
+        through = ", through an amplifier fitted to each candidate (the span onto " +
+                  format_number(100.0 * obj.headroom) + " to " + format_number(100.0 - 100.0 * obj.headroom) +
+                  " % of the converter's range)";
+    } else if (obj.budget.amplifier) {
+        through = ", through an amplifier of gain " + format_number(obj.budget.amplifier->gain, 6) + " V/V, offset " +
+                  format_number(obj.budget.amplifier->offset, 6);
+    }
     if (obj.kind == Objective::resolution) {
         return "resolution, the largest " + std::string(kDeg) + " per code of the " +
-               std::to_string(obj.budget.adc.bits) + "-bit converter over the span (ranking " + shortlist + ")";
+               std::to_string(obj.budget.adc.bits) + "-bit converter over the span (ranking " + shortlist + ")" + through;
     }
     return "total error, the budget's largest |error| over the span at " +
            (obj.confidence == Confidence::worst_case ? std::string("the worst case")
                                                      : std::string(confidence_name(obj.confidence)) + " %") +
-           " (ranking " + shortlist + ")";
+           " (ranking " + shortlist + ")" + through;
 }
 
 Json resistors_json(const Circuit& c) {
@@ -193,7 +219,8 @@ Json candidate_json(const Candidate& c) {
 }
 
 Table candidate_table(const std::vector<Candidate>& cs, const std::string& unit, bool csv, bool with_topology,
-                      bool self_heating, const std::vector<double>& figures = {}, Objective objective = Objective::nonlinearity) {
+                      bool self_heating, const std::vector<double>& figures = {}, Objective objective = Objective::nonlinearity,
+                      const std::vector<std::optional<Amplifier>>& amps = {}, const std::string& reading = "") {
     std::vector<Column> cols;
     if (with_topology) cols.push_back({"circuit", "topology"});
     const std::vector<std::string> names =
@@ -218,6 +245,11 @@ Table candidate_table(const std::vector<Candidate>& cs, const std::string& unit,
         cols.push_back({objective == Objective::resolution ? "resolution (\xC2\xB0" "C/code)" : "total error (\xC2\xB0" "C)",
                         objective_key(objective), 4});
     }
+    // Through an amplifier: its gain and output offset (the reading's unit) per candidate.
+    if (!amps.empty()) {
+        cols.push_back({"gain (V/V)", "gain_v_per_v", -1, 6});
+        cols.push_back({"offset (" + reading + ")", reading == "V" ? "offset_v" : "offset_v_per_v", -1, 6});
+    }
     Table t(cols);
     for (std::size_t i = 0; i < cs.size(); ++i) {
         const Candidate& c = cs[i];
@@ -236,6 +268,10 @@ Table candidate_table(const std::vector<Candidate>& cs, const std::string& unit,
         if (power) row.emplace_back(csv ? c.max_power_w : 1e3 * c.max_power_w);
         if (power && self_heating) row.emplace_back(c.max_self_heating_k);
         if (!figures.empty()) row.emplace_back(figures[i]);
+        if (!amps.empty()) {
+            row.emplace_back(amps[i] ? amps[i]->gain : NAN);
+            row.emplace_back(amps[i] ? amps[i]->offset : NAN);
+        }
         t.add_row(std::move(row));
     }
     return t;
@@ -507,7 +543,9 @@ void run_size(const SizeCommand& o) {
     if (s.objective.kind == Objective::nonlinearity) {
         found = search_standard(s.spec, s.grid, s.model);
     } else {
+        const std::optional<Amplifier> fixed = s.objective.budget.amplifier;
         s.objective.budget = objective_budget(o, s.spec.base);
+        s.objective.budget.amplifier = fixed;
         try {
             const ObjectiveSearch ranked = search_objective(s.objective, s.spec, s.grid, s.model);
             found = ranked.nonlinearity;
@@ -523,6 +561,14 @@ void run_size(const SizeCommand& o) {
         }
     }
     if (found.best.empty()) throw infeasible(s.spec, found, "");
+    // The amplifier each candidate is read through (fixed, or fitted to it with --auto-range).
+    std::vector<std::optional<Amplifier>> amps;
+    const bool amplified = s.objective.kind != Objective::nonlinearity &&
+                           (s.objective.auto_range || s.objective.budget.amplifier.has_value());
+    if (amplified) {
+        for (const Candidate& c : found.best) amps.push_back(objective_amplifier(s.objective, s.grid, c.circuit));
+    }
+    const std::string unit_of_reading = amplified ? reading_unit(s.spec.base, s.objective.budget) : std::string();
     const auto fails = failed_constraint(s.spec, continuous);
     const std::string cont_fails = fails ? flag_name(*fails) : std::string();
     if (const std::string w = span_warning(found.best.front()); !w.empty()) warn(w);
@@ -550,6 +596,7 @@ void run_size(const SizeCommand& o) {
         for (std::size_t i = 0; i < found.best.size(); ++i) {
             Json c = candidate_json(found.best[i]);
             if (!figures.empty()) c[objective_key(s.objective.kind)] = figures[i];
+            if (amplified) c["amplifier"] = amplifier_json(amps[i], unit_of_reading);
             arr.push_back(c);
         }
         doc["candidates"] = arr;
@@ -557,6 +604,8 @@ void run_size(const SizeCommand& o) {
             Json obj = {{"name", std::string(objective_name(s.objective.kind))},
                         {"adc_bits", s.objective.budget.adc.bits},
                         {"ranked", ranked_count}};
+            obj["auto_range"] = s.objective.auto_range;
+            obj["headroom_pct"] = s.objective.auto_range ? Json(100.0 * s.objective.headroom) : Json(nullptr);
             if (s.objective.kind == Objective::total_error) {
                 obj["confidence"] = std::string(confidence_name(s.objective.confidence));
                 obj["trials"] = s.objective.budget.trials;
@@ -566,7 +615,7 @@ void run_size(const SizeCommand& o) {
         doc["examined"] = found.examined;
         bytes = dump(doc);
     } else if (csv) {
-        bytes = candidate_table(found.best, unit, true, false, heat, figures, s.objective.kind).csv();
+        bytes = candidate_table(found.best, unit, true, false, heat, figures, s.objective.kind, amps, unit_of_reading).csv();
     } else if (format == Format::markdown) {
         Markdown md = markdown_start(s, o, o.circuit.circuit, describe_circuit(s.spec.base));
         md.section("Continuous optimum");
@@ -590,7 +639,7 @@ void run_size(const SizeCommand& o) {
         md.facts(opt);
         md.section("Best " + std::string(series_name(s.spec.series)) + " values");
         md.paragraph(std::to_string(found.examined) + " combinations examined, exhaustively.");
-        md.table(candidate_table(found.best, unit, false, false, heat, figures, s.objective.kind));
+        md.table(candidate_table(found.best, unit, false, false, heat, figures, s.objective.kind, amps, unit_of_reading));
         if (!driven(found.best.front()))
             md.facts({{"power, self-heating", "none without a drive; give --excitation V or --current A"}});
         bytes = md.str();
@@ -626,7 +675,7 @@ void run_size(const SizeCommand& o) {
                  "\n";
         }
         t += "\nbest " + std::string(series_name(s.spec.series)) + " values (" + std::to_string(found.examined) +
-             " combinations examined, exhaustively)\n" + candidate_table(found.best, unit, false, false, heat, figures, s.objective.kind).text();
+             " combinations examined, exhaustively)\n" + candidate_table(found.best, unit, false, false, heat, figures, s.objective.kind, amps, unit_of_reading).text();
         if (!driven(found.best.front()))
             t += "power, self-heating: none without a drive; give --excitation V or --current A\n";
         bytes = t;
@@ -686,7 +735,8 @@ void setup_size(CLI::App& app) {
                     "With resolution or total-error: how many of the most linear combinations are ranked (default "
                     "24; resolution ranks every value of a one-resistor topology)")
         ->group("Objective");
-    add_budget_flags(*sub, opt->parts, {false, false, false, false});
+    add_amplifier_flags(*sub, opt->front);
+    add_budget_flags(*sub, opt->parts, {false, false, false, false, true});
     add_output_options(*sub, opt->out, true);
     add_svg_option(*sub, opt->svg);
     sub->footer(

@@ -22,6 +22,12 @@ const std::string kPm = "\xC2\xB1";
 // 1/10 W, so the margin is on the safe side for them).
 constexpr double kResistorRatingW = 0.0625;
 
+// A power margin as a factor: three figures below 1000, whole above (2855x, not 2.86e+03x).
+std::string margin_words(double factor) {
+    if (factor >= 1000.0 && factor < 1e9) return std::to_string(static_cast<long long>(std::floor(factor))) + "x";
+    return format_number(factor, 3) + "x";
+}
+
 std::string deg(double k, int decimals = 3) { return format_fixed(k, decimals) + " " + kDeg; }
 std::string at_c(double t_k) { return celsius(t_k, 1) + " " + kDeg; }
 std::string pct(double f) { return format_number(100.0 * f) + " %"; }
@@ -125,7 +131,7 @@ Table parts_table(const DesignRun& r) {
         t.add_row({p.name, format_resistance(resistor_value(c, p.name), 4) + " ohm",
                    std::string(series_name(d.chosen().series)), format_number(100.0 * d.budget_spec.tolerance.resistors),
                    sized ? 1e3 * p.max_w : NAN, 1e3 * kResistorRatingW,
-                   sized ? format_number(kResistorRatingW / std::max(p.max_w, 1e-30), 3) + "x" : std::string("-")});
+                   sized ? margin_words(kResistorRatingW / std::max(p.max_w, 1e-30)) : std::string("-")});
     }
     return t;
 }

@@ -13,15 +13,6 @@ const char* const kDeg =
     "\xC2\xB0"
     "C";
 
-// A value with an SI prefix and its unit, 4 figures: 8.191e-08 F -> "81.91 nF".
-std::string si(double v, const std::string& unit) {
-    static const char* const prefixes[] = {"p", "n", "\xC2\xB5", "m", "", "k", "M", "G"};
-    if (v == 0.0 || !std::isfinite(v)) return format_number(v, 4) + " " + unit;
-    int e = static_cast<int>(std::floor(std::log10(std::abs(v)) / 3.0));
-    e = std::max(-4, std::min(3, e));
-    return format_number(v / std::pow(1000.0, e), 4) + " " + prefixes[e + 4] + unit;
-}
-
 double parse_positive(const std::string& text, const std::string& flag, const std::string& unit) {
     const double v = parse_quantity(text, flag, unit);
     if (!(v > 0.0)) throw InputError(flag, text, "must be positive");
@@ -71,6 +62,14 @@ Largest worst_settling(const FrontEndReport& r) {
 
 }  // namespace
 
+std::string si(double v, const std::string& unit) {
+    static const char* const prefixes[] = {"p", "n", "\xC2\xB5", "m", "", "k", "M", "G"};
+    if (v == 0.0 || !std::isfinite(v)) return format_number(v, 4) + " " + unit;
+    int e = static_cast<int>(std::floor(std::log10(std::abs(v)) / 3.0));
+    e = std::max(-4, std::min(3, e));
+    return format_number(v / std::pow(1000.0, e), 4) + " " + prefixes[e + 4] + unit;
+}
+
 bool FrontEndOptions::given() const {
     return !gain.empty() || !offset.empty() || auto_range || !headroom.empty() || !amp_output.empty() ||
            !adc_bits.empty() || !adc_ref.empty() || !sample_cap.empty() || !acquisition.empty();
@@ -109,9 +108,8 @@ AmplifierChoice choose_amplifier(const FrontEndOptions& o, const Circuit& c, con
     return choose_amplifier(o, c, grid, full_scale(o, c));
 }
 
-AmplifierChoice choose_amplifier(const FrontEndOptions& o, const Circuit& c, const Grid& grid, double fs) {
-    AmplifierChoice r;
-    r.full_scale = fs;
+AmplifierRule amplifier_rule(const FrontEndOptions& o) {
+    AmplifierRule r;
     if (!o.gain.empty() && o.auto_range) {
         throw InputError("--gain", o.gain, "give either --gain (with --offset) or --auto-range, not both");
     }
@@ -119,21 +117,34 @@ AmplifierChoice choose_amplifier(const FrontEndOptions& o, const Circuit& c, con
     if (!o.headroom.empty() && !o.auto_range)
         throw InputError("--headroom", o.headroom, "applies only with --auto-range");
     if (o.auto_range) {
-        if (std::isnan(r.full_scale)) {
-            throw InputError("--adc-ref", "",
-                             "--auto-range with a current drive needs the converter's reference in volts");
-        }
         std::string h = o.headroom.empty() ? std::string("5") : o.headroom;
         if (h.back() == '%') h.pop_back();
         r.headroom = 0.01 * parse_number(h, "--headroom");
-        validate_front_end(c, Amplifier{});
-        r.amplifier = fit_range(c, grid, r.full_scale, r.headroom).amplifier;
-        r.auto_ranged = true;
+        r.auto_range = true;
     } else if (!o.gain.empty()) {
         Amplifier amp;
         amp.gain = parse_number(o.gain, "--gain");
         if (!o.offset.empty()) amp.offset = parse_quantity(o.offset, "--offset", "V");
-        r.amplifier = amp;
+        r.fixed = amp;
+    }
+    return r;
+}
+
+AmplifierChoice choose_amplifier(const FrontEndOptions& o, const Circuit& c, const Grid& grid, double fs) {
+    AmplifierChoice r;
+    r.full_scale = fs;
+    const AmplifierRule rule = amplifier_rule(o);
+    if (rule.auto_range) {
+        if (std::isnan(r.full_scale)) {
+            throw InputError("--adc-ref", "",
+                             "--auto-range with a current drive needs the converter's reference in volts");
+        }
+        r.headroom = rule.headroom;
+        validate_front_end(c, Amplifier{});
+        r.amplifier = fit_range(c, grid, r.full_scale, r.headroom).amplifier;
+        r.auto_ranged = true;
+    } else {
+        r.amplifier = rule.fixed;
     }
     return r;
 }

@@ -14,6 +14,9 @@
 
 namespace rtline::cli {
 
+// A value with an SI prefix and its unit, 4 figures: 8.191e-08 F -> "81.91 nF".
+[[nodiscard]] std::string si(double v, const std::string& unit);
+
 struct FrontEndOptions {
     std::string gain;         // V/V
     std::string offset;       // output offset, V (V/V of the excitation when ratiometric)
@@ -42,6 +45,14 @@ struct AmplifierChoice {
     double headroom = 0.0;  // fraction at each end, with --auto-range
     double full_scale = 0.0;
 };
+// How the flags choose the amplifier before any circuit is known: a fixed one (--gain, --offset), or
+// --auto-range with its headroom (a fraction at each end), or none. Checks the flags' combinations.
+struct AmplifierRule {
+    std::optional<Amplifier> fixed;
+    bool auto_range = false;
+    double headroom = 0.0;
+};
+[[nodiscard]] AmplifierRule amplifier_rule(const FrontEndOptions& o);
 [[nodiscard]] AmplifierChoice choose_amplifier(const FrontEndOptions& o, const Circuit& circuit, const Grid& grid);
 // The same against a full scale the caller knows (the budget's converter), in output_unit(circuit); NaN
 // when unknown, which --auto-range refuses.

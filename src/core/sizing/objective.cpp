@@ -51,7 +51,17 @@ Confidence parse_confidence(std::string_view text, std::string_view field) {
 }
 
 void validate(const ObjectiveSpec& spec) {
-    if (spec.kind == Objective::nonlinearity) return;
+    if (spec.kind == Objective::nonlinearity) {
+        if (spec.auto_range || spec.budget.amplifier) {
+            throw InputError(spec.auto_range ? Input::output_range : Input::gain, "",
+                             "an amplifier maps the output linearly, so the nonlinearity is the network's own; it "
+                             "counts for the resolution and total-error objectives");
+        }
+        return;
+    }
+    if (spec.auto_range && !(spec.headroom >= 0.0 && spec.headroom < 0.5)) {
+        throw InputError(Input::headroom, describe(100.0 * spec.headroom), "the headroom at each end must be 0 to under 50 %");
+    }
     if (spec.budget.adc.bits <= 0) {
         throw InputError(Input::adc_bits, "",
                          std::string("the ") + std::string(objective_name(spec.kind)) +
@@ -84,12 +94,36 @@ TotalError total_error(const Budget& b, Confidence c) {
     return e;
 }
 
+namespace {
+
+// The circuit whose output the converter reads in the budget's unit: per volt of the excitation when a
+// voltage drive is read ratiometrically.
+Circuit reading_circuit(const Circuit& c, const BudgetSpec& b) {
+    Circuit r = c;
+    if (c.excitation.drive == Drive::voltage && b.ratiometric) r.excitation = Excitation{};
+    return r;
+}
+
+}  // namespace
+
+std::optional<Amplifier> objective_amplifier(const ObjectiveSpec& spec, const Grid& grid, const Circuit& c) {
+    if (!spec.auto_range) return spec.budget.amplifier;
+    const Circuit rc = reading_circuit(c, spec.budget);
+    validate_front_end(rc, Amplifier{});
+    return fit_range(rc, grid, spec.budget.adc.full_scale, spec.headroom).amplifier;
+}
+
 double objective_value(const ObjectiveSpec& obj, const SizingSpec& spec, const Grid& grid, const Thermistor& model,
                        const Circuit& c) {
+    if (obj.kind == Objective::nonlinearity) return objective(spec, grid, c);
+    BudgetSpec b = obj.budget;
+    b.amplifier = objective_amplifier(obj, grid, c);
     switch (obj.kind) {
-        case Objective::nonlinearity: return objective(spec, grid, c);
-        case Objective::resolution: return resolution_k_per_code(grid, model, c, obj.budget.adc);
-        case Objective::total_error: return total_error(compute_budget(grid, model, c, obj.budget), obj.confidence).error_k;
+        case Objective::nonlinearity: break;
+        case Objective::resolution:
+            if (!b.amplifier) return resolution_k_per_code(grid, model, c, b.adc);
+            return resolution_k_per_code(grid, model, reading_circuit(c, b), b.adc) / std::abs(b.amplifier->gain);
+        case Objective::total_error: return total_error(compute_budget(grid, model, c, b), obj.confidence).error_k;
     }
     return INFINITY;
 }
