@@ -65,11 +65,6 @@ enum class Input : unsigned char {
     adc_gain,          // the converter's gain error
     adc_inl,           // the converter's integral nonlinearity
     adc_error,         // the converter's total error
-    amp_gain_tol,      // the amplifier's gain error
-    amp_offset,        // the amplifier's input offset voltage
-    amp_offset_drift,  // the amplifier's input offset drift
-    amp_bias,          // the amplifier's input bias current
-    amp_offset_current, // the amplifier's input offset current
     dissipation,       // the thermistor's dissipation constant
     trials,            // the Monte Carlo trial count
     threads,           // the thread count
@@ -84,10 +79,16 @@ enum class Input : unsigned char {
     r1,                // a bridge's resistor over the thermistor
     r2,                // the top of a bridge's reference arm
     r3,                // the bottom of a bridge's reference arm
+    // the amplifier's errors (the budget)
+    amp_gain_tol,        // the amplifier's gain error
+    amp_offset,          // the amplifier's input offset voltage
+    amp_offset_drift,    // the amplifier's input offset drift
+    amp_bias,            // the amplifier's input bias current
+    amp_offset_current,  // the amplifier's input offset current
 };
 
 // How many inputs there are: one more than the last enumerator.
-inline constexpr std::size_t kInputCount = static_cast<std::size_t>(Input::r3) + 1;
+inline constexpr std::size_t kInputCount = static_cast<std::size_t>(Input::amp_offset_current) + 1;
 
 // Every input, in declaration order (for tests and front ends that map them all).
 [[nodiscard]] const std::array<Input, kInputCount>& all_inputs();

@@ -166,7 +166,8 @@ BudgetSpec build_budget_spec(const BudgetFlags& o, const Circuit& circuit) {
     AmplifierErrors& amp = s.amplifier_errors;
     if (!o.amp_gain_tol.empty()) amp.gain_error = parse_percent(o.amp_gain_tol, "--amp-gain-tol");
     if (!o.amp_offset.empty()) amp.offset_v = parse_bound(o.amp_offset, "--amp-offset", "V");
-    if (!o.amp_offset_drift.empty()) amp.offset_drift_v_per_k = parse_bound(o.amp_offset_drift, "--amp-offset-drift", "V/K");
+    if (!o.amp_offset_drift.empty())
+        amp.offset_drift_v_per_k = parse_bound(o.amp_offset_drift, "--amp-offset-drift", "V/K");
     if (!o.amp_bias.empty()) amp.bias_current_a = parse_bound(o.amp_bias, "--amp-bias", "A");
     if (!o.amp_offset_current.empty()) {
         amp.offset_current_a = parse_bound(o.amp_offset_current, "--amp-offset-current", "A");

@@ -5,9 +5,9 @@
 #include <tuple>
 
 #include "budget_flags.hpp"
-#include "frontend_report.hpp"
 #include "commands.hpp"
 #include "common.hpp"
+#include "frontend_report.hpp"
 #include "markdown.hpp"
 #include "pictures.hpp"
 #include "rtline/error.hpp"
@@ -173,7 +173,8 @@ std::string objective_words(const Setup& s) {
     }
     if (obj.kind == Objective::resolution) {
         return "resolution, the largest " + std::string(kDeg) + " per code of the " +
-               std::to_string(obj.budget.adc.bits) + "-bit converter over the span (ranking " + shortlist + ")" + through;
+               std::to_string(obj.budget.adc.bits) + "-bit converter over the span (ranking " + shortlist + ")" +
+               through;
     }
     return "total error, the budget's largest |error| over the span at " +
            (obj.confidence == Confidence::worst_case ? std::string("the worst case")
@@ -219,7 +220,8 @@ Json candidate_json(const Candidate& c) {
 }
 
 Table candidate_table(const std::vector<Candidate>& cs, const std::string& unit, bool csv, bool with_topology,
-                      bool self_heating, const std::vector<double>& figures = {}, Objective objective = Objective::nonlinearity,
+                      bool self_heating, const std::vector<double>& figures = {},
+                      Objective objective = Objective::nonlinearity,
                       const std::vector<std::optional<Amplifier>>& amps = {}, const std::string& reading = "") {
     std::vector<Column> cols;
     if (with_topology) cols.push_back({"circuit", "topology"});
@@ -615,7 +617,8 @@ void run_size(const SizeCommand& o) {
         doc["examined"] = found.examined;
         bytes = dump(doc);
     } else if (csv) {
-        bytes = candidate_table(found.best, unit, true, false, heat, figures, s.objective.kind, amps, unit_of_reading).csv();
+        bytes = candidate_table(found.best, unit, true, false, heat, figures, s.objective.kind, amps, unit_of_reading)
+                    .csv();
     } else if (format == Format::markdown) {
         Markdown md = markdown_start(s, o, o.circuit.circuit, describe_circuit(s.spec.base));
         md.section("Continuous optimum");
@@ -639,7 +642,8 @@ void run_size(const SizeCommand& o) {
         md.facts(opt);
         md.section("Best " + std::string(series_name(s.spec.series)) + " values");
         md.paragraph(std::to_string(found.examined) + " combinations examined, exhaustively.");
-        md.table(candidate_table(found.best, unit, false, false, heat, figures, s.objective.kind, amps, unit_of_reading));
+        md.table(
+            candidate_table(found.best, unit, false, false, heat, figures, s.objective.kind, amps, unit_of_reading));
         if (!driven(found.best.front()))
             md.facts({{"power, self-heating", "none without a drive; give --excitation V or --current A"}});
         bytes = md.str();
@@ -675,7 +679,9 @@ void run_size(const SizeCommand& o) {
                  "\n";
         }
         t += "\nbest " + std::string(series_name(s.spec.series)) + " values (" + std::to_string(found.examined) +
-             " combinations examined, exhaustively)\n" + candidate_table(found.best, unit, false, false, heat, figures, s.objective.kind, amps, unit_of_reading).text();
+             " combinations examined, exhaustively)\n" +
+             candidate_table(found.best, unit, false, false, heat, figures, s.objective.kind, amps, unit_of_reading)
+                 .text();
         if (!driven(found.best.front()))
             t += "power, self-heating: none without a drive; give --excitation V or --current A\n";
         bytes = t;

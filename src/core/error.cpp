@@ -60,11 +60,6 @@ constexpr std::array<InputName, kInputCount> kInputs = {{
     {Input::adc_gain, "adc_gain", "the converter gain error"},
     {Input::adc_inl, "adc_inl", "the converter INL"},
     {Input::adc_error, "adc_error", "the converter error"},
-    {Input::amp_gain_tol, "amp_gain_tol", "the amplifier's gain error"},
-    {Input::amp_offset, "amp_offset", "the amplifier's input offset"},
-    {Input::amp_offset_drift, "amp_offset_drift", "the amplifier's offset drift"},
-    {Input::amp_bias, "amp_bias", "the amplifier's bias current"},
-    {Input::amp_offset_current, "amp_offset_current", "the amplifier's offset current"},
     {Input::dissipation, "dissipation", "the dissipation constant"},
     {Input::trials, "trials", "the trial count"},
     {Input::threads, "threads", "the thread count"},
@@ -77,6 +72,11 @@ constexpr std::array<InputName, kInputCount> kInputs = {{
     {Input::r1, "r1", "the bridge resistor r1"},
     {Input::r2, "r2", "the bridge resistor r2"},
     {Input::r3, "r3", "the bridge resistor r3"},
+    {Input::amp_gain_tol, "amp_gain_tol", "the amplifier's gain error"},
+    {Input::amp_offset, "amp_offset", "the amplifier's input offset"},
+    {Input::amp_offset_drift, "amp_offset_drift", "the amplifier's offset drift"},
+    {Input::amp_bias, "amp_bias", "the amplifier's bias current"},
+    {Input::amp_offset_current, "amp_offset_current", "the amplifier's offset current"},
 }};
 
 constexpr bool in_order() {

@@ -279,7 +279,8 @@ struct Extremes {
 // improves: this finds the interior extremes of an error that is not monotonic in a parameter.
 class BoxSearch {
 public:
-    BoxSearch(const budget_detail::Channel& ch, std::size_t i, std::vector<Dim> dims, Adc mode, bool solve, Slots base = Slots{})
+    BoxSearch(const budget_detail::Channel& ch, std::size_t i, std::vector<Dim> dims, Adc mode, bool solve,
+              Slots base = Slots{})
         : ch_(ch), i_(i), dims_(std::move(dims)), mode_(mode), solve_(solve), base_(base) {
         // A range of one value (a cable at one temperature other than copper's 20 °C) is fixed there.
         for (const Dim& d : dims_) {
@@ -390,7 +391,8 @@ double board_excursion_k(const BoardTemperature& b, double t_k, double from_k = 
 
 // Worst case, nominal error, the split by cause and the resolution at point i. `plain` is the channel
 // with the part following the model (the same as `ch` without a model error).
-BudgetPoint point_bounds(const budget_detail::Channel& ch, const budget_detail::Channel& plain, const BudgetSpec& spec, std::size_t i) {
+BudgetPoint point_bounds(const budget_detail::Channel& ch, const budget_detail::Channel& plain, const BudgetSpec& spec,
+                         std::size_t i) {
     const Tolerances& tol = spec.tolerance;
     const bool adc = ch.lsb() > 0.0;
     const double lsb = ch.lsb();
@@ -463,7 +465,8 @@ BudgetPoint point_bounds(const budget_detail::Channel& ch, const budget_detail::
     if (ch.amplified()) {
         if (amp.gain_error > 0.0) c[Cause::amp_gain] = alone({sym(kAmpGain, amp.gain_error)}, Adc::none);
         if (amp.offset_v > 0.0) c[Cause::amp_offset] = alone({sym(kAmpOffset, amp.offset_v)}, Adc::none);
-        if (amp.offset_drift_v_per_k > 0.0) c[Cause::amp_offset_drift] = alone({sym(kAmpOffset, amp_drift_v)}, Adc::none);
+        if (amp.offset_drift_v_per_k > 0.0)
+            c[Cause::amp_offset_drift] = alone({sym(kAmpOffset, amp_drift_v)}, Adc::none);
         if (amp.bias_current_a > 0.0) c[Cause::amp_bias] = alone({sym(kAmpBias, amp.bias_current_a)}, Adc::none);
         if (amp.offset_current_a > 0.0) {
             c[Cause::amp_offset_current] = alone({sym(kAmpOffsetCurrent, amp.offset_current_a)}, Adc::none);

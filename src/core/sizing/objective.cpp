@@ -60,7 +60,8 @@ void validate(const ObjectiveSpec& spec) {
         return;
     }
     if (spec.auto_range && !(spec.headroom >= 0.0 && spec.headroom < 0.5)) {
-        throw InputError(Input::headroom, describe(100.0 * spec.headroom), "the headroom at each end must be 0 to under 50 %");
+        throw InputError(Input::headroom, describe(100.0 * spec.headroom),
+                         "the headroom at each end must be 0 to under 50 %");
     }
     if (spec.budget.adc.bits <= 0) {
         throw InputError(Input::adc_bits, "",
