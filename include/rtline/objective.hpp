@@ -39,6 +39,12 @@ struct ObjectiveSpec {
     // the span onto the converter's range less `headroom` (a fraction) at each end (fit_range).
     bool auto_range = false;
     double headroom = 0.05;
+    // Constraints at the converter's input through that amplifier, in codes (0: none): the span's
+    // codes between the grid's ends and the smallest |d code/dT| over it. They judge the candidates the
+    // objective ranks (the shortlist, or every value), after the search; the network-unit constraints
+    // of SizingSpec judge the search itself.
+    double min_span_codes = 0.0;
+    double min_sensitivity_codes_per_k = 0.0;
 };
 
 // Checks the spec (a converter for resolution and total-error, Monte Carlo trials for a percentile);
@@ -52,6 +58,19 @@ void validate(const ObjectiveSpec& spec);
 // ratiometric).
 [[nodiscard]] std::optional<Amplifier> objective_amplifier(const ObjectiveSpec& spec, const Grid& grid,
                                                            const Circuit& c);
+
+// What candidate `c` gives at the converter's input through the objective's amplifier (none: the
+// network directly), in codes of obj.budget.adc: |reading(T_hi) − reading(T_lo)|·|gain|/LSB over the
+// grid, and the smallest |d reading/dT|·|gain|/LSB over it (codes per K); and whether the input stays
+// within the converter's range (an amplifier of fixed gain can drive it past a rail). Requires
+// adc.bits > 0.
+struct ConverterCodes {
+    double span_codes = 0.0;
+    double min_sensitivity_codes_per_k = 0.0;
+    bool in_range = true;  // the converter input stays within 0 to full scale over the grid
+};
+[[nodiscard]] ConverterCodes converter_codes(const ObjectiveSpec& obj, const Grid& grid, const Thermistor& model,
+                                             const Circuit& c);
 
 // The largest temperature step one converter code stands for over the grid, K per code: one LSB over
 // |d output/dT| at each point (the circuit's output in the converter's unit). Requires adc.bits > 0.
@@ -82,12 +101,15 @@ struct RankedCandidate {
 struct ObjectiveSearch {
     std::vector<RankedCandidate> best;  // at most spec.top, best first
     std::size_t ranked = 0;             // combinations the objective was evaluated for
+    std::size_t removed_codes = 0;      // of those, removed by the converter-input constraints
     StandardSearch nonlinearity;        // the exhaustive search the shortlist came from (its counts)
 };
 
 // The standard-value search under `obj`: nonlinearity is search_standard itself; the others evaluate
-// their objective for the shortlist (constraints apply to it as to the search) and rank by it, equal
-// figures keeping the nonlinearity order. Validates obj first.
+// their objective for the shortlist (constraints apply to it as to the search, and the converter-input
+// constraints in codes after it; through an amplifier, a candidate it drives past a rail of the
+// converter is left out) and rank by it, equal figures keeping the nonlinearity order.
+// Validates obj first; throws InfeasibleError when the codes constraints leave no candidate.
 [[nodiscard]] ObjectiveSearch search_objective(const ObjectiveSpec& obj, const SizingSpec& spec, const Grid& grid,
                                                const Thermistor& model);
 

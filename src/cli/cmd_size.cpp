@@ -135,6 +135,13 @@ Setup build_setup(const SizeCommand& o) {
                          "--objective resolution or total-error");
     }
     obj.budget.amplifier = amp.fixed;  // kept by objective_budget
+    if (amp.auto_range || amp.fixed) {
+        // Through an amplifier the span and sensitivity are the converter's, in codes and codes per K.
+        obj.min_span_codes = k.min_span;
+        obj.min_sensitivity_codes_per_k = k.min_sensitivity;
+        k.min_span = 0.0;
+        k.min_sensitivity = 0.0;
+    }
     return {std::move(model), span, std::move(grid), spec, obj};
 }
 
@@ -170,6 +177,10 @@ std::string objective_words(const Setup& s) {
     } else if (obj.budget.amplifier) {
         through = ", through an amplifier of gain " + format_number(obj.budget.amplifier->gain, 6) + " V/V, offset " +
                   format_number(obj.budget.amplifier->offset, 6);
+    }
+    if (obj.min_span_codes > 0.0) through += "; at least " + format_number(obj.min_span_codes) + " codes of span";
+    if (obj.min_sensitivity_codes_per_k > 0.0) {
+        through += "; at least " + format_number(obj.min_sensitivity_codes_per_k) + " codes/K everywhere";
     }
     if (obj.kind == Objective::resolution) {
         return "resolution, the largest " + std::string(kDeg) + " per code of the " +
@@ -328,6 +339,10 @@ Json header_json(const Setup& s, const std::string& command) {
     if (std::isfinite(k.max_self_heating_k)) c["max_self_heating_k"] = k.max_self_heating_k;
     if (k.min_span > 0.0) c["min_output_span"] = k.min_span;
     if (k.min_sensitivity > 0.0) c["min_sensitivity_per_k"] = k.min_sensitivity;
+    if (s.objective.min_span_codes > 0.0) c["min_span_codes"] = s.objective.min_span_codes;
+    if (s.objective.min_sensitivity_codes_per_k > 0.0) {
+        c["min_sensitivity_codes_per_k"] = s.objective.min_sensitivity_codes_per_k;
+    }
     doc["constraints"] = c;
     if (s.spec.dissipation_w_per_k > 0.0) doc["dissipation_mw_per_k"] = 1e3 * s.spec.dissipation_w_per_k;
     return doc;
@@ -725,10 +740,10 @@ void setup_size(CLI::App& app) {
     sub->add_option("--max-self-heating", opt->max_self_heating, "Largest self-heating, K; needs --dissipation")
         ->group("Constraints");
     sub->add_option("--dissipation", opt->dissipation, "Thermistor dissipation constant, mW/K")->group("Constraints");
-    sub->add_option("--min-span", opt->min_span, "Smallest output span, output units (V/V ratiometric)")
+    sub->add_option("--min-span", opt->min_span, "Smallest output span, output units (V/V ratiometric); through an amplifier, codes at the converter")
         ->group("Constraints");
     sub->add_option("--min-sensitivity", opt->min_sensitivity,
-                    "Smallest |d output/dT| over the span, output units per K")
+                    "Smallest |d output/dT| over the span, output units per K; through an amplifier, codes per K")
         ->group("Constraints");
     sub->add_option("--objective", opt->objective,
                     "What the standard values are ranked by: nonlinearity (default), resolution (largest degC per "

@@ -114,6 +114,22 @@ std::optional<Amplifier> objective_amplifier(const ObjectiveSpec& spec, const Gr
     return fit_range(rc, grid, spec.budget.adc.full_scale, spec.headroom).amplifier;
 }
 
+ConverterCodes converter_codes(const ObjectiveSpec& obj, const Grid& grid, const Thermistor& model, const Circuit& c) {
+    const Circuit rc = reading_circuit(c, obj.budget);
+    const std::optional<Amplifier> amp = objective_amplifier(obj, grid, c);
+    const double per_code = (amp ? std::abs(amp->gain) : 1.0) / obj.budget.adc.lsb();
+    ConverterCodes codes;
+    codes.span_codes = std::abs(output(rc, grid.r_ohm.back()) - output(rc, grid.r_ohm.front())) * per_code;
+    double smallest = INFINITY;
+    for (std::size_t i = 0; i < grid.size(); ++i) {
+        smallest = std::min(smallest, sensitivity(rc, model, grid.t_k[i], grid.r_ohm[i]));
+        const double in = converter_input(rc, amp, grid.r_ohm[i]);
+        if (!(in >= 0.0 && in <= obj.budget.adc.full_scale)) codes.in_range = false;
+    }
+    codes.min_sensitivity_codes_per_k = smallest * per_code;
+    return codes;
+}
+
 double objective_value(const ObjectiveSpec& obj, const SizingSpec& spec, const Grid& grid, const Thermistor& model,
                        const Circuit& c) {
     if (obj.kind == Objective::nonlinearity) return objective(spec, grid, c);
@@ -146,15 +162,52 @@ ObjectiveSearch search_objective(const ObjectiveSpec& obj, const SizingSpec& spe
     result.nonlinearity = search_standard(wide, grid, model);
     std::vector<RankedCandidate> all;
     std::optional<InputError> refused;  // a budget that cannot be taken for a candidate leaves it out
+    const bool by_codes = obj.min_span_codes > 0.0 || obj.min_sensitivity_codes_per_k > 0.0 || obj.budget.amplifier;
+    ConverterCodes most;  // the largest of each figure among the candidates in range, for the refusal
+    std::size_t clipped = 0;
     for (const Candidate& c : result.nonlinearity.best) {
         try {
+            if (by_codes) {
+                const ConverterCodes codes = converter_codes(obj, grid, model, c.circuit);
+                if (!codes.in_range) {
+                    ++clipped;
+                    ++result.removed_codes;
+                    continue;
+                }
+                most.span_codes = std::max(most.span_codes, codes.span_codes);
+                most.min_sensitivity_codes_per_k =
+                    std::max(most.min_sensitivity_codes_per_k, codes.min_sensitivity_codes_per_k);
+                if (codes.span_codes < obj.min_span_codes ||
+                    codes.min_sensitivity_codes_per_k < obj.min_sensitivity_codes_per_k) {
+                    ++result.removed_codes;
+                    continue;
+                }
+            }
             all.push_back({c, objective_value(obj, spec, grid, model, c.circuit)});
         } catch (const InputError& e) {
             if (!refused) refused = e;
         }
     }
     if (all.empty() && refused) throw *refused;
-    result.ranked = all.size();
+    if (all.empty() && result.removed_codes > 0) {
+        std::string why = "none of the " + std::to_string(result.removed_codes) +
+                          " combinations ranked meets the converter-input constraints:";
+        if (clipped > 0) {
+            why += " " + std::to_string(clipped) + " drive the converter past a rail through the amplifier" +
+                   (clipped < result.removed_codes ? ";" : "");
+        }
+        if (obj.min_span_codes > 0.0 && clipped < result.removed_codes) {
+            why += " the largest span is " + describe(std::floor(most.span_codes)) + " codes (" +
+                   describe(obj.min_span_codes) + " asked)";
+        }
+        if (obj.min_sensitivity_codes_per_k > 0.0 && clipped < result.removed_codes) {
+            why += std::string(obj.min_span_codes > 0.0 ? ";" : "") + " the best smallest sensitivity is " +
+                   describe(std::round(most.min_sensitivity_codes_per_k * 100.0) / 100.0) + " codes/K (" +
+                   describe(obj.min_sensitivity_codes_per_k) + " asked)";
+        }
+        throw InfeasibleError(why);
+    }
+    result.ranked = all.size() + result.removed_codes;
     // A stable sort keeps the nonlinearity order among equal figures.
     std::stable_sort(all.begin(), all.end(),
                      [](const RankedCandidate& a, const RankedCandidate& b) { return a.objective < b.objective; });
