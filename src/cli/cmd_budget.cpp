@@ -216,7 +216,7 @@ std::string largest_cause(const BudgetPoint& p) {
         if (std::isfinite(p.components.k[c]) && (best == kCauses || p.components.k[c] > p.components.k[best])) best = c;
     }
     if (best == kCauses) return "none";
-    return std::string(cause_label(static_cast<Cause>(best))) + " (" + format_fixed(p.components.k[best], 4) + " " +
+    return std::string(cause_label(static_cast<Cause>(best))) + " (" + format_decimals(p.components.k[best], 4) + " " +
            kDegC + ")";
 }
 
@@ -253,7 +253,7 @@ Facts budget_header(const Budget& b, const BudgetSpec& s, const Thermistor& mode
                  (unit == "V" ? "" : " (ratiometric: it is the excitation too, so it cancels in the reading)")});
     }
     if (s.adc.bits > 0) {
-        f.push_back({"converter", std::to_string(s.adc.bits) + " bits, 1 LSB = " + format_number(b.lsb, 4) + " " +
+        f.push_back({"converter", std::to_string(s.adc.bits) + " bits, 1 LSB = " + format_significant(b.lsb, 4) + " " +
                                       unit + "; " + describe_adc_transfer(s.adc.transfer, s.adc.bits)});
         std::string q =
             "quantization \xC2\xB1"
@@ -277,7 +277,7 @@ Facts budget_header(const Budget& b, const BudgetSpec& s, const Thermistor& mode
 Table error_table(const Budget& b, const BudgetSpec& s) {
     const bool mc = s.trials > 0;
     const std::string deg = std::string(" (") + kDegC + ")";
-    std::vector<Column> cols = {{"T" + deg, "", 2}, {"worst low" + deg, "", 4}, {"worst high" + deg, "", 4}};
+    std::vector<Column> cols = {{"T" + deg, "t_c", 2}, {"worst low" + deg, "", 4}, {"worst high" + deg, "", 4}};
     if (mc) {
         cols.insert(cols.end(), {{"MC mean" + deg, "", 4},
                                  {"MC std" + deg, "", 4},
@@ -304,7 +304,7 @@ Table error_table(const Budget& b, const BudgetSpec& s) {
 Table split_table(const Budget& b, const BudgetSpec& s) {
     const std::string deg = std::string(" (") + kDegC + ")";
     const BudgetComponents& k0 = b.points.front().components;
-    std::vector<Column> split_cols = {{"T" + deg, "", 2}};
+    std::vector<Column> split_cols = {{"T" + deg, "t_c", 2}};
     std::vector<std::size_t> shown;
     for (std::size_t c = 0; c < kCauses; ++c) {
         if (!std::isnan(k0.k[c])) {
@@ -327,12 +327,12 @@ const char* const kSplitTitle = "each cause alone (largest |change of error| ove
 
 Facts budget_summary(const Budget& b, const BudgetSpec& s) {
     const BudgetSummary& sm = b.summary;
-    Facts f{{"worst case over the span", format_fixed(sm.worst_case_k, 4) + " " + kDegC + " at " + celsius(sm.at_t_k) +
-                                             " " + kDegC + " (signed: " + format_fixed(sm.worst_low_k, 4) + " to +" +
-                                             format_fixed(sm.worst_high_k, 4) + " " + kDegC + ")"}};
+    Facts f{{"worst case over the span", format_decimals(sm.worst_case_k, 4) + " " + kDegC + " at " + celsius(sm.at_t_k) +
+                                             " " + kDegC + " (signed: " + format_decimals(sm.worst_low_k, 4) + " to +" +
+                                             format_decimals(sm.worst_high_k, 4) + " " + kDegC + ")"}};
     if (s.trials > 0) {
         f.push_back({"99.7 % bound over the span",
-                     format_fixed(sm.p99_7_k, 4) + " " + kDegC + " at " + celsius(sm.p99_7_at_t_k) + " " + kDegC});
+                     format_decimals(sm.p99_7_k, 4) + " " + kDegC + " at " + celsius(sm.p99_7_at_t_k) + " " + kDegC});
     }
     for (const BudgetPoint& p : b.points) {
         if (p.t_k == sm.at_t_k) f.push_back({"largest cause there", largest_cause(p)});

@@ -114,7 +114,7 @@ Table parts_table(const DesignRun& r) {
              {"margin", "margin"}});
     const double tp = d.chosen().candidate.max_power_w;
     std::string heat = "-";
-    if (driven && part.dissipation_w_per_k > 0.0) heat = "self-heating " + format_number(tp / part.dissipation_w_per_k, 3) + " K";
+    if (driven && part.dissipation_w_per_k > 0.0) heat = "self-heating " + format_significant(tp / part.dissipation_w_per_k, 3) + " K";
     t.add_row({"RT1 " + part.label, describe_model(part.model),
                std::string("-"),
                "R25 " + format_number(100.0 * part.tol_r25) + ", B " + format_number(100.0 * part.tol_beta),
@@ -124,7 +124,7 @@ Table parts_table(const DesignRun& r) {
         t.add_row({p.name, format_resistance(resistor_value(c, p.name), 4) + " ohm",
                    std::string(series_name(d.chosen().series)), format_number(100.0 * d.budget_spec.tolerance.resistors),
                    sized ? 1e3 * p.max_w : NAN, 1e3 * kResistorRatingW,
-                   sized ? format_number(kResistorRatingW / std::max(p.max_w, 1e-30), 3) + "x" : std::string("-")});
+                   sized ? format_significant(kResistorRatingW / std::max(p.max_w, 1e-30), 3) + "x" : std::string("-")});
     }
     return t;
 }

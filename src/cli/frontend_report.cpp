@@ -193,13 +193,13 @@ FrontEndReport front_end_report(const FrontEndOptions& o, const Circuit& c, cons
     const std::string unit = output_unit(c);
     if (outside) {
         r.warnings.push_back("warning: the converter input leaves the converter's range 0 to " +
-                             format_number(r.full_scale, 5) + " " + unit + " (first at " + celsius(outside_t) + " " +
+                             format_significant(r.full_scale, 5) + " " + unit + " (first at " + celsius(outside_t) + " " +
                              kDeg + ")");
     }
     if (r.sampling) {
         const auto [worst, at] = worst_settling(r);
         if (worst > kSettlingLimitLsb) {
-            r.warnings.push_back("warning: the sample does not settle: " + format_number(worst, 3) + " LSB at " +
+            r.warnings.push_back("warning: the sample does not settle: " + format_significant(worst, 3) + " LSB at " +
                                  celsius(at) + " " + kDeg + " (above 1/2 LSB); lengthen the acquisition to " +
                                  si(settling_time_s(*r.sampling, r.settling_source_ohm), "s") +
                                  " or add the filter capacitor");
@@ -247,8 +247,8 @@ std::string front_end_text(const FrontEndReport& r, const Circuit& c) {
     t += "\n" + table.text() + "\n";
     const FrontEndPoint& lo = r.points.front();
     const FrontEndPoint& hi = r.points.back();
-    t += "converter input         " + format_number(lo.converter_input, 5) + " " + unit + " at " + celsius(lo.t_k) +
-         " " + kDeg + ", " + format_number(hi.converter_input, 5) + " " + unit + " at " + celsius(hi.t_k) + " " + kDeg +
+    t += "converter input         " + format_significant(lo.converter_input, 5) + " " + unit + " at " + celsius(lo.t_k) +
+         " " + kDeg + ", " + format_significant(hi.converter_input, 5) + " " + unit + " at " + celsius(hi.t_k) + " " + kDeg +
          "\n";
     const Largest z = largest(r, &SourceImpedance::out_ohm);
     t += "largest source          " + format_resistance(z.value, 4) + " ohm at " + celsius(z.t_k) + " " + kDeg +
@@ -258,7 +258,7 @@ std::string front_end_text(const FrontEndReport& r, const Circuit& c) {
         const Sampling& s = *r.sampling;
         const double rc = r.settling_source_ohm;
         if (rc > 0.0) {
-            t += "settling error          " + format_number(worst, 3) + " LSB at " + celsius(at) + " " + kDeg +
+            t += "settling error          " + format_significant(worst, 3) + " LSB at " + celsius(at) + " " + kDeg +
                  " through " + format_resistance(rc, 4) + " ohm (" + (worst > kSettlingLimitLsb ? "above" : "within") +
                  " 1/2 LSB; 1/2 LSB needs " + si(settling_time_s(s, rc), "s") + ")\n";
         } else {

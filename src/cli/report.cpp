@@ -40,6 +40,9 @@ std::string text_cell(const Column& c, const Cell& cell) {
     const double v = std::get<double>(cell);
     if (!std::isfinite(v)) return "-";
     if (resistance_column(c)) return v > 0.0 ? format_resistance(v, c.digits) : format_significant(v, c.digits);
+    // A temperature on the scale (its CSV header ends in _c) is a position, not a magnitude: fixed decimals.
+    const std::string_view h = c.csv_header;
+    if (c.decimals >= 0 && h.size() > 2 && h.substr(h.size() - 2) == "_c") return format_fixed(v, c.decimals);
     return c.decimals >= 0 ? format_decimals(v, c.decimals) : format_significant(v, c.digits);
 }
 
@@ -82,8 +85,11 @@ std::string format_significant(double v, int digits) {
 
 std::string format_decimals(double v, int decimals) {
     if (!std::isfinite(v)) return "-";
-    // A value the decimals would round to zero keeps as many significant figures instead.
-    if (v != 0.0 && std::abs(v) < 0.5 * std::pow(10.0, -decimals)) return format_significant(v, std::max(decimals, 2));
+    // A value the decimals would show with fewer than two figures (0.001 for 0.000866, or a bare 0.000)
+    // keeps as many significant figures as there are decimals instead.
+    // Whole numbers (no decimals) only give way when they would round to zero.
+    const double below = decimals > 0 ? std::pow(10.0, 1 - decimals) : 0.5;
+    if (v != 0.0 && std::abs(v) < below) return format_significant(v, std::max(decimals, 2));
     return format_fixed(v, decimals);
 }
 

@@ -56,7 +56,9 @@ private:
 // The numbers of text tables and summaries. `format_significant`: `digits` significant figures,
 // trailing zeros kept so a column's figures count alike ("0.06230"), in exponent form below 1e-4 or
 // from 10^digits up ("3.613e-06"); zero is "0". `format_decimals`: `decimals` fixed decimals, except
-// that a value they would round to zero keeps significant figures instead ("0.00041", never "0.000").
+// that a value they would show with fewer than two figures keeps `decimals` significant figures
+// instead ("0.000412", never "0.000" or "0.001" for it); exactly zero is "0.000". A table column of
+// temperatures on the scale (CSV header ending in _c) keeps fixed decimals: 0.02 °C is a position.
 // Both print a non-finite value as "-".
 [[nodiscard]] std::string format_significant(double v, int digits);
 [[nodiscard]] std::string format_decimals(double v, int decimals);
