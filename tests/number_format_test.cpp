@@ -92,6 +92,22 @@ TEST_CASE("inputs echo without floating-point dust: 10u is 1e-05 and 10M is 1e7 
     CHECK(nlohmann::json::parse(c.out)["circuit"]["drive"]["current_a"].dump() == "1e-05");
 }
 
+TEST_CASE("inputs echoed after a unit conversion carry no dust: 50 ppm/K is 50, 0.1 % is 0.1") {
+    // 1e6 * (50 * 1e-6) is 49.99999999999999 and 1e6 * (25 * 1e-6) is 24.999999999999996 (python3): each
+    // echo must be the value typed.
+    const auto r = rtline::test::run_rtline({"budget", "--r25", "10k", "--beta", "3950", "--span", "0:40", "--step",
+                                             "10", "--circuit", "divider-low", "--rs", "10k", "--trials", "0",
+                                             "--excitation", "3.3", "--adc-bits", "12", "--adc-ref", "3.0",
+                                             "--ref-tc", "50", "--resistor-tc", "25", "--resistor-tol", "0.1",
+                                             "--dissipation", "1.1", "--format", "json"});
+    REQUIRE(r.code == 0);
+    const auto a = nlohmann::json::parse(r.out)["assumptions"];
+    CHECK(a["coefficients_ppm_per_k"]["reference"].dump() == "50.0");
+    CHECK(a["coefficients_ppm_per_k"]["resistors"].dump() == "25.0");
+    CHECK(a["tolerances_pct"]["resistors"].dump() == "0.1");
+    CHECK(a["dissipation_mw_per_k"].dump() == "1.1");
+}
+
 TEST_CASE("a summary prints its figures in the same format: a small error keeps its figures") {
     // Over one kelvin the endpoint line misses by under a millikelvin: the summary must not round it
     // to 0.001 or 0.000. The JSON has the figure; the text stands for it to three significant figures.

@@ -104,14 +104,14 @@ Json budget_json(const Budget& b, const BudgetSpec& s, const Thermistor& model, 
     a["truncated_at_tolerance"] = s.distribution != Distribution::normal;
     a["trials"] = s.trials;
     a["seed"] = s.seed;
-    a["tolerances_pct"] = {{"r25", 100.0 * t.r25},
-                           {"beta", 100.0 * t.beta},
-                           {"resistors", 100.0 * t.resistors},
-                           {"excitation", volts ? Json(100.0 * t.excitation) : Json(nullptr)},
-                           {"thermistor_drift", 100.0 * t.thermistor_drift},
-                           {"lead", 100.0 * t.lead},
-                           {"reference", 100.0 * t.reference}};
-    a["coefficients_ppm_per_k"] = {{"resistors", 1e6 * t.resistor_tc_per_k}, {"reference", 1e6 * t.reference_tc_per_k}};
+    a["tolerances_pct"] = {{"r25", echoed(100.0 * t.r25)},
+                           {"beta", echoed(100.0 * t.beta)},
+                           {"resistors", echoed(100.0 * t.resistors)},
+                           {"excitation", volts ? Json(echoed(100.0 * t.excitation)) : Json(nullptr)},
+                           {"thermistor_drift", echoed(100.0 * t.thermistor_drift)},
+                           {"lead", echoed(100.0 * t.lead)},
+                           {"reference", echoed(100.0 * t.reference)}};
+    a["coefficients_ppm_per_k"] = {{"resistors", echoed(1e6 * t.resistor_tc_per_k)}, {"reference", echoed(1e6 * t.reference_tc_per_k)}};
     a["coefficients_from_c"] = kelvin_to_celsius(kCoefficientReferenceK);
     a["board_temperature"] =
         s.board.sensed ? Json("sensed")
@@ -136,14 +136,14 @@ Json budget_json(const Budget& b, const BudgetSpec& s, const Thermistor& model, 
                     {"transfer", std::string(adc_transfer_name(s.adc.transfer))},
                     {"error_lsb", s.adc.error_lsb},
                     {"offset_lsb", s.adc.offset_lsb},
-                    {"gain_pct", 100.0 * s.adc.gain},
+                    {"gain_pct", echoed(100.0 * s.adc.gain)},
                     {"inl_lsb", s.adc.inl_lsb},
                     {"full_scale", s.adc.full_scale},
                     {"lsb_size", b.lsb}};
     } else {
         a["adc"] = nullptr;
     }
-    a["dissipation_mw_per_k"] = s.dissipation_w_per_k > 0.0 ? Json(1e3 * s.dissipation_w_per_k) : Json(nullptr);
+    a["dissipation_mw_per_k"] = s.dissipation_w_per_k > 0.0 ? Json(echoed(1e3 * s.dissipation_w_per_k)) : Json(nullptr);
     doc["assumptions"] = a;
     if (s.reading == Reading::line) {
         doc["line"] = {{"slope_per_k", b.line.slope}, {"intercept", b.line.at(kZeroCelsiusK)}};

@@ -128,7 +128,7 @@ void run_check(const CheckCommand& o) {
         doc["circuit"] = circuit_json(circuit);
         doc["line"] = std::string(line_name(line));
         doc["line_coefficients"] = {{"slope_per_k", a.line.slope}, {"intercept", a.line.at(kZeroCelsiusK)}};
-        if (dissipation_w_per_k > 0.0) doc["dissipation_mw_per_k"] = 1e3 * dissipation_w_per_k;
+        if (dissipation_w_per_k > 0.0) doc["dissipation_mw_per_k"] = echoed(1e3 * dissipation_w_per_k);
         doc["summary"] = summary_json(a.summary, driven);
         if (circuit.lead_ohm > 0.0) {
             const auto [lo, hi] = lead_shift_range(circuit, thermistor, grid);

@@ -291,7 +291,7 @@ Json header_json(const Setup& s, const std::string& command) {
     if (k.min_span > 0.0) c["min_output_span"] = k.min_span;
     if (k.min_sensitivity > 0.0) c["min_sensitivity_per_k"] = k.min_sensitivity;
     doc["constraints"] = c;
-    if (s.spec.dissipation_w_per_k > 0.0) doc["dissipation_mw_per_k"] = 1e3 * s.spec.dissipation_w_per_k;
+    if (s.spec.dissipation_w_per_k > 0.0) doc["dissipation_mw_per_k"] = echoed(1e3 * s.spec.dissipation_w_per_k);
     return doc;
 }
 

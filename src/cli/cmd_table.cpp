@@ -173,7 +173,7 @@ std::string json_report(const Result& r) {
         front["amplifier"] = {{"gain_v_per_v", r.channel.amplifier->gain},
                               {"offset", r.channel.amplifier->offset},
                               {"auto_range", r.amp.auto_ranged}};
-        if (r.amp.auto_ranged) front["amplifier"]["headroom_pct"] = 100.0 * r.amp.headroom;
+        if (r.amp.auto_ranged) front["amplifier"]["headroom_pct"] = echoed(100.0 * r.amp.headroom);
     }
     doc["front_end"] = front;
     doc["reading"] = {{"convention", convention(r.map, r.channel, r.amp)},

@@ -199,7 +199,7 @@ Json model_json(const Thermistor& t) {
     } else {
         const auto& tab = std::get<TableModel>(m);
         Json pts = Json::array();
-        for (const RtPoint& p : tab.points()) pts.push_back({{"t_c", kelvin_to_celsius(p.t_k)}, {"r_ohm", p.r_ohm}});
+        for (const RtPoint& p : tab.points()) pts.push_back({{"t_c", echoed(kelvin_to_celsius(p.t_k))}, {"r_ohm", echoed(p.r_ohm)}});
         j["points"] = pts;
     }
     return j;

@@ -64,9 +64,9 @@ Json readback_flags(const DesignRun& r) {
     j["adc_bits"] = b.adc.bits;
     j["adc_transfer"] = std::string(adc_transfer_name(b.adc.transfer));
     if (!f.adc_ref.empty()) j["adc_ref"] = f.adc_ref;
-    j["r25_tol"] = 100.0 * part.tol_r25;
-    j["beta_tol"] = 100.0 * part.tol_beta;
-    j["resistor_tol"] = 100.0 * b.tolerance.resistors;
+    j["r25_tol"] = echoed(100.0 * part.tol_r25);
+    j["beta_tol"] = echoed(100.0 * part.tol_beta);
+    j["resistor_tol"] = echoed(100.0 * b.tolerance.resistors);
     auto copy = [&](const char* key, const std::string& text) {
         if (!text.empty()) j[key] = text;
     };
@@ -81,7 +81,7 @@ Json readback_flags(const DesignRun& r) {
     copy("drift", f.drift);
     if (f.board_temp != "sensed") j["board_temp"] = f.board_temp;
     j["distribution"] = f.distribution;
-    if (part.dissipation_w_per_k > 0.0) j["dissipation"] = 1e3 * part.dissipation_w_per_k;
+    if (part.dissipation_w_per_k > 0.0) j["dissipation"] = echoed(1e3 * part.dissipation_w_per_k);
     j["trials"] = b.trials;
     j["seed"] = b.seed;
     // size: the chosen series and the judgement design made
@@ -318,9 +318,9 @@ Json design_json(const DesignRun& r) {
                            {"adc_bits", r.spec.budget.adc.bits},
                            {"parts", r.spec.parts.size()}};
     doc["part"] = {{"label", part.label},
-                   {"r25_tol_pct", 100.0 * part.tol_r25},
-                   {"b_tol_pct", 100.0 * part.tol_beta},
-                   {"dissipation_mw_per_k", part.dissipation_w_per_k > 0.0 ? Json(1e3 * part.dissipation_w_per_k) : Json(nullptr)}};
+                   {"r25_tol_pct", echoed(100.0 * part.tol_r25)},
+                   {"b_tol_pct", echoed(100.0 * part.tol_beta)},
+                   {"dissipation_mw_per_k", part.dissipation_w_per_k > 0.0 ? Json(echoed(1e3 * part.dissipation_w_per_k)) : Json(nullptr)}};
     doc["series"] = std::string(series_name(best.series));
     Json powers = Json::object();
     for (const ResistorPower& p : resistor_powers(c, d.grid)) powers[p.name] = number(p.max_w);

@@ -286,7 +286,7 @@ Json front_end_json(const FrontEndReport& r, const Circuit& c) {
                           {"offset", r.amplifier->offset},
                           {"output_ohm", r.amplifier->output_ohm},
                           {"auto_range", r.auto_ranged}};
-        if (r.auto_ranged) j["amplifier"]["headroom_pct"] = 100.0 * r.headroom;
+        if (r.auto_ranged) j["amplifier"]["headroom_pct"] = echoed(100.0 * r.headroom);
     } else {
         j["amplifier"] = nullptr;
     }

@@ -219,6 +219,13 @@ Json document(const std::string& command) {
     return j;
 }
 
+double echoed(double v) {
+    if (!std::isfinite(v) || v == 0.0) return v;
+    char buffer[64];
+    std::snprintf(buffer, sizeof buffer, "%.15g", v);
+    return std::strtod(buffer, nullptr);
+}
+
 Json number(double v) { return std::isfinite(v) ? Json(v) : Json(nullptr); }
 
 void require_finite(const Json& j) {

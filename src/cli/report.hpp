@@ -77,6 +77,10 @@ inline constexpr int kSchema = 2;
 [[nodiscard]] Json document(const std::string& command);
 // A number for JSON: NaN and infinities become null (JSON has neither).
 [[nodiscard]] Json number(double v);
+// An input echoed back after a unit conversion (100 x a fraction, 1e6 x a coefficient, the table
+// model's points through ln R), rounded to 15 significant figures so that the conversion's last-bit
+// dust does not show: --ref-tc 50 echoes as 50, not 49.99999999999999.
+[[nodiscard]] double echoed(double v);
 // Throws std::logic_error if any number in `j` is not finite (the writers' last guard).
 void require_finite(const Json& j);
 // The document as text, two-space indented, with a final newline; a document (an object with a
