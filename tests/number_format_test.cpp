@@ -90,6 +90,11 @@ TEST_CASE("inputs echo without floating-point dust: 10u is 1e-05 and 10M is 1e7 
                                              "10", "--circuit", "bare", "--current", "10u", "--format", "json"});
     REQUIRE(c.code == 0);
     CHECK(nlohmann::json::parse(c.out)["circuit"]["drive"]["current_a"].dump() == "1e-05");
+    // The text echoes it with its SI prefix, as typed.
+    const auto t = rtline::test::run_rtline({"check", "--r25", "10k", "--beta", "3950", "--span", "0:40", "--step",
+                                             "10", "--circuit", "bare", "--current", "10u"});
+    REQUIRE(t.code == 0);
+    CHECK(t.out.find("circuit: bare; current drive 10 \xC2\xB5" "A\n") != std::string::npos);
 }
 
 TEST_CASE("inputs echoed after a unit conversion carry no dust: 50 ppm/K is 50, 0.1 % is 0.1") {

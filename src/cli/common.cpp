@@ -369,7 +369,7 @@ std::string describe_circuit(const Circuit& c) {
             s += gives_resistance(c.topology) ? "; output in ohm" : "; ratiometric output (V/V)";
             break;
         case Drive::voltage: s += "; excitation " + format_number(c.excitation.value) + " V"; break;
-        case Drive::current: s += "; current drive " + format_number(c.excitation.value) + " A"; break;
+        case Drive::current: s += "; current drive " + format_si(c.excitation.value, "A"); break;
     }
     return s;
 }

@@ -13,14 +13,6 @@ const char* const kDeg =
     "\xC2\xB0"
     "C";
 
-// A value with an SI prefix and its unit, 4 figures: 8.191e-08 F -> "81.91 nF".
-std::string si(double v, const std::string& unit) {
-    static const char* const prefixes[] = {"p", "n", "\xC2\xB5", "m", "", "k", "M", "G"};
-    if (v == 0.0 || !std::isfinite(v)) return format_number(v, 4) + " " + unit;
-    int e = static_cast<int>(std::floor(std::log10(std::abs(v)) / 3.0));
-    e = std::max(-4, std::min(3, e));
-    return format_number(v / std::pow(1000.0, e), 4) + " " + prefixes[e + 4] + unit;
-}
 
 double parse_positive(const std::string& text, const std::string& flag, const std::string& unit) {
     const double v = parse_quantity(text, flag, unit);
@@ -201,7 +193,7 @@ FrontEndReport front_end_report(const FrontEndOptions& o, const Circuit& c, cons
         if (worst > kSettlingLimitLsb) {
             r.warnings.push_back("warning: the sample does not settle: " + format_significant(worst, 3) + " LSB at " +
                                  celsius(at) + " " + kDeg + " (above 1/2 LSB); lengthen the acquisition to " +
-                                 si(settling_time_s(*r.sampling, r.settling_source_ohm), "s") +
+                                 format_si(settling_time_s(*r.sampling, r.settling_source_ohm), "s") +
                                  " or add the filter capacitor");
         }
     }
@@ -221,7 +213,7 @@ std::string front_end_text(const FrontEndReport& r, const Circuit& c) {
     t += "\n";
     if (r.sampling) {
         t += "converter: " + std::to_string(r.sampling->bits) + " bits, sampling capacitor " +
-             si(r.sampling->capacitance_f, "F") + ", acquisition " + si(r.sampling->acquisition_s, "s") + "\n";
+             format_si(r.sampling->capacitance_f, "F") + ", acquisition " + format_si(r.sampling->acquisition_s, "s") + "\n";
     }
     std::vector<Column> cols{{std::string("T (") + kDeg + ")", "t_c", 2}};
     if (bridge) {
@@ -260,18 +252,18 @@ std::string front_end_text(const FrontEndReport& r, const Circuit& c) {
         if (rc > 0.0) {
             t += "settling error          " + format_significant(worst, 3) + " LSB at " + celsius(at) + " " + kDeg +
                  " through " + format_resistance(rc, 4) + " ohm (" + (worst > kSettlingLimitLsb ? "above" : "within") +
-                 " 1/2 LSB; 1/2 LSB needs " + si(settling_time_s(s, rc), "s") + ")\n";
+                 " 1/2 LSB; 1/2 LSB needs " + format_si(settling_time_s(s, rc), "s") + ")\n";
         } else {
             t += "settling error          0 LSB: the amplifier's output (ideal, 0 ohm) drives the converter; give "
                  "--amp-output for its resistance\n";
         }
         const double cf = filter_capacitance_f(s);
-        t += "filter capacitor        " + si(cf, "F") +
+        t += "filter capacitor        " + format_si(cf, "F") +
              " or more at the converter input holds the charge-sharing step C_s/(C_s + C_f) of a full-scale step to "
              "1/2 LSB (common practice)";
         if (rc > 0.0) {
             t += "; through " + format_resistance(rc, 4) + " ohm it settles a full-scale change in " +
-                 si(rc * (cf + s.capacitance_f) * std::log(2.0 * adc_steps(s.bits, s.transfer)), "s");
+                 format_si(rc * (cf + s.capacitance_f) * std::log(2.0 * adc_steps(s.bits, s.transfer)), "s");
         }
         t += "\n";
     }

@@ -219,6 +219,14 @@ Json document(const std::string& command) {
     return j;
 }
 
+std::string format_si(double v, const std::string& unit) {
+    static const char* const prefixes[] = {"p", "n", "\xC2\xB5", "m", "", "k", "M", "G"};
+    if (v == 0.0 || !std::isfinite(v)) return format_number(v, 4) + " " + unit;
+    int e = static_cast<int>(std::floor(std::log10(std::abs(v)) / 3.0));
+    e = std::max(-4, std::min(3, e));
+    return format_number(v / std::pow(1000.0, e), 4) + " " + prefixes[e + 4] + unit;
+}
+
 double echoed(double v) {
     if (!std::isfinite(v) || v == 0.0) return v;
     char buffer[64];

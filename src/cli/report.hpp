@@ -77,6 +77,9 @@ inline constexpr int kSchema = 2;
 [[nodiscard]] Json document(const std::string& command);
 // A number for JSON: NaN and infinities become null (JSON has neither).
 [[nodiscard]] Json number(double v);
+// A value with an SI prefix and its unit, 4 figures: 8.191e-08 F -> "81.91 nF", 1e-05 A -> "10 µA".
+[[nodiscard]] std::string format_si(double v, const std::string& unit);
+
 // An input echoed back after a unit conversion (100 x a fraction, 1e6 x a coefficient, the table
 // model's points through ln R), rounded to 15 significant figures so that the conversion's last-bit
 // dust does not show: --ref-tc 50 echoes as 50, not 49.99999999999999.
