@@ -40,7 +40,7 @@ TEST_CASE("format_significant keeps the same count of figures, trailing zeros in
     CHECK(format_significant(0.0, 4) == "0");
 }
 
-TEST_CASE("format_decimals never shows a small value as a bare 0.000") {
+TEST_CASE("format_decimals never shows a small value as a bare 0.000 or with a single figure") {
     CHECK(format_decimals(2.3456, 3) == "2.346");
     CHECK(format_decimals(-1.2666, 3) == "-1.267");
     // Exactly zero is zero; a value the decimals would hide keeps three significant figures.
@@ -49,6 +49,13 @@ TEST_CASE("format_decimals never shows a small value as a bare 0.000") {
     CHECK(format_decimals(-0.000412, 3) == "-0.000412");
     CHECK(format_decimals(4.2e-6, 3) == "4.20e-06");
     CHECK(format_decimals(0.004, 2) == "0.0040");
+    // Fewer than two figures would show: 0.000866 is not "0.001", 0.0086 not "0.009".
+    CHECK(format_decimals(0.000866, 3) == "0.000866");
+    CHECK(format_decimals(0.0086, 3) == "0.00860");
+    CHECK(format_decimals(0.087, 3) == "0.087");
+    // Without decimals a whole number stays whole; only what would round to zero keeps figures.
+    CHECK(format_decimals(2.0, 0) == "2");
+    CHECK(format_decimals(0.3, 0) == "0.30");
 }
 
 TEST_CASE("a text table aligns a column's decimal points and writes resistances in the letter code") {
@@ -83,4 +90,47 @@ TEST_CASE("inputs echo without floating-point dust: 10u is 1e-05 and 10M is 1e7 
                                              "10", "--circuit", "bare", "--current", "10u", "--format", "json"});
     REQUIRE(c.code == 0);
     CHECK(nlohmann::json::parse(c.out)["circuit"]["drive"]["current_a"].dump() == "1e-05");
+    // The text echoes it with its SI prefix, as typed.
+    const auto t = rtline::test::run_rtline({"check", "--r25", "10k", "--beta", "3950", "--span", "0:40", "--step",
+                                             "10", "--circuit", "bare", "--current", "10u"});
+    REQUIRE(t.code == 0);
+    CHECK(t.out.find("circuit: bare; current drive 10 \xC2\xB5" "A\n") != std::string::npos);
+}
+
+TEST_CASE("inputs echoed after a unit conversion carry no dust: 50 ppm/K is 50, 0.1 % is 0.1") {
+    // 1e6 * (50 * 1e-6) is 49.99999999999999 and 1e6 * (25 * 1e-6) is 24.999999999999996 (python3): each
+    // echo must be the value typed.
+    const auto r = rtline::test::run_rtline({"budget", "--r25", "10k", "--beta", "3950", "--span", "0:40", "--step",
+                                             "10", "--circuit", "divider-low", "--rs", "10k", "--trials", "0",
+                                             "--excitation", "3.3", "--adc-bits", "12", "--adc-ref", "3.0",
+                                             "--ref-tc", "50", "--resistor-tc", "25", "--resistor-tol", "0.1",
+                                             "--dissipation", "1.1", "--format", "json"});
+    REQUIRE(r.code == 0);
+    const auto a = nlohmann::json::parse(r.out)["assumptions"];
+    CHECK(a["coefficients_ppm_per_k"]["reference"].dump() == "50.0");
+    CHECK(a["coefficients_ppm_per_k"]["resistors"].dump() == "25.0");
+    CHECK(a["tolerances_pct"]["resistors"].dump() == "0.1");
+    CHECK(a["dissipation_mw_per_k"].dump() == "1.1");
+}
+
+TEST_CASE("a summary prints its figures in the same format: a small error keeps its figures") {
+    // Over one kelvin the endpoint line misses by under a millikelvin: the summary must not round it
+    // to 0.001 or 0.000. The JSON has the figure; the text stands for it to three significant figures.
+    const std::vector<std::string> args = {"check", "--r25", "10k",         "--beta", "3950", "--span",
+                                           "25:26", "--step", "0.2", "--circuit", "divider-low", "--rs", "10k"};
+    const auto text = rtline::test::run_rtline(args);
+    REQUIRE(text.code == 0);
+    auto json_args = args;
+    json_args.insert(json_args.end(), {"--format", "json"});
+    const auto doc = nlohmann::json::parse(rtline::test::run_rtline(json_args).out);
+    const double e = doc["summary"]["max_error_k"].get<double>();
+    REQUIRE(e < 1e-3);
+    const std::string line = "largest |error|         ";
+    const std::size_t at = text.out.find(line);
+    REQUIRE(at != std::string::npos);
+    const std::string shown = text.out.substr(at + line.size(), text.out.find(' ', at + line.size()) - at - line.size());
+    // Three significant figures of a value below 1e-3: six decimals, within half a unit of the last.
+    CHECK(shown.rfind("0.000", 0) == 0);
+    CHECK(shown.size() == 8);
+    CHECK(std::abs(std::stod(shown) - e) <= 0.5e-6);
 }

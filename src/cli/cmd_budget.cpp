@@ -124,14 +124,14 @@ Json budget_json(const Budget& b, const BudgetSpec& s, const Thermistor& model, 
     a["truncated_at_tolerance"] = s.distribution != Distribution::normal;
     a["trials"] = s.trials;
     a["seed"] = s.seed;
-    a["tolerances_pct"] = {{"r25", 100.0 * t.r25},
-                           {"beta", 100.0 * t.beta},
-                           {"resistors", 100.0 * t.resistors},
-                           {"excitation", volts ? Json(100.0 * t.excitation) : Json(nullptr)},
-                           {"thermistor_drift", 100.0 * t.thermistor_drift},
-                           {"lead", 100.0 * t.lead},
-                           {"reference", 100.0 * t.reference}};
-    a["coefficients_ppm_per_k"] = {{"resistors", 1e6 * t.resistor_tc_per_k}, {"reference", 1e6 * t.reference_tc_per_k}};
+    a["tolerances_pct"] = {{"r25", echoed(100.0 * t.r25)},
+                           {"beta", echoed(100.0 * t.beta)},
+                           {"resistors", echoed(100.0 * t.resistors)},
+                           {"excitation", volts ? Json(echoed(100.0 * t.excitation)) : Json(nullptr)},
+                           {"thermistor_drift", echoed(100.0 * t.thermistor_drift)},
+                           {"lead", echoed(100.0 * t.lead)},
+                           {"reference", echoed(100.0 * t.reference)}};
+    a["coefficients_ppm_per_k"] = {{"resistors", echoed(1e6 * t.resistor_tc_per_k)}, {"reference", echoed(1e6 * t.reference_tc_per_k)}};
     a["coefficients_from_c"] = kelvin_to_celsius(kCoefficientReferenceK);
     a["board_temperature"] =
         s.board.sensed ? Json("sensed")
@@ -156,7 +156,7 @@ Json budget_json(const Budget& b, const BudgetSpec& s, const Thermistor& model, 
                     {"transfer", std::string(adc_transfer_name(s.adc.transfer))},
                     {"error_lsb", s.adc.error_lsb},
                     {"offset_lsb", s.adc.offset_lsb},
-                    {"gain_pct", 100.0 * s.adc.gain},
+                    {"gain_pct", echoed(100.0 * s.adc.gain)},
                     {"inl_lsb", s.adc.inl_lsb},
                     {"full_scale", s.adc.full_scale},
                     {"lsb_size", b.lsb}};
@@ -178,7 +178,7 @@ Json budget_json(const Budget& b, const BudgetSpec& s, const Thermistor& model, 
     } else {
         a["amplifier"] = nullptr;
     }
-    a["dissipation_mw_per_k"] = s.dissipation_w_per_k > 0.0 ? Json(1e3 * s.dissipation_w_per_k) : Json(nullptr);
+    a["dissipation_mw_per_k"] = s.dissipation_w_per_k > 0.0 ? Json(echoed(1e3 * s.dissipation_w_per_k)) : Json(nullptr);
     doc["assumptions"] = a;
     if (s.reading == Reading::line) {
         doc["line"] = {{"slope_per_k", b.line.slope}, {"intercept", b.line.at(kZeroCelsiusK)}};
@@ -251,7 +251,7 @@ std::string largest_cause(const BudgetPoint& p) {
         if (std::isfinite(p.components.k[c]) && (best == kCauses || p.components.k[c] > p.components.k[best])) best = c;
     }
     if (best == kCauses) return "none";
-    return std::string(cause_label(static_cast<Cause>(best))) + " (" + format_fixed(p.components.k[best], 4) + " " +
+    return std::string(cause_label(static_cast<Cause>(best))) + " (" + format_decimals(p.components.k[best], 4) + " " +
            kDegC + ")";
 }
 
@@ -296,7 +296,7 @@ Facts budget_header(const Budget& b, const BudgetSpec& s, const Thermistor& mode
                  (unit == "V" ? "" : " (ratiometric: it is the excitation too, so it cancels in the reading)")});
     }
     if (s.adc.bits > 0) {
-        f.push_back({"converter", std::to_string(s.adc.bits) + " bits, 1 LSB = " + format_number(b.lsb, 4) + " " +
+        f.push_back({"converter", std::to_string(s.adc.bits) + " bits, 1 LSB = " + format_significant(b.lsb, 4) + " " +
                                       unit + "; " + describe_adc_transfer(s.adc.transfer, s.adc.bits)});
         std::string q =
             "quantization \xC2\xB1"
@@ -320,7 +320,7 @@ Facts budget_header(const Budget& b, const BudgetSpec& s, const Thermistor& mode
 Table error_table(const Budget& b, const BudgetSpec& s) {
     const bool mc = s.trials > 0;
     const std::string deg = std::string(" (") + kDegC + ")";
-    std::vector<Column> cols = {{"T" + deg, "", 2}, {"worst low" + deg, "", 4}, {"worst high" + deg, "", 4}};
+    std::vector<Column> cols = {{"T" + deg, "t_c", 2}, {"worst low" + deg, "", 4}, {"worst high" + deg, "", 4}};
     if (mc) {
         cols.insert(cols.end(), {{"MC mean" + deg, "", 4},
                                  {"MC std" + deg, "", 4},
@@ -347,7 +347,7 @@ Table error_table(const Budget& b, const BudgetSpec& s) {
 Table split_table(const Budget& b, const BudgetSpec& s) {
     const std::string deg = std::string(" (") + kDegC + ")";
     const BudgetComponents& k0 = b.points.front().components;
-    std::vector<Column> split_cols = {{"T" + deg, "", 2}};
+    std::vector<Column> split_cols = {{"T" + deg, "t_c", 2}};
     std::vector<std::size_t> shown;
     for (std::size_t c = 0; c < kCauses; ++c) {
         if (!std::isnan(k0.k[c])) {
@@ -370,12 +370,12 @@ const char* const kSplitTitle = "each cause alone (largest |change of error| ove
 
 Facts budget_summary(const Budget& b, const BudgetSpec& s) {
     const BudgetSummary& sm = b.summary;
-    Facts f{{"worst case over the span", format_fixed(sm.worst_case_k, 4) + " " + kDegC + " at " + celsius(sm.at_t_k) +
-                                             " " + kDegC + " (signed: " + format_fixed(sm.worst_low_k, 4) + " to +" +
-                                             format_fixed(sm.worst_high_k, 4) + " " + kDegC + ")"}};
+    Facts f{{"worst case over the span", format_decimals(sm.worst_case_k, 4) + " " + kDegC + " at " + celsius(sm.at_t_k) +
+                                             " " + kDegC + " (signed: " + format_decimals(sm.worst_low_k, 4) + " to +" +
+                                             format_decimals(sm.worst_high_k, 4) + " " + kDegC + ")"}};
     if (s.trials > 0) {
         f.push_back({"99.7 % bound over the span",
-                     format_fixed(sm.p99_7_k, 4) + " " + kDegC + " at " + celsius(sm.p99_7_at_t_k) + " " + kDegC});
+                     format_decimals(sm.p99_7_k, 4) + " " + kDegC + " at " + celsius(sm.p99_7_at_t_k) + " " + kDegC});
     }
     for (const BudgetPoint& p : b.points) {
         if (p.t_k == sm.at_t_k) f.push_back({"largest cause there", largest_cause(p)});

@@ -71,25 +71,25 @@ Facts summary_facts(const AnalysisSummary& s, const Circuit& circuit, const Ther
                     LineKind line, double dissipation_w_per_k) {
     const std::string unit = output_unit(circuit);
     const std::string deg(kDeg);
-    Facts f{{"largest |nonlinearity|", format_fixed(s.max_nonlinearity_pct_fsd, 3) + " %FSD at " + celsius(s.at_t_k) +
+    Facts f{{"largest |nonlinearity|", format_decimals(s.max_nonlinearity_pct_fsd, 3) + " %FSD at " + celsius(s.at_t_k) +
                                            " " + deg + " (against the " + std::string(line_name(line)) + " line)"},
-            {"largest |error|", format_fixed(s.max_error_k, 3) + " " + deg},
-            {"output span", format_number(s.output_span, 5) + " " + unit},
-            {"sensitivity", format_number(s.sensitivity_min_per_k, 4) + " to " +
-                                format_number(s.sensitivity_max_per_k, 4) + " " + unit + " per K"}};
+            {"largest |error|", format_decimals(s.max_error_k, 3) + " " + deg},
+            {"output span", format_significant(s.output_span, 5) + " " + unit},
+            {"sensitivity", format_significant(s.sensitivity_min_per_k, 4) + " to " +
+                                format_significant(s.sensitivity_max_per_k, 4) + " " + unit + " per K"}};
     if (circuit.lead_ohm > 0.0) {
         const auto [lo, hi] = lead_shift_range(circuit, thermistor, grid);
-        f.push_back({"lead wires", format_fixed(lo, 3) + " to " + format_fixed(hi, 3) + " " + deg +
+        f.push_back({"lead wires", format_decimals(lo, 3) + " to " + format_decimals(hi, 3) + " " + deg +
                                        " if the firmware does not subtract their " +
                                        format_resistance(circuit.lead_ohm, 6) + " ohm"});
     }
     if (circuit.excitation.drive == Drive::ratiometric) {
         f.push_back({"power, self-heating", "none without a drive; give --excitation V or --current A"});
     } else if (std::isfinite(s.max_power_w)) {
-        f.push_back({"largest power", format_number(1e3 * s.max_power_w, 4) + " mW"});
+        f.push_back({"largest power", format_significant(1e3 * s.max_power_w, 4) + " mW"});
     }
     if (std::isfinite(s.max_self_heating_k)) {
-        f.push_back({"largest self-heating", format_number(s.max_self_heating_k, 4) + " K (dissipation constant " +
+        f.push_back({"largest self-heating", format_significant(s.max_self_heating_k, 4) + " K (dissipation constant " +
                                                  format_number(1e3 * dissipation_w_per_k) + " mW/K)"});
     }
     return f;
@@ -128,7 +128,7 @@ void run_check(const CheckCommand& o) {
         doc["circuit"] = circuit_json(circuit);
         doc["line"] = std::string(line_name(line));
         doc["line_coefficients"] = {{"slope_per_k", a.line.slope}, {"intercept", a.line.at(kZeroCelsiusK)}};
-        if (dissipation_w_per_k > 0.0) doc["dissipation_mw_per_k"] = 1e3 * dissipation_w_per_k;
+        if (dissipation_w_per_k > 0.0) doc["dissipation_mw_per_k"] = echoed(1e3 * dissipation_w_per_k);
         doc["summary"] = summary_json(a.summary, driven);
         if (circuit.lead_ohm > 0.0) {
             const auto [lo, hi] = lead_shift_range(circuit, thermistor, grid);

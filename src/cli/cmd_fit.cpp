@@ -46,7 +46,7 @@ std::pair<Json, std::string> other_fit(const char* kind, const char* name, MaxRe
         const double max_k = max_residual_k();
         return {Json{{"kind", kind}, {"max_residual_k", max_k}},
                 std::string("a ") + name + " fit to the same points: largest |residual| " +
-                    format_fixed(1e3 * max_k, 2) + " mK\n"};
+                    format_decimals(1e3 * max_k, 2) + " mK\n"};
     } catch (const InputError& e) {
         // The reason without its advice (after "; "), which is for the fit asked for, not this one.
         const std::string why = e.why().substr(0, e.why().find("; "));
@@ -127,7 +127,7 @@ void run_fit(const FitCommand& o) {
         } else {
             const Residual& w = worst(residuals);
             bytes = heading + "\nresidual = T(model at R) - T(point)\n" + table.text() +
-                    "\nlargest |residual|: " + format_fixed(1e3 * max_residual_k, 3) + " mK at " + celsius(w.t_k) +
+                    "\nlargest |residual|: " + format_decimals(1e3 * max_residual_k, 3) + " mK at " + celsius(w.t_k) +
                     " \xC2\xB0"
                     "C\n" +
                     comparison;

@@ -296,7 +296,7 @@ std::string span_warning(const Candidate& c) {
     if (gives_resistance(c.circuit.topology) || e.drive == Drive::current) return "";
     const double full = e.drive == Drive::voltage ? e.value : 1.0;
     if (c.output_span >= 0.1 * full) return "";
-    return "the output span is only " + format_number(c.output_span, 3) + " " + output_unit(c.circuit) +
+    return "the output span is only " + format_significant(c.output_span, 3) + " " + output_unit(c.circuit) +
            ", below 10 % of the excitation; consider --min-span";
 }
 
@@ -344,7 +344,7 @@ Json header_json(const Setup& s, const std::string& command) {
         c["min_sensitivity_codes_per_k"] = s.objective.min_sensitivity_codes_per_k;
     }
     doc["constraints"] = c;
-    if (s.spec.dissipation_w_per_k > 0.0) doc["dissipation_mw_per_k"] = 1e3 * s.spec.dissipation_w_per_k;
+    if (s.spec.dissipation_w_per_k > 0.0) doc["dissipation_mw_per_k"] = echoed(1e3 * s.spec.dissipation_w_per_k);
     return doc;
 }
 
@@ -638,8 +638,8 @@ void run_size(const SizeCommand& o) {
         Markdown md = markdown_start(s, o, o.circuit.circuit, describe_circuit(s.spec.base));
         md.section("Continuous optimum");
         Facts opt{{"resistors", resistors_text(continuous.circuit, 6)},
-                  {"nonlinearity", format_fixed(continuous.max_nonlinearity_pct_fsd, 4) + " %FSD"},
-                  {"output span", format_number(continuous.output_span, 4) + " " + unit}};
+                  {"nonlinearity", format_decimals(continuous.max_nonlinearity_pct_fsd, 4) + " %FSD"},
+                  {"output span", format_significant(continuous.output_span, 4) + " " + unit}};
         if (!cont_fails.empty()) opt.push_back({"constraints", "fails " + cont_fails});
         if (continuous.ridge) {
             opt.push_back({"ridge",
@@ -665,8 +665,8 @@ void run_size(const SizeCommand& o) {
     } else {
         std::string t = header_text(s, o, describe_circuit(s.spec.base)) + "\n";
         t += "continuous optimum   " + resistors_text(continuous.circuit, 6) + "  ->  " +
-             format_fixed(continuous.max_nonlinearity_pct_fsd, 4) + " %FSD, span " +
-             format_number(continuous.output_span, 4) + " " + unit +
+             format_decimals(continuous.max_nonlinearity_pct_fsd, 4) + " %FSD, span " +
+             format_significant(continuous.output_span, 4) + " " + unit +
              (cont_fails.empty() ? "" : "  (fails " + cont_fails + ")") + "\n";
         if (continuous.ridge) {
             t += "  (a ridge: every pair with the same equivalent resistance gives this nonlinearity; shown is the\n"
@@ -675,7 +675,7 @@ void run_size(const SizeCommand& o) {
         if (one) {
             const std::string& r = names.front();
             const std::string b_note =
-                cf.local_b ? " with the model's local B there (" + format_number(cf.local_b_k, 5) + " K)" : "";
+                cf.local_b ? " with the model's local B there (" + format_significant(cf.local_b_k, 5) + " K)" : "";
             t += std::string("closed forms (Pallas-Areny & Webster, ch. 2)") +
                  (cf.load_included  ? ", converted for the load:\n"
                   : cf.load_ignored ? ", for the unloaded bridge:\n"

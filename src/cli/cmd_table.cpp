@@ -175,7 +175,7 @@ std::string json_report(const Result& r) {
         front["amplifier"] = {{"gain_v_per_v", r.channel.amplifier->gain},
                               {"offset", r.channel.amplifier->offset},
                               {"auto_range", r.amp.auto_ranged}};
-        if (r.amp.auto_ranged) front["amplifier"]["headroom_pct"] = 100.0 * r.amp.headroom;
+        if (r.amp.auto_ranged) front["amplifier"]["headroom_pct"] = echoed(100.0 * r.amp.headroom);
     }
     doc["front_end"] = front;
     doc["reading"] = {{"convention", convention(r.map, r.channel, r.amp)},
@@ -290,9 +290,9 @@ std::string text_report(const Result& r) {
     t += "target:   " + target_words(r, kDeg) + "\n";
     if (r.table_searched) t += "          the fewest entries whose shipped error meets it\n";
     t += "\n" + breakpoint_table(r).text() + "\n";
-    t += "shipped error        " + format_fixed(r.fixed.max_error_k, 4) + " " + kDeg + " " + at(m, r.fixed.at_code) +
+    t += "shipped error        " + format_decimals(r.fixed.max_error_k, 4) + " " + kDeg + " " + at(m, r.fixed.at_code) +
          ": the integer code as emitted, over all " + std::to_string(m.size()) + " codes of the span\n";
-    t += "interpolation error  " + format_fixed(r.table.max_error_k, 4) + " " + kDeg + " " + at(m, r.table.at_code) +
+    t += "interpolation error  " + format_decimals(r.table.max_error_k, 4) + " " + kDeg + " " + at(m, r.table.at_code) +
          ", before rounding to " + unit_text(r.fixed) + " " + kDeg + "\n";
     t += "\nfaults:\n";
     for (const std::string& line : fault_lines(r, kDeg)) t += "  " + line + "\n";
@@ -304,7 +304,7 @@ std::string text_report(const Result& r) {
         const std::vector<double> c = coefficients_c(p);
         for (std::size_t i = 0; i < c.size(); ++i)
             t += "  c" + std::to_string(i) + " = " + format_number(c[i], 12) + "\n";
-        t += "shipped error (double precision)  " + format_fixed(p.max_error_k, 4) + " " + kDeg + " " +
+        t += "shipped error (double precision)  " + format_decimals(p.max_error_k, 4) + " " + kDeg + " " +
              at(m, p.at_code) + "\n";
     }
     return t;
@@ -329,10 +329,10 @@ std::string markdown_report(const Result& r) {
     md.facts(header);
     md.section("Breakpoints");
     md.table(breakpoint_table(r));
-    md.facts({{"shipped error", format_fixed(r.fixed.max_error_k, 4) + " " + kDeg + " " + at(m, r.fixed.at_code) +
+    md.facts({{"shipped error", format_decimals(r.fixed.max_error_k, 4) + " " + kDeg + " " + at(m, r.fixed.at_code) +
                                     ": the integer code as emitted, over all " + std::to_string(m.size()) +
                                     " codes of the span"},
-              {"interpolation error", format_fixed(r.table.max_error_k, 4) + " " + kDeg + " " + at(m, r.table.at_code) +
+              {"interpolation error", format_decimals(r.table.max_error_k, 4) + " " + kDeg + " " + at(m, r.table.at_code) +
                                           ", before rounding to " + unit_text(r.fixed) + " " + kDeg}});
     md.section("Fault codes");
     md.list(fault_lines(r, kDeg));
@@ -345,7 +345,7 @@ std::string markdown_report(const Result& r) {
                                           : "")},
                   {"form", std::string("T(x) = sum of c_i x^i in ") + kDeg + ", " + x_definition(p)},
                   {"shipped error (double precision)",
-                   format_fixed(p.max_error_k, 4) + " " + kDeg + " " + at(m, p.at_code)}});
+                   format_decimals(p.max_error_k, 4) + " " + kDeg + " " + at(m, p.at_code)}});
         Table coefficients({{"i", "i", 0}, {"c_i", "c_i", -1, 12}});
         const std::vector<double> c = coefficients_c(p);
         for (std::size_t i = 0; i < c.size(); ++i) coefficients.add_row({static_cast<double>(i), c[i]});
@@ -376,14 +376,14 @@ std::string c_report(const Result& r, const std::string& prefix) {
                                            std::string(spacing_name(r.table.spacing)) + ", in " + unit_text(r.fixed) +
                                            " degC, " + std::to_string(r.fixed.arithmetic_bits) + "-bit arithmetic",
                                        "target:  " + target_words(r, "degC"),
-                                       "error:   this integer code " + format_fixed(r.fixed.max_error_k, 4) +
+                                       "error:   this integer code " + format_decimals(r.fixed.max_error_k, 4) +
                                            " degC at code " + std::to_string(r.fixed.at_code) +
-                                           " (interpolation alone " + format_fixed(r.table.max_error_k, 4) +
+                                           " (interpolation alone " + format_decimals(r.table.max_error_k, 4) +
                                            " degC at code " + std::to_string(r.table.at_code) + ")"});
     if (r.polynomial) {
         h.comment.push_back("poly:    " + std::string(fit_name(r.polynomial->fit)) + ", degree " +
                             std::to_string(r.polynomial->degree) + ", error " +
-                            format_fixed(r.polynomial->max_error_k, 4) + " degC at code " +
+                            format_decimals(r.polynomial->max_error_k, 4) + " degC at code " +
                             std::to_string(r.polynomial->at_code) + " (double precision)");
     }
     const std::vector<std::string> faults = fault_lines(r, "degC");
@@ -545,7 +545,7 @@ void run_table(const TableCommand& o) {
         r.fixed = to_fixed(r.table, r.map, scale);
         if (target_k && r.fixed.max_error_k > *target_k) {
             throw InfeasibleError("the " + std::to_string(r.table.codes.size()) + "-entry table ships " +
-                                  format_number(r.fixed.max_error_k, 4) + " " + deg + ", more than the " +
+                                  format_significant(r.fixed.max_error_k, 4) + " " + deg + ", more than the " +
                                   format_number(*target_k, 4) + " " + deg +
                                   " target; leave out --entries to find the fewest that meet it");
         }
@@ -554,7 +554,7 @@ void run_table(const TableCommand& o) {
         r.polynomial = degree ? fit_polynomial(r.map, *degree, fit) : lowest_degree(r.map, *target_k, fit);
         if (degree && target_k && r.polynomial->max_error_k > *target_k) {
             throw InfeasibleError("the degree-" + std::to_string(*degree) + " polynomial errs by " +
-                                  format_number(r.polynomial->max_error_k, 4) + " " + deg + ", more than the " +
+                                  format_significant(r.polynomial->max_error_k, 4) + " " + deg + ", more than the " +
                                   format_number(*target_k, 4) + " " + deg +
                                   " target; leave out --degree to find the lowest that meets it");
         }

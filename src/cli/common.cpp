@@ -199,7 +199,7 @@ Json model_json(const Thermistor& t) {
     } else {
         const auto& tab = std::get<TableModel>(m);
         Json pts = Json::array();
-        for (const RtPoint& p : tab.points()) pts.push_back({{"t_c", kelvin_to_celsius(p.t_k)}, {"r_ohm", p.r_ohm}});
+        for (const RtPoint& p : tab.points()) pts.push_back({{"t_c", echoed(kelvin_to_celsius(p.t_k))}, {"r_ohm", echoed(p.r_ohm)}});
         j["points"] = pts;
     }
     return j;
@@ -369,7 +369,7 @@ std::string describe_circuit(const Circuit& c) {
             s += gives_resistance(c.topology) ? "; output in ohm" : "; ratiometric output (V/V)";
             break;
         case Drive::voltage: s += "; excitation " + format_number(c.excitation.value) + " V"; break;
-        case Drive::current: s += "; current drive " + format_number(c.excitation.value) + " A"; break;
+        case Drive::current: s += "; current drive " + format_si(c.excitation.value, "A"); break;
     }
     return s;
 }

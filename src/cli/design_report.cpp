@@ -25,7 +25,7 @@ constexpr double kResistorRatingW = 0.0625;
 // A power margin as a factor: three figures below 1000, whole above (2855x, not 2.86e+03x).
 std::string margin_words(double factor) {
     if (factor >= 1000.0 && factor < 1e9) return std::to_string(static_cast<long long>(std::floor(factor))) + "x";
-    return format_number(factor, 3) + "x";
+    return format_significant(factor, 3) + "x";
 }
 
 std::string deg(double k, int decimals = 3) { return format_fixed(k, decimals) + " " + kDeg; }
@@ -71,9 +71,9 @@ Json readback_flags(const DesignRun& r) {
     j["adc_bits"] = b.adc.bits;
     j["adc_transfer"] = std::string(adc_transfer_name(b.adc.transfer));
     if (!f.adc_ref.empty()) j["adc_ref"] = f.adc_ref;
-    j["r25_tol"] = 100.0 * part.tol_r25;
-    j["beta_tol"] = 100.0 * part.tol_beta;
-    j["resistor_tol"] = 100.0 * b.tolerance.resistors;
+    j["r25_tol"] = echoed(100.0 * part.tol_r25);
+    j["beta_tol"] = echoed(100.0 * part.tol_beta);
+    j["resistor_tol"] = echoed(100.0 * b.tolerance.resistors);
     auto copy = [&](const char* key, const std::string& text) {
         if (!text.empty()) j[key] = text;
     };
@@ -88,7 +88,7 @@ Json readback_flags(const DesignRun& r) {
     copy("drift", f.drift);
     if (f.board_temp != "sensed") j["board_temp"] = f.board_temp;
     j["distribution"] = f.distribution;
-    if (part.dissipation_w_per_k > 0.0) j["dissipation"] = 1e3 * part.dissipation_w_per_k;
+    if (part.dissipation_w_per_k > 0.0) j["dissipation"] = echoed(1e3 * part.dissipation_w_per_k);
     j["trials"] = b.trials;
     j["seed"] = b.seed;
     // size: the chosen series and the judgement design made
@@ -121,7 +121,7 @@ Table parts_table(const DesignRun& r) {
              {"margin", "margin"}});
     const double tp = d.chosen().candidate.max_power_w;
     std::string heat = "-";
-    if (driven && part.dissipation_w_per_k > 0.0) heat = "self-heating " + format_number(tp / part.dissipation_w_per_k, 3) + " K";
+    if (driven && part.dissipation_w_per_k > 0.0) heat = "self-heating " + format_significant(tp / part.dissipation_w_per_k, 3) + " K";
     t.add_row({"RT1 " + part.label, describe_model(part.model),
                std::string("-"),
                "R25 " + format_number(100.0 * part.tol_r25) + ", B " + format_number(100.0 * part.tol_beta),
@@ -355,9 +355,9 @@ Json design_json(const DesignRun& r) {
                            {"adc_bits", r.spec.budget.adc.bits},
                            {"parts", r.spec.parts.size()}};
     doc["part"] = {{"label", part.label},
-                   {"r25_tol_pct", 100.0 * part.tol_r25},
-                   {"b_tol_pct", 100.0 * part.tol_beta},
-                   {"dissipation_mw_per_k", part.dissipation_w_per_k > 0.0 ? Json(1e3 * part.dissipation_w_per_k) : Json(nullptr)}};
+                   {"r25_tol_pct", echoed(100.0 * part.tol_r25)},
+                   {"b_tol_pct", echoed(100.0 * part.tol_beta)},
+                   {"dissipation_mw_per_k", part.dissipation_w_per_k > 0.0 ? Json(echoed(1e3 * part.dissipation_w_per_k)) : Json(nullptr)}};
     doc["series"] = std::string(series_name(best.series));
     Json powers = Json::object();
     for (const ResistorPower& p : resistor_powers(c, d.grid)) powers[p.name] = number(p.max_w);

@@ -212,15 +212,15 @@ FrontEndReport front_end_report(const FrontEndOptions& o, const Circuit& c, cons
     const std::string unit = output_unit(c);
     if (outside) {
         r.warnings.push_back("warning: the converter input leaves the converter's range 0 to " +
-                             format_number(r.full_scale, 5) + " " + unit + " (first at " + celsius(outside_t) + " " +
+                             format_significant(r.full_scale, 5) + " " + unit + " (first at " + celsius(outside_t) + " " +
                              kDeg + ")");
     }
     if (r.sampling) {
         const auto [worst, at] = worst_settling(r);
         if (worst > kSettlingLimitLsb) {
-            r.warnings.push_back("warning: the sample does not settle: " + format_number(worst, 3) + " LSB at " +
+            r.warnings.push_back("warning: the sample does not settle: " + format_significant(worst, 3) + " LSB at " +
                                  celsius(at) + " " + kDeg + " (above 1/2 LSB); lengthen the acquisition to " +
-                                 si(settling_time_s(*r.sampling, r.settling_source_ohm), "s") +
+                                 format_si(settling_time_s(*r.sampling, r.settling_source_ohm), "s") +
                                  " or add the filter capacitor");
         }
     }
@@ -240,7 +240,7 @@ std::string front_end_text(const FrontEndReport& r, const Circuit& c) {
     t += "\n";
     if (r.sampling) {
         t += "converter: " + std::to_string(r.sampling->bits) + " bits, sampling capacitor " +
-             si(r.sampling->capacitance_f, "F") + ", acquisition " + si(r.sampling->acquisition_s, "s") + "\n";
+             format_si(r.sampling->capacitance_f, "F") + ", acquisition " + format_si(r.sampling->acquisition_s, "s") + "\n";
     }
     std::vector<Column> cols{{std::string("T (") + kDeg + ")", "t_c", 2}};
     if (bridge) {
@@ -266,8 +266,8 @@ std::string front_end_text(const FrontEndReport& r, const Circuit& c) {
     t += "\n" + table.text() + "\n";
     const FrontEndPoint& lo = r.points.front();
     const FrontEndPoint& hi = r.points.back();
-    t += "converter input         " + format_number(lo.converter_input, 5) + " " + unit + " at " + celsius(lo.t_k) +
-         " " + kDeg + ", " + format_number(hi.converter_input, 5) + " " + unit + " at " + celsius(hi.t_k) + " " + kDeg +
+    t += "converter input         " + format_significant(lo.converter_input, 5) + " " + unit + " at " + celsius(lo.t_k) +
+         " " + kDeg + ", " + format_significant(hi.converter_input, 5) + " " + unit + " at " + celsius(hi.t_k) + " " + kDeg +
          "\n";
     const Largest z = largest(r, &SourceImpedance::out_ohm);
     t += "largest source          " + format_resistance(z.value, 4) + " ohm at " + celsius(z.t_k) + " " + kDeg +
@@ -277,20 +277,20 @@ std::string front_end_text(const FrontEndReport& r, const Circuit& c) {
         const Sampling& s = *r.sampling;
         const double rc = r.settling_source_ohm;
         if (rc > 0.0) {
-            t += "settling error          " + format_number(worst, 3) + " LSB at " + celsius(at) + " " + kDeg +
+            t += "settling error          " + format_significant(worst, 3) + " LSB at " + celsius(at) + " " + kDeg +
                  " through " + format_resistance(rc, 4) + " ohm (" + (worst > kSettlingLimitLsb ? "above" : "within") +
-                 " 1/2 LSB; 1/2 LSB needs " + si(settling_time_s(s, rc), "s") + ")\n";
+                 " 1/2 LSB; 1/2 LSB needs " + format_si(settling_time_s(s, rc), "s") + ")\n";
         } else {
             t += "settling error          0 LSB: the amplifier's output (ideal, 0 ohm) drives the converter; give "
                  "--amp-output for its resistance\n";
         }
         const double cf = filter_capacitance_f(s);
-        t += "filter capacitor        " + si(cf, "F") +
+        t += "filter capacitor        " + format_si(cf, "F") +
              " or more at the converter input holds the charge-sharing step C_s/(C_s + C_f) of a full-scale step to "
              "1/2 LSB (common practice)";
         if (rc > 0.0) {
             t += "; through " + format_resistance(rc, 4) + " ohm it settles a full-scale change in " +
-                 si(rc * (cf + s.capacitance_f) * std::log(2.0 * adc_steps(s.bits, s.transfer)), "s");
+                 format_si(rc * (cf + s.capacitance_f) * std::log(2.0 * adc_steps(s.bits, s.transfer)), "s");
         }
         t += "\n";
     }
@@ -305,7 +305,7 @@ Json front_end_json(const FrontEndReport& r, const Circuit& c) {
                           {"offset", r.amplifier->offset},
                           {"output_ohm", r.amplifier->output_ohm},
                           {"auto_range", r.auto_ranged}};
-        if (r.auto_ranged) j["amplifier"]["headroom_pct"] = 100.0 * r.headroom;
+        if (r.auto_ranged) j["amplifier"]["headroom_pct"] = echoed(100.0 * r.headroom);
     } else {
         j["amplifier"] = nullptr;
     }

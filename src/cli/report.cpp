@@ -40,6 +40,9 @@ std::string text_cell(const Column& c, const Cell& cell) {
     const double v = std::get<double>(cell);
     if (!std::isfinite(v)) return "-";
     if (resistance_column(c)) return v > 0.0 ? format_resistance(v, c.digits) : format_significant(v, c.digits);
+    // A temperature on the scale (its CSV header ends in _c) is a position, not a magnitude: fixed decimals.
+    const std::string_view h = c.csv_header;
+    if (c.decimals >= 0 && h.size() > 2 && h.substr(h.size() - 2) == "_c") return format_fixed(v, c.decimals);
     return c.decimals >= 0 ? format_decimals(v, c.decimals) : format_significant(v, c.digits);
 }
 
@@ -82,8 +85,11 @@ std::string format_significant(double v, int digits) {
 
 std::string format_decimals(double v, int decimals) {
     if (!std::isfinite(v)) return "-";
-    // A value the decimals would round to zero keeps as many significant figures instead.
-    if (v != 0.0 && std::abs(v) < 0.5 * std::pow(10.0, -decimals)) return format_significant(v, std::max(decimals, 2));
+    // A value the decimals would show with fewer than two figures (0.001 for 0.000866, or a bare 0.000)
+    // keeps as many significant figures as there are decimals instead.
+    // Whole numbers (no decimals) only give way when they would round to zero.
+    const double below = decimals > 0 ? std::pow(10.0, 1 - decimals) : 0.5;
+    if (v != 0.0 && std::abs(v) < below) return format_significant(v, std::max(decimals, 2));
     return format_fixed(v, decimals);
 }
 
@@ -211,6 +217,21 @@ Json document(const std::string& command) {
     j["schema"] = kSchema;
     j["command"] = command;
     return j;
+}
+
+std::string format_si(double v, const std::string& unit) {
+    static const char* const prefixes[] = {"p", "n", "\xC2\xB5", "m", "", "k", "M", "G"};
+    if (v == 0.0 || !std::isfinite(v)) return format_number(v, 4) + " " + unit;
+    int e = static_cast<int>(std::floor(std::log10(std::abs(v)) / 3.0));
+    e = std::max(-4, std::min(3, e));
+    return format_number(v / std::pow(1000.0, e), 4) + " " + prefixes[e + 4] + unit;
+}
+
+double echoed(double v) {
+    if (!std::isfinite(v) || v == 0.0) return v;
+    char buffer[64];
+    std::snprintf(buffer, sizeof buffer, "%.15g", v);
+    return std::strtod(buffer, nullptr);
 }
 
 Json number(double v) { return std::isfinite(v) ? Json(v) : Json(nullptr); }

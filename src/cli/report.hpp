@@ -56,7 +56,9 @@ private:
 // The numbers of text tables and summaries. `format_significant`: `digits` significant figures,
 // trailing zeros kept so a column's figures count alike ("0.06230"), in exponent form below 1e-4 or
 // from 10^digits up ("3.613e-06"); zero is "0". `format_decimals`: `decimals` fixed decimals, except
-// that a value they would round to zero keeps significant figures instead ("0.00041", never "0.000").
+// that a value they would show with fewer than two figures keeps `decimals` significant figures
+// instead ("0.000412", never "0.000" or "0.001" for it); exactly zero is "0.000". A table column of
+// temperatures on the scale (CSV header ending in _c) keeps fixed decimals: 0.02 °C is a position.
 // Both print a non-finite value as "-".
 [[nodiscard]] std::string format_significant(double v, int digits);
 [[nodiscard]] std::string format_decimals(double v, int decimals);
@@ -75,6 +77,13 @@ inline constexpr int kSchema = 2;
 [[nodiscard]] Json document(const std::string& command);
 // A number for JSON: NaN and infinities become null (JSON has neither).
 [[nodiscard]] Json number(double v);
+// A value with an SI prefix and its unit, 4 figures: 8.191e-08 F -> "81.91 nF", 1e-05 A -> "10 µA".
+[[nodiscard]] std::string format_si(double v, const std::string& unit);
+
+// An input echoed back after a unit conversion (100 x a fraction, 1e6 x a coefficient, the table
+// model's points through ln R), rounded to 15 significant figures so that the conversion's last-bit
+// dust does not show: --ref-tc 50 echoes as 50, not 49.99999999999999.
+[[nodiscard]] double echoed(double v);
 // Throws std::logic_error if any number in `j` is not finite (the writers' last guard).
 void require_finite(const Json& j);
 // The document as text, two-space indented, with a final newline; a document (an object with a
