@@ -31,7 +31,7 @@ using Args = std::vector<std::string>;
 // The unit suffixes (docs/json.md). `_k` is kelvin: a B-value, or a temperature difference.
 const std::vector<std::string> kSuffixes = {"_ohm",   "_c",         "_k",        "_w",       "_v",   "_a",
                                             "_f",     "_s",         "_lsb",      "_v_per_v", "_pct", "_pct_fsd",
-                                            "_per_k", "_ppm_per_k", "_mw_per_k", "_per_code"};
+                                            "_per_k", "_ppm_per_k", "_mw_per_k", "_per_code", "_codes", "_codes_per_k"};
 
 // The keys without a suffix, by kind; docs/json.md has the same table.
 const std::map<std::string, std::string> kPlainKeys = {
@@ -91,6 +91,7 @@ const std::set<std::string> kCelsiusKeys = {"t_c",
                                             "at_t_c",
                                             "centre_c",
                                             "coefficients_from_c",
+                                            "offset_from_c",
                                             "r25_at_t_c",
                                             "cable_lo_c",
                                             "cable_hi_c",
@@ -315,6 +316,19 @@ std::vector<Variant> variants(const std::string& parts) {
                                                      "--spacing", "error", "--fault-margin", "2C"})},
         {"design", with(with({"design"}, kThermistor), design), false},
         {"design with a parts file", with({"design", "--candidates", parts}, design), false},
+        {"design on a drive with self-heating",
+         with(with(with({"design"}, kThermistor), design),
+              {"--excitation", "3.3", "--adc-ref", "excitation", "--dissipation", "1.5", "--max-error", "1.5"}),
+         false},
+        {"budget of a bridge through an amplifier with its errors",
+         with(with({"budget"}, kThermistor),
+              {"--span", "0:45", "--step", "5", "--circuit", "bridge", "--r1", "10k", "--auto-range", "--excitation", "3.3", "--adc-ref",
+                       "excitation", "--adc-bits", "12", "--trials", "500", "--amp-gain-tol", "0.5", "--amp-offset",
+                       "1m", "--amp-offset-drift", "5u", "--amp-bias", "20n", "--amp-offset-current", "5n"})},
+        {"size through an amplifier with codes constraints",
+         {"size", "--r25", "10k", "--beta", "3950", "--span", "0:50", "--step", "5", "--circuit", "divider-low",
+          "--gain", "2", "--adc-bits", "12", "--objective", "resolution", "--min-span", "2500", "--min-sensitivity",
+          "20"}},
     };
 }
 
@@ -397,8 +411,8 @@ TEST_CASE("every number in every command's JSON and CSV says its unit") {
         CHECK(csv_bad.empty());
         ++csvs;
     }
-    CHECK(documents == 26);
-    CHECK(csvs == 22);
+    CHECK(documents == 29);
+    CHECK(csvs == 24);
 }
 
 TEST_CASE("docs/json.md lists the same suffixes, keys without a suffix and temperature keys as the rule") {
