@@ -38,6 +38,8 @@ import sys
 import numpy as np
 from scipy.optimize import brentq
 
+from sample_stats import summary
+
 T0 = 298.15
 
 
@@ -118,11 +120,6 @@ def alone(d, t):
     return out
 
 
-def nearest_rank(sorted_x, p):
-    n = len(sorted_x)
-    return sorted_x[max(1, math.ceil(p * n - 1e-9)) - 1]
-
-
 def mc(d, t, rng):
     n = d["trials"]
     s = lambda tol: rng.normal(0.0, tol / 3.0, n)  # noqa: E731
@@ -134,20 +131,7 @@ def mc(d, t, rng):
     codes = 2.0 ** d["bits"]
     u = np.rint(measured(d, t, dr, db, d1, d2, d3, dg, vos, drift, tb, ib, ios) * codes) / codes
     e = read_bisect(d, u, t) - t
-    mean, sd = float(np.mean(e)), float(np.std(e, ddof=1))
-    m4 = float(np.mean((e - mean) ** 4))
-    out = {"mean": mean, "mean_se": sd / math.sqrt(n), "std": sd,
-           "std_se": math.sqrt(max(m4 - sd ** 4, 0.0) / n) / (2 * sd)}
-    es = np.sort(e)
-    ab = np.sort(np.abs(e))
-    for key, x, p in [("p0_135", es, 0.00135), ("p2_5", es, 0.025), ("p97_5", es, 0.975),
-                      ("p99_865", es, 0.99865), ("p99_7", ab, 0.997)]:
-        v = float(nearest_rank(x, p))
-        h = 0.5 * sd
-        f = float(np.count_nonzero(np.abs(x - v) <= h)) / (n * 2 * h)
-        out[key] = v
-        out[key + "_se"] = math.sqrt(p * (1 - p) / n) / f
-    return out
+    return summary(e)
 
 
 def main():

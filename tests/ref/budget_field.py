@@ -29,6 +29,8 @@ import sys
 import numpy as np
 from scipy.optimize import brentq
 
+from sample_stats import summary
+
 T0 = 298.15
 CU = 0.00393
 
@@ -81,11 +83,6 @@ def corners(d, t):
     return lo, hi
 
 
-def nearest_rank(sorted_x, p):
-    n = len(sorted_x)
-    return sorted_x[max(1, math.ceil(p * n - 1e-9)) - 1]
-
-
 def mc(d, t, rng):
     n = d["trials"]
     s = lambda tol: rng.normal(0.0, tol / 3.0, n)  # noqa: E731
@@ -99,20 +96,7 @@ def mc(d, t, rng):
     gain = u(-d["gain"], d["gain"])
     q = u(-d["offset_lsb"], d["offset_lsb"]) + u(-d["inl_lsb"], d["inl_lsb"])
     e = error(d, t, dr, db, drift, drs, ctc, tb, dl, tc, dref, ctref, gain, q, True)
-    mean, sd = float(np.mean(e)), float(np.std(e, ddof=1))
-    m4 = float(np.mean((e - mean) ** 4))
-    out = {"mean": mean, "mean_se": sd / math.sqrt(n), "std": sd,
-           "std_se": math.sqrt(max(m4 - sd ** 4, 0.0) / n) / (2 * sd)}
-    es = np.sort(e)
-    ab = np.sort(np.abs(e))
-    for key, x, p in [("p0_135", es, 0.00135), ("p2_5", es, 0.025), ("p97_5", es, 0.975),
-                      ("p99_865", es, 0.99865), ("p99_7", ab, 0.997)]:
-        v = float(nearest_rank(x, p))
-        h = 0.5 * sd
-        f = float(np.count_nonzero(np.abs(x - v) <= h)) / (n * 2 * h)
-        out[key] = v
-        out[key + "_se"] = math.sqrt(p * (1 - p) / n) / f
-    return out
+    return summary(e)
 
 
 def main():
