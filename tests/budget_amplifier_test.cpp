@@ -50,12 +50,7 @@ std::vector<std::string> joined(std::vector<std::string> a, const std::vector<st
     return a;
 }
 
-json run_json(const std::vector<std::string>& args) {
-    const auto r = run_rtline(args);
-    INFO(r.err);
-    REQUIRE(r.code == 0);
-    return json::parse(r.out);
-}
+json run_json(const std::vector<std::string>& args) { return rtline::test::run_json_ok(args); }
 
 double beta_r(double t_k) { return 10e3 * std::exp(kB * (1.0 / t_k - 1.0 / 298.15)); }
 
@@ -117,21 +112,7 @@ TEST_CASE("a bridge through an amplifier: the Monte Carlo agrees with an indepen
     in["seed"] = 11;
     const json ref = python_ref("budget_amplifier.py", in);
     const json out = run_json(joined(bridge_args({"--adc-bits", "16", "--trials", "200000"}), kAmpErrors));
-    for (std::size_t i = 0; i < 5; ++i) {
-        const json& p = out["points"][i];
-        const json& mc = p["mc"];
-        const json& r = ref["points"][i];
-        const double step = p["resolution_k_per_lsb"].get<double>();
-        CAPTURE(p["t_c"].get<double>());
-        const double k = 4.0 * std::sqrt(2.0);
-        CHECK(std::abs(mc["mean_k"].get<double>() - r["mean"].get<double>()) < k * r["mean_se"].get<double>());
-        CHECK(std::abs(mc["std_k"].get<double>() - r["std"].get<double>()) < k * r["std_se"].get<double>());
-        for (const char* key : {"p0_135", "p2_5", "p97_5", "p99_865", "p99_7"}) {
-            CAPTURE(key);
-            const double d = std::abs(mc[std::string(key) + "_k"].get<double>() - r[key].get<double>());
-            CHECK(d < k * r[std::string(key) + "_se"].get<double>() + step);
-        }
-    }
+    rtline::test::check_monte_carlo(out, ref, 5);
 }
 
 TEST_CASE("the input offset alone: gain·V_os at the converter over the converter input's slope") {

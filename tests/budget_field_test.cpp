@@ -94,12 +94,7 @@ std::vector<std::string> field_args(int bits, const std::string& trials) {
             "json"};
 }
 
-json run_json(const std::vector<std::string>& args) {
-    const auto r = run_rtline(args);
-    INFO(r.err);
-    REQUIRE(r.code == 0);
-    return json::parse(r.out);
-}
+json run_json(const std::vector<std::string>& args) { return rtline::test::run_json_ok(args); }
 
 std::vector<std::string> bare(const std::vector<std::string>& more) {
     std::vector<std::string> a = {"budget", "--r25",    "10k",       "--beta",   "3950",      "--span", "-40:60",
@@ -148,21 +143,7 @@ TEST_CASE("every field cause together: the Monte Carlo agrees with an independen
     in["seed"] = 7;
     const json ref = python_ref("budget_field.py", in);
     const json out = run_json(field_args(16, "200000"));
-    for (std::size_t i = 0; i < 5; ++i) {
-        const json& p = out["points"][i];
-        const json& mc = p["mc"];
-        const json& r = ref["points"][i];
-        const double step = p["resolution_k_per_lsb"].get<double>();
-        CAPTURE(p["t_c"].get<double>());
-        const double k = 4.0 * std::sqrt(2.0);
-        CHECK(std::abs(mc["mean_k"].get<double>() - r["mean"].get<double>()) < k * r["mean_se"].get<double>());
-        CHECK(std::abs(mc["std_k"].get<double>() - r["std"].get<double>()) < k * r["std_se"].get<double>());
-        for (const char* key : {"p0_135", "p2_5", "p97_5", "p99_865", "p99_7"}) {
-            CAPTURE(key);
-            const double d = std::abs(mc[std::string(key) + "_k"].get<double>() - r[key].get<double>());
-            CHECK(d < k * r[std::string(key) + "_se"].get<double>() + step);
-        }
-    }
+    rtline::test::check_monte_carlo(out, ref, 5);
 }
 
 TEST_CASE("lead wires alone on a bare thermistor: the error is dR over dR/dT") {

@@ -17,12 +17,7 @@ namespace {
 
 constexpr double kB = 3950.0;  // K; a common B25/85 (common practice, no source)
 
-json run_json(const std::vector<std::string>& args) {
-    const auto r = run_rtline(args);
-    INFO(r.err);
-    REQUIRE(r.code == 0);
-    return json::parse(r.out);
-}
+json run_json(const std::vector<std::string>& args) { return rtline::test::run_json_ok(args); }
 
 double beta_r(double t_k) { return 10e3 * std::exp(kB * (1.0 / t_k - 1.0 / 298.15)); }
 

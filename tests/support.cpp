@@ -84,6 +84,31 @@ Run run_rtline(const std::vector<std::string>& args, const std::string& input) {
     return run_shell(command, input);
 }
 
+nlohmann::json run_json_ok(const std::vector<std::string>& args) {
+    const Run r = run_rtline(args);
+    INFO(r.err);
+    REQUIRE(r.code == 0);
+    return nlohmann::json::parse(r.out);
+}
+
+void check_monte_carlo(const nlohmann::json& budget, const nlohmann::json& ref, std::size_t points) {
+    const double k = 4.0 * std::sqrt(2.0);
+    for (std::size_t i = 0; i < points; ++i) {
+        const nlohmann::json& p = budget["points"][i];
+        const nlohmann::json& mc = p["mc"];
+        const nlohmann::json& r = ref["points"][i];
+        const double step = p["resolution_k_per_lsb"].get<double>();
+        CAPTURE(p["t_c"].get<double>());
+        CHECK(std::abs(mc["mean_k"].get<double>() - r["mean"].get<double>()) < k * r["mean_se"].get<double>());
+        CHECK(std::abs(mc["std_k"].get<double>() - r["std"].get<double>()) < k * r["std_se"].get<double>());
+        for (const char* key : {"p0_135", "p2_5", "p97_5", "p99_865", "p99_7"}) {
+            CAPTURE(key);
+            const double d = std::abs(mc[std::string(key) + "_k"].get<double>() - r[key].get<double>());
+            CHECK(d < k * r[std::string(key) + "_se"].get<double>() + step);
+        }
+    }
+}
+
 nlohmann::json python_ref(const std::string& script, const nlohmann::json& input) {
     const std::string path = source_dir() + "/tests/ref/" + script;
     const Run r = run_shell("/usr/bin/python3 " + quote(path), input.dump());

@@ -20,6 +20,17 @@ Run run_shell(const std::string& command, const std::string& input = "");
 // Runs the built rtline with the given arguments (each quoted for the shell).
 Run run_rtline(const std::vector<std::string>& args, const std::string& input = "");
 
+// Runs the built rtline with `args`, requires exit 0 (its stderr shown when not), and returns its
+// stdout parsed as JSON.
+nlohmann::json run_json_ok(const std::vector<std::string>& args);
+
+// Checks a budget document's Monte Carlo at its first `points` temperatures against a numpy
+// reference's statistics and their standard errors (tests/ref/sample_stats.py): the mean and standard
+// deviation within 4·√2 of the reference's standard errors (two independent estimates; a 6e-5 chance
+// per check for a normal difference), each percentile that plus one LSB's worth of temperature (the
+// converter's codes make the errors discrete, so a percentile may land on either neighbour).
+void check_monte_carlo(const nlohmann::json& budget, const nlohmann::json& ref, std::size_t points);
+
 // Runs tests/ref/<script> with Debian's python3 (which has python3-numpy and python3-scipy), the JSON
 // `input` on stdin; returns its stdout parsed as JSON. Fails the test if the script fails.
 nlohmann::json python_ref(const std::string& script, const nlohmann::json& input);
