@@ -68,13 +68,7 @@ TEST_CASE("a bridge through an amplifier with its errors: the worst case is an i
     const json ref = python_ref("budget_amplifier.py", in);
     const json out = run_json(joined(bridge_args({"--adc-bits", "12", "--trials", "0"}), kAmpErrors));
     REQUIRE(out["points"].size() == 5);
-    for (std::size_t i = 0; i < 5; ++i) {
-        const json& p = out["points"][i];
-        const json& r = ref["points"][i];
-        CAPTURE(p["t_c"].get<double>());
-        CHECK(p["worst_low_k"].get<double>() == doctest::Approx(r["low_k"].get<double>()).epsilon(1e-9));
-        CHECK(p["worst_high_k"].get<double>() == doctest::Approx(r["high_k"].get<double>()).epsilon(1e-9));
-    }
+    rtline::test::check_worst_case(out, ref);
 }
 
 TEST_CASE("each of the amplifier's errors alone is the numpy model's error at its bound") {

@@ -119,13 +119,7 @@ TEST_CASE("every field cause together: the worst case is the corner enumeration 
     const json ref = python_ref("budget_field.py", in);
     const json out = run_json(field_args(12, "0"));
     REQUIRE(out["points"].size() == 5);
-    for (std::size_t i = 0; i < 5; ++i) {
-        const json& p = out["points"][i];
-        const json& r = ref["points"][i];
-        CAPTURE(p["t_c"].get<double>());
-        CHECK(p["worst_low_k"].get<double>() == doctest::Approx(r["low_k"].get<double>()).epsilon(1e-9));
-        CHECK(p["worst_high_k"].get<double>() == doctest::Approx(r["high_k"].get<double>()).epsilon(1e-9));
-    }
+    rtline::test::check_worst_case(out, ref);
 }
 
 TEST_CASE("every field cause together: the Monte Carlo agrees with an independent numpy one within sampling error") {

@@ -91,6 +91,17 @@ nlohmann::json run_json_ok(const std::vector<std::string>& args) {
     return nlohmann::json::parse(r.out);
 }
 
+void check_worst_case(const nlohmann::json& budget, const nlohmann::json& ref) {
+    REQUIRE(budget["points"].size() == ref["points"].size());
+    for (std::size_t i = 0; i < budget["points"].size(); ++i) {
+        const nlohmann::json& p = budget["points"][i];
+        const nlohmann::json& r = ref["points"][i];
+        CAPTURE(p["t_c"].get<double>());
+        CHECK(p["worst_low_k"].get<double>() == doctest::Approx(r["low_k"].get<double>()).epsilon(1e-9));
+        CHECK(p["worst_high_k"].get<double>() == doctest::Approx(r["high_k"].get<double>()).epsilon(1e-9));
+    }
+}
+
 void check_monte_carlo(const nlohmann::json& budget, const nlohmann::json& ref, std::size_t points) {
     const double k = 4.0 * std::sqrt(2.0);
     for (std::size_t i = 0; i < points; ++i) {

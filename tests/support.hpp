@@ -24,6 +24,11 @@ Run run_rtline(const std::vector<std::string>& args, const std::string& input = 
 // stdout parsed as JSON.
 nlohmann::json run_json_ok(const std::vector<std::string>& args);
 
+// Checks a budget document's worst case at each of its temperatures against a numpy corner
+// enumeration's {"low_k", "high_k"} per point, to 1e-9 relative (the root finders' precision); the
+// two have the same number of points.
+void check_worst_case(const nlohmann::json& budget, const nlohmann::json& ref);
+
 // Checks a budget document's Monte Carlo at its first `points` temperatures against a numpy
 // reference's statistics and their standard errors (tests/ref/sample_stats.py): the mean and standard
 // deviation within 4·√2 of the reference's standard errors (two independent estimates; a 6e-5 chance

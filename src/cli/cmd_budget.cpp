@@ -36,14 +36,14 @@ const char* const kDegC =
 std::string amplifier_errors_text(const AmplifierErrors& e) {
     std::vector<std::string> terms;
     if (e.gain_error > 0.0) terms.push_back("gain \xC2\xB1" + format_number(100.0 * e.gain_error) + " %");
-    if (e.offset_v > 0.0) terms.push_back("input offset \xC2\xB1" + si(e.offset_v, "V"));
+    if (e.offset_v > 0.0) terms.push_back("input offset \xC2\xB1" + format_si(e.offset_v, "V"));
     if (e.offset_drift_v_per_k > 0.0) {
-        terms.push_back("offset drift \xC2\xB1" + si(e.offset_drift_v_per_k, "V/K") + " from " +
+        terms.push_back("offset drift \xC2\xB1" + format_si(e.offset_drift_v_per_k, "V/K") + " from " +
                         format_number(kelvin_to_celsius(e.reference_t_k)) + " \xC2\xB0" + "C to the board");
     }
-    if (e.bias_current_a > 0.0) terms.push_back("bias current \xC2\xB1" + si(e.bias_current_a, "A"));
+    if (e.bias_current_a > 0.0) terms.push_back("bias current \xC2\xB1" + format_si(e.bias_current_a, "A"));
     if (e.offset_current_a > 0.0) {
-        terms.push_back("offset current \xC2\xB1" + si(e.offset_current_a, "A"));
+        terms.push_back("offset current \xC2\xB1" + format_si(e.offset_current_a, "A"));
     }
     std::string t;
     for (const std::string& term : terms) t += (t.empty() ? "" : ", ") + term;

@@ -62,14 +62,6 @@ Largest worst_settling(const FrontEndReport& r) {
 
 }  // namespace
 
-std::string si(double v, const std::string& unit) {
-    static const char* const prefixes[] = {"p", "n", "\xC2\xB5", "m", "", "k", "M", "G"};
-    if (v == 0.0 || !std::isfinite(v)) return format_number(v, 4) + " " + unit;
-    int e = static_cast<int>(std::floor(std::log10(std::abs(v)) / 3.0));
-    e = std::max(-4, std::min(3, e));
-    return format_number(v / std::pow(1000.0, e), 4) + " " + prefixes[e + 4] + unit;
-}
-
 bool FrontEndOptions::given() const {
     return !gain.empty() || !offset.empty() || auto_range || !headroom.empty() || !amp_output.empty() ||
            !adc_bits.empty() || !adc_ref.empty() || !sample_cap.empty() || !acquisition.empty();

@@ -14,8 +14,6 @@
 
 namespace rtline::cli {
 
-// A value with an SI prefix and its unit, 4 figures: 8.191e-08 F -> "81.91 nF".
-[[nodiscard]] std::string si(double v, const std::string& unit);
 
 struct FrontEndOptions {
     std::string gain;         // V/V
