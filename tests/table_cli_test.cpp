@@ -471,6 +471,12 @@ TEST_CASE("bad input exits 2 with one line naming the flag and the value") {
         {{"--degree", "2", "--format", "csv"},
          "--format 'csv': CSV carries the table alone; use text or json for the "
          "polynomial"},
+        // Hand calculation (beta equation, Ohm's law): at 0 degC R_T = 33.62k, so divider-low gives
+        // 3.3·33.62/(33.62 + 10) = 2.543 V, past the top of a fixed 1 V reference.
+        {{"--excitation", "3.3", "--adc-ref", "1.0"},
+         "--adc-ref '1.0': at 0 " + deg +
+             " the converter input is 2.543 of the reference, outside 0 to 1: that end of the span would read as a "
+             "rail (a reference at or above the supply, or a divider whose output stays below it)"},
         {{"--current", "100u"},
          "--current '100u': a current drive is read only across a bare or shunt thermistor; a divider "
          "or bridge is read ratiometrically, against its own excitation"},

@@ -28,15 +28,22 @@ CodeMap map_codes(const Thermistor& model, const Channel& channel, const Span& s
     const double v_b = channel_ratio(channel, model.resistance(span.hi_k));
     for (const auto& [v, t_k] : {std::pair{v_a, span.lo_k}, std::pair{v_b, span.hi_k}}) {
         if (!(v >= 0.0 && v <= 1.0)) {
+            // What to change: the amplifier's gain, else the drive (a current, or a supply above a fixed
+            // reference).
             const bool amp = channel.amplifier.has_value();
-            throw InputError(amp ? Input::gain : Input::current,
-                             describe(amp ? channel.amplifier->gain : channel.circuit.excitation.value),
+            const bool current = channel.circuit.excitation.drive == Drive::current;
+            const Input input = amp ? Input::gain : current ? Input::current : Input::reference;
+            const double value = amp ? channel.amplifier->gain : current ? channel.circuit.excitation.value
+                                                                         : channel.reference;
+            const char* hint = amp       ? " (lower the gain, or use {output_range})"
+                               : current ? " (lower the current)"
+                                         : " (a reference at or above the supply, or a divider whose output stays below it)";
+            throw InputError(input, describe(value),
                              "at " + format_number(kelvin_to_celsius(t_k), 4) +
                                  " \xC2\xB0"
                                  "C the converter input is " +
                                  format_number(v, 4) +
-                                 " of the reference, outside 0 to 1: that end of the span would read as a rail" +
-                                 (amp ? " (lower the gain, or use {output_range})" : " (lower the current)"));
+                                 " of the reference, outside 0 to 1: that end of the span would read as a rail" + hint);
         }
     }
     // Code k stands for (k + offset)/steps: offset ½ for truncating, else 0 (converter.hpp).
