@@ -282,7 +282,9 @@ TEST_CASE("design that cannot meet its target exits 1 with the closest design an
     CHECK(run.err.find("the closest design: divider-") != std::string::npos);
 
     // At 0.5 degC no one cause reaches the target (the B tolerance's 0.39 is the largest): the message
-    // says they do together rather than blaming one that alone would pass.
+    // says they do together rather than blaming one that alone would pass. The 0.39 by hand (beta
+    // equation): firmware inverting B = 3950 K for a part at 1.01·B reads 1/T' − 1/T0 = 1.01·(1/T − 1/T0);
+    // at 60 degC that is 1/T' = 1/298.15 − 1.01·3.5237e-4, T' = 333.54 K, 0.39 K warm.
     const auto together = run_rtline(with(kOne, {"--max-error", "0.5", "--trials", "0"}));
     CHECK(together.code == 1);
     INFO(together.err);
